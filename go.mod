@@ -1,0 +1,5 @@
+module github.com/propscope/propscope
+
+go 1.24.0
+
+require gonum.org/v1/gonum v0.17.0

@@ -1,0 +1,64 @@
+package proportions
+
+// GroupEstimate is one group's data and its proportion with intervals from
+// every registered single-proportion method (Wilson first).
+type GroupEstimate struct {
+	Group      Group      `json:"group"`
+	Proportion float64    `json:"proportion"`
+	Intervals  []Interval `json:"intervals"`
+}
+
+// Warning is a caution attached to an analysis. Code is a stable
+// machine-readable key (listed with the constants below); Message is plain
+// language for the reader.
+type Warning struct {
+	Code    string `json:"code"`
+	Message string `json:"message"`
+}
+
+// Warning codes.
+const (
+	// WarnSmallExpected: an expected cell count under the null is below 5,
+	// so asymptotic tests and intervals may mislead; exact methods are advised.
+	WarnSmallExpected = "small-expected-counts"
+	// WarnZeroCell: a cell of the 2×2 table is zero.
+	WarnZeroCell = "zero-cell"
+	// WarnUndercoverage: a method's exact coverage at this design falls
+	// below the nominal level by more than the tolerance.
+	WarnUndercoverage = "undercoverage"
+	// WarnHealthDecision: the usual caution where health or safety
+	// decisions may follow.
+	WarnHealthDecision = "decision-caution"
+)
+
+// Analysis is the default analysis of a comparison: what the one-call
+// [Analyze] returns and what the notebook's result card renders. Its JSON
+// field names are stable.
+type Analysis struct {
+	Comparison Comparison `json:"comparison"`
+	Level      float64    `json:"level"`
+	// Null and Alternative are the hypothesis about π1 − π2 that was tested.
+	Null        float64     `json:"null"`
+	Alternative Alternative `json:"alternative"`
+	// Groups holds the two groups' estimates, first then second.
+	Groups [2]GroupEstimate `json:"groups"`
+	// Difference is p1 − p2.
+	Difference float64 `json:"difference"`
+	// Interval is the headline interval for π1 − π2, the one that inverts
+	// Test (so it excludes Null exactly when Test rejects).
+	Interval Interval `json:"interval"`
+	// Test is the headline test, paired with Interval.
+	Test TestResult `json:"test"`
+	// Tests are every registered test on the difference scale that applies.
+	Tests []TestResult `json:"tests"`
+	// Intervals are every registered interval method for the difference.
+	Intervals []Interval `json:"intervals"`
+	// Ratios and OddsRatios hold every registered ratio and odds-ratio
+	// interval (empty until those methods are registered).
+	Ratios     []Interval `json:"ratios,omitempty"`
+	OddsRatios []Interval `json:"odds_ratios,omitempty"`
+	// Conclusion is a plain-language reading of the headline result. It
+	// never reads a non-rejection as evidence of equality.
+	Conclusion string    `json:"conclusion"`
+	Warnings   []Warning `json:"warnings"`
+}

@@ -1,0 +1,41 @@
+package proportions
+
+import "errors"
+
+// Sentinel errors. Every error returned by this package for bad input wraps
+// exactly one of these, with a message that says what was wrong and what is
+// allowed; test for them with errors.Is.
+var (
+	// ErrNegativeCount: a count of events or trials is below zero.
+	ErrNegativeCount = errors.New("negative count")
+	// ErrEventsExceedTrials: a group has more events than trials.
+	ErrEventsExceedTrials = errors.New("events exceed trials")
+	// ErrNoTrials: a group has zero trials, so its proportion is undefined.
+	ErrNoTrials = errors.New("group has no trials")
+	// ErrGroupCount: the data hold other than exactly two groups.
+	ErrGroupCount = errors.New("need exactly two groups")
+	// ErrUnknownGroup: a named group does not occur in the data.
+	ErrUnknownGroup = errors.New("unknown group")
+	// ErrOutcomeValue: an outcome value is neither the event nor a non-event.
+	ErrOutcomeValue = errors.New("outcome is neither event nor non-event")
+	// ErrEmptyInput: the input holds no data rows.
+	ErrEmptyInput = errors.New("empty input")
+	// ErrMissingColumn: a named column is not in the CSV header.
+	ErrMissingColumn = errors.New("missing column")
+	// ErrMalformedRow: a CSV row cannot be read (its line number is in the message).
+	ErrMalformedRow = errors.New("malformed row")
+	// ErrLevel: a confidence level is not strictly between 0 and 1.
+	ErrLevel = errors.New("level outside (0, 1)")
+	// ErrMargin: a null value or margin lies outside the allowed range for
+	// its scale: (−1, 1) for a difference, (0, ∞) for a ratio or odds ratio.
+	ErrMargin = errors.New("margin outside the allowed range")
+	// ErrAlternative: an unknown alternative hypothesis.
+	ErrAlternative = errors.New("unknown alternative")
+	// ErrUnknownMethod: no registered method has the given key.
+	ErrUnknownMethod = errors.New("unknown method")
+	// ErrUnsupported: the method does not support the requested hypothesis
+	// (for example a non-zero margin for a test defined only at zero).
+	ErrUnsupported = errors.New("not supported by this method")
+	// ErrTooLarge: a count is larger than the library handles.
+	ErrTooLarge = errors.New("count too large")
+)

@@ -1,0 +1,105 @@
+package proportions
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+)
+
+// Family is the quantity an interval method estimates or a test is about.
+type Family int
+
+// The families of methods.
+const (
+	// Difference is π1 − π2, in [−1, 1].
+	Difference Family = iota
+	// Ratio is the relative risk π1/π2, in [0, ∞].
+	Ratio
+	// OddsRatio is π1(1−π2) / (π2(1−π1)), in [0, ∞].
+	OddsRatio
+	// Proportion is one group's π, in [0, 1].
+	Proportion
+)
+
+var familyNames = [...]string{"difference", "ratio", "odds ratio", "proportion"}
+
+// String returns the family's plain name.
+func (f Family) String() string {
+	if f < 0 || int(f) >= len(familyNames) {
+		return fmt.Sprintf("family(%d)", int(f))
+	}
+	return familyNames[f]
+}
+
+// MarshalJSON writes the plain name.
+func (f Family) MarshalJSON() ([]byte, error) { return json.Marshal(f.String()) }
+
+// UnmarshalJSON reads the plain name.
+func (f *Family) UnmarshalJSON(b []byte) error {
+	var s string
+	if err := json.Unmarshal(b, &s); err != nil {
+		return err
+	}
+	for i, n := range familyNames {
+		if n == s {
+			*f = Family(i)
+			return nil
+		}
+	}
+	return fmt.Errorf("unknown family %q", s)
+}
+
+// NoEffect is the value of the family's parameter when the groups do not
+// differ: 0 for a difference, 1 for a ratio or odds ratio.
+func (f Family) NoEffect() float64 {
+	if f == Ratio || f == OddsRatio {
+		return 1
+	}
+	return 0
+}
+
+// Bounds returns the parameter space [lo, hi] of the family. Reported
+// interval limits are clipped to it (the raw limits are kept beside them).
+func (f Family) Bounds() (lo, hi float64) {
+	switch f {
+	case Difference:
+		return -1, 1
+	case Ratio, OddsRatio:
+		return 0, math.Inf(1)
+	default:
+		return 0, 1
+	}
+}
+
+// Estimate returns the family's point estimate from counts: p1 − p2 for
+// the difference; p1/p2 for the ratio and (x1(n2−x2))/(x2(n1−x1)) for the
+// odds ratio, which are +Inf when only the denominator is zero. When both
+// numerator and denominator are zero the ratio or odds ratio is not
+// estimable; Estimate then returns NaN and callers must report it as not
+// estimable (EstimateDefined tells which case applies).
+func (f Family) Estimate(c Counts) float64 {
+	switch f {
+	case Difference:
+		return c.P1() - c.P2()
+	case Ratio:
+		return ratioOf(float64(c.X1)*float64(c.N2), float64(c.X2)*float64(c.N1))
+	case OddsRatio:
+		return ratioOf(float64(c.X1)*float64(c.N2-c.X2), float64(c.X2)*float64(c.N1-c.X1))
+	default:
+		return c.P1()
+	}
+}
+
+// EstimateDefined reports whether Estimate returns a number (possibly +Inf)
+// rather than the not-estimable 0/0 case.
+func (f Family) EstimateDefined(c Counts) bool { return !math.IsNaN(f.Estimate(c)) }
+
+func ratioOf(num, den float64) float64 {
+	switch {
+	case den == 0 && num == 0:
+		return math.NaN()
+	case den == 0:
+		return math.Inf(1)
+	}
+	return num / den
+}

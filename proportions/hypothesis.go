@@ -1,0 +1,185 @@
+package proportions
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+)
+
+// Alternative is the direction of the alternative hypothesis about the
+// parameter θ (π1 − π2, π1/π2 or the odds ratio) against its null value θ0.
+type Alternative int
+
+const (
+	// TwoSided: θ ≠ θ0.
+	TwoSided Alternative = iota
+	// Greater: θ > θ0 (the first group's rate is higher than the null allows).
+	Greater
+	// Less: θ < θ0.
+	Less
+)
+
+var alternativeNames = [...]string{"two-sided", "greater", "less"}
+
+// String returns "two-sided", "greater" or "less".
+func (a Alternative) String() string {
+	if a < 0 || int(a) >= len(alternativeNames) {
+		return fmt.Sprintf("alternative(%d)", int(a))
+	}
+	return alternativeNames[a]
+}
+
+// Validate returns an error wrapping ErrAlternative for unknown values.
+func (a Alternative) Validate() error {
+	if a < 0 || int(a) >= len(alternativeNames) {
+		return fmt.Errorf("alternative %d: %w; use TwoSided, Greater or Less", int(a), ErrAlternative)
+	}
+	return nil
+}
+
+// MarshalJSON writes the plain name.
+func (a Alternative) MarshalJSON() ([]byte, error) { return json.Marshal(a.String()) }
+
+// UnmarshalJSON reads the plain name.
+func (a *Alternative) UnmarshalJSON(b []byte) error {
+	var s string
+	if err := json.Unmarshal(b, &s); err != nil {
+		return err
+	}
+	for i, n := range alternativeNames {
+		if n == s {
+			*a = Alternative(i)
+			return nil
+		}
+	}
+	return fmt.Errorf("alternative %q: %w; use \"two-sided\", \"greater\" or \"less\"", s, ErrAlternative)
+}
+
+// Hypothesis is what a test is asked: the null value of the parameter, the
+// alternative, and the confidence (the test's level is α = 1 − Level).
+type Hypothesis struct {
+	Null        float64     `json:"null"`
+	Alternative Alternative `json:"alternative"`
+	Conf        Confidence  `json:"confidence"`
+}
+
+// Alpha returns the significance level 1 − Conf.Level.
+func (h Hypothesis) Alpha() float64 { return 1 - h.Conf.Level }
+
+// TestMethod is a published test registered by name. Like IntervalMethod it
+// is a value: adding a test is one file, one line in a registry list, and
+// its tests.
+type TestMethod struct {
+	Key        string `json:"key"`
+	Name       string `json:"name"`
+	Citation   string `json:"citation"`
+	Definition string `json:"definition"`
+	// Family is the scale of the null value (difference, ratio, odds ratio).
+	Family Family `json:"family"`
+	// Margins reports whether the test accepts a null other than no effect.
+	Margins bool `json:"margins"`
+	// Exact marks tests whose size never exceeds α by construction.
+	Exact bool `json:"exact"`
+	// Run computes the test for validated counts and a validated hypothesis
+	// (Test does the validation). It must never return NaN.
+	Run func(c Counts, h Hypothesis) TestResult `json:"-"`
+}
+
+// Test validates the counts and the options, then runs the test. It reads
+// the settings Level, Null (default: the family's no-effect value) and
+// Alternative.
+func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
+	if err := c.Validate(); err != nil {
+		return TestResult{}, err
+	}
+	s, err := NewSettings(opts...)
+	if err != nil {
+		return TestResult{}, err
+	}
+	h, err := m.Hypothesis(s)
+	if err != nil {
+		return TestResult{}, err
+	}
+	return m.Run(c, h), nil
+}
+
+// Hypothesis turns settings into a validated hypothesis for this test.
+func (m TestMethod) Hypothesis(s Settings) (Hypothesis, error) {
+	null := s.NullFor(m.Family)
+	if err := ValidateNull(m.Family, null); err != nil {
+		return Hypothesis{}, err
+	}
+	if !m.Margins && null != m.Family.NoEffect() {
+		return Hypothesis{}, fmt.Errorf("%s with null %v: %w; this test is defined only for a null of %v",
+			m.Name, null, ErrUnsupported, m.Family.NoEffect())
+	}
+	conf, err := NewConfidence(s.Level)
+	if err != nil {
+		return Hypothesis{}, err
+	}
+	return Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf}, nil
+}
+
+// TestResult is the outcome of one test.
+//
+// Decision rule: Reject is true when PValue ≤ α = 1 − Level. PValue is
+// accurate far into the tail; when it is below the smallest float64
+// (about 1e−308) it is 0 and LogPValue (natural log, always set) still
+// carries its value.
+type TestResult struct {
+	Method        string      `json:"method"`
+	Name          string      `json:"name"`
+	Family        Family      `json:"family"`
+	Null          float64     `json:"null"`
+	Alternative   Alternative `json:"alternative"`
+	Level         float64     `json:"level"`
+	StatisticName string      `json:"statistic_name"`
+	Statistic     float64     `json:"statistic"`
+	// DF is the degrees of freedom of a chi-square statistic; 0 when not defined.
+	DF        int     `json:"df,omitempty"`
+	PValue    float64 `json:"p_value"`
+	LogPValue float64 `json:"log_p_value"`
+	// CriticalValue is the statistic's rejection threshold at the level,
+	// nil where the test has none (exact tests).
+	CriticalValue *float64 `json:"critical_value,omitempty"`
+	Reject        bool     `json:"reject"`
+	// Nuisance is, for unconditional exact tests, the common success
+	// probability at which the supremum of the tail probability was found.
+	Nuisance *float64 `json:"nuisance,omitempty"`
+}
+
+// String prints a one-line summary such as
+// "Score (Farrington–Manning) z = 2.65, p = 0.0080: reject at 5%".
+func (r TestResult) String() string {
+	decision := "do not reject"
+	if r.Reject {
+		decision = "reject"
+	}
+	stat := ""
+	if r.StatisticName != "" {
+		stat = fmt.Sprintf(" %s = %.4g,", r.StatisticName, r.Statistic)
+	}
+	return fmt.Sprintf("%s:%s p = %s (%s, null %v): %s at %s%%", r.Name, stat, FormatP(r.PValue, r.LogPValue),
+		r.Alternative, r.Null, decision, strconv.FormatFloat(100*(1-r.Level), 'g', 4, 64))
+}
+
+// FormatP prints a p-value: 4 significant digits, scientific below 1e−4,
+// and from its log when the value underflows float64.
+func FormatP(p, logp float64) string {
+	switch {
+	case p == 0 && !math.IsInf(logp, -1):
+		e := logp / math.Ln10
+		exp := math.Floor(e)
+		return fmt.Sprintf("%.3fe%d", math.Pow(10, e-exp), int(exp))
+	case p < 1e-4:
+		return strconv.FormatFloat(p, 'e', 3, 64)
+	}
+	return strconv.FormatFloat(p, 'g', 4, 64)
+}
+
+// decide fills the decision fields of a result from its p-value.
+func (r *TestResult) decide(h Hypothesis) {
+	r.Null, r.Alternative, r.Level = h.Null, h.Alternative, h.Conf.Level
+	r.Reject = r.PValue <= h.Alpha()
+}

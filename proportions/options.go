@@ -1,0 +1,104 @@
+package proportions
+
+import (
+	"fmt"
+	"math"
+)
+
+// DefaultLevel is the confidence level used when none is given.
+const DefaultLevel = 0.95
+
+// Settings gathers every tunable of an analysis. Callers do not fill it
+// directly: they pass Options (WithLevel, WithNull, ...) to the functions
+// that accept them; each function documents which settings it reads.
+type Settings struct {
+	// Level is the two-sided confidence level; tests use α = 1 − Level.
+	Level float64
+	// Null is the value of π1 − π2 (or of the ratio / odds ratio for tests
+	// on those scales) under the null hypothesis; 0 for the difference.
+	Null float64
+	// nullSet records whether WithNull was given, since the default null
+	// depends on the scale (0 for a difference, 1 for a ratio).
+	nullSet bool
+	// Alternative is the direction of the alternative hypothesis.
+	Alternative Alternative
+	// ContinuityCorrection turns on Yates' correction for the chi-square
+	// test (off by default: it makes the test conservative, see chisquare.go).
+	ContinuityCorrection bool
+}
+
+// Option changes one setting. Options are applied in order.
+type Option func(*Settings)
+
+// WithLevel sets the confidence level, which must lie in (0, 1).
+func WithLevel(level float64) Option { return func(s *Settings) { s.Level = level } }
+
+// WithNull sets the null value: a difference δ in (−1, 1), or a ratio or odds
+// ratio in (0, ∞) for tests on those scales. A non-zero difference (or a
+// ratio other than 1) turns a test into a non-inferiority, superiority or
+// equivalence-margin test.
+func WithNull(null float64) Option {
+	return func(s *Settings) { s.Null = null; s.nullSet = true }
+}
+
+// WithAlternative sets the direction of the alternative hypothesis.
+func WithAlternative(a Alternative) Option { return func(s *Settings) { s.Alternative = a } }
+
+// WithContinuityCorrection turns Yates' continuity correction on or off for
+// the chi-square test.
+func WithContinuityCorrection(on bool) Option {
+	return func(s *Settings) { s.ContinuityCorrection = on }
+}
+
+// NewSettings applies the options to the defaults (level 0.95, null 0 for a
+// difference, two-sided, no continuity correction) and validates the result
+// for the difference scale.
+func NewSettings(opts ...Option) (Settings, error) {
+	s := Settings{Level: DefaultLevel, Alternative: TwoSided}
+	for _, o := range opts {
+		if o != nil {
+			o(&s)
+		}
+	}
+	if err := ValidateLevel(s.Level); err != nil {
+		return s, err
+	}
+	if err := s.Alternative.Validate(); err != nil {
+		return s, err
+	}
+	return s, nil
+}
+
+// NullFor returns the null value on the given scale: the value set with
+// WithNull, or the scale's no-effect value (0 or 1) when none was set.
+func (s Settings) NullFor(f Family) float64 {
+	if s.nullSet {
+		return s.Null
+	}
+	return f.NoEffect()
+}
+
+// ValidateLevel returns an error wrapping ErrLevel unless 0 < level < 1.
+func ValidateLevel(level float64) error {
+	if !(level > 0 && level < 1) {
+		return fmt.Errorf("level %v: %w; use a confidence level strictly between 0 and 1, such as 0.95", level, ErrLevel)
+	}
+	return nil
+}
+
+// ValidateNull returns an error wrapping ErrMargin unless the null value is
+// inside the parameter space of the family: (−1, 1) for the difference and
+// (0, ∞) for the ratio and the odds ratio.
+func ValidateNull(f Family, null float64) error {
+	switch f {
+	case Difference:
+		if !(null > -1 && null < 1) {
+			return fmt.Errorf("null difference %v: %w; a difference of proportions under the null must lie strictly between -1 and 1", null, ErrMargin)
+		}
+	case Ratio, OddsRatio:
+		if !(null > 0) || math.IsInf(null, 1) {
+			return fmt.Errorf("null %s %v: %w; it must be a finite number greater than 0", f, null, ErrMargin)
+		}
+	}
+	return nil
+}
