@@ -26,9 +26,9 @@ const (
 	// WarnUndercoverage: a method's exact coverage at this design falls
 	// below the nominal level by more than the tolerance.
 	WarnUndercoverage = "undercoverage"
-	// WarnHealthDecision: the usual caution where health or safety
-	// decisions may follow.
-	WarnHealthDecision = "decision-caution"
+	// WarnSkipped: a registered method was not run because the data exceed
+	// its SizeLimit.
+	WarnSkipped = "method-skipped"
 )
 
 // Analysis is the default analysis of a comparison: what the one-call
@@ -61,4 +61,8 @@ type Analysis struct {
 	// never reads a non-rejection as evidence of equality.
 	Conclusion string    `json:"conclusion"`
 	Warnings   []Warning `json:"warnings"`
+	// Caution is the standing reminder that statistical significance is not
+	// practical importance and that health or safety decisions follow the
+	// applicable regulations and a qualified statistician.
+	Caution string `json:"caution"`
 }

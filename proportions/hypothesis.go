@@ -81,6 +81,10 @@ type TestMethod struct {
 	Margins bool `json:"margins"`
 	// Exact marks tests whose size never exceeds α by construction.
 	Exact bool `json:"exact"`
+	// SizeLimit is the largest total n1 + n2 at which the test runs in about
+	// a second or less; 0 means no limit. Analyze skips a test above its
+	// limit and says so in a warning instead of hanging.
+	SizeLimit int64 `json:"size_limit,omitempty"`
 	// Run computes the test for validated counts and a validated hypothesis
 	// (Test does the validation). It must never return NaN.
 	Run func(c Counts, h Hypothesis) TestResult `json:"-"`

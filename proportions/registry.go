@@ -27,6 +27,10 @@ type IntervalMethod struct {
 	// Exact marks methods whose coverage is guaranteed by construction
 	// (exact or conservative); they can be slow.
 	Exact bool `json:"exact"`
+	// SizeLimit is the largest total n1 + n2 at which the method runs in
+	// about a second or less; 0 means no limit. Analyze skips a method above
+	// its limit and says so in a warning instead of hanging.
+	SizeLimit int64 `json:"size_limit,omitempty"`
 	// Limits computes the raw (unclipped) limits for valid counts at the
 	// given confidence. It must not allocate and must never return NaN:
 	// it is called for every outcome of a design by the coverage engine.
