@@ -85,6 +85,9 @@ type TestMethod struct {
 	// a second or less; 0 means no limit. Analyze skips a test above its
 	// limit and says so in a warning instead of hanging.
 	SizeLimit int64 `json:"size_limit,omitempty"`
+	// ContinuityCorrected marks a continuity-corrected variant (Yates);
+	// Analyze runs it only when WithContinuityCorrection(true) is given.
+	ContinuityCorrected bool `json:"continuity_corrected,omitempty"`
 	// Run computes the test for validated counts and a validated hypothesis
 	// (Test does the validation). It must never return NaN.
 	Run func(c Counts, h Hypothesis) TestResult `json:"-"`
