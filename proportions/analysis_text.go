@@ -1,0 +1,52 @@
+package proportions
+
+import (
+	"fmt"
+	"strings"
+)
+
+// String gives a readable plain-text summary of the analysis: the groups,
+// the headline difference and test, every interval and test, the
+// conclusion, the warnings and the caution.
+func (a Analysis) String() string {
+	var b strings.Builder
+	c := a.Comparison
+	fmt.Fprintf(&b, "Comparison of %q: %s vs %s\n", c.Event, c.First.Label, c.Second.Label)
+	for _, g := range a.Groups {
+		fmt.Fprintf(&b, "  %s: %d of %d, %s", g.Group.Label, g.Group.Events, g.Group.Trials, percent(g.Proportion))
+		if len(g.Intervals) > 0 {
+			iv := g.Intervals[0]
+			fmt.Fprintf(&b, " (%s %s: %s to %s)", iv.Name, levelPercent(iv.Level), percent(iv.Lower), percent(iv.Upper))
+		}
+		b.WriteString("\n")
+	}
+	fmt.Fprintf(&b, "Difference %s − %s: %s (%s %s interval %s to %s)\n", c.First.Label, c.Second.Label,
+		FormatValue(a.Difference), a.Interval.Name, levelPercent(a.Interval.Level), FormatValue(a.Interval.Lower), FormatValue(a.Interval.Upper))
+	fmt.Fprintf(&b, "Tests of difference = %v (%s):\n", a.Null, a.Alternative)
+	for _, t := range a.Tests {
+		fmt.Fprintf(&b, "  %s\n", t)
+	}
+	writeIntervals(&b, "Intervals for the difference", a.Intervals)
+	writeIntervals(&b, "Intervals for the ratio", a.Ratios)
+	writeIntervals(&b, "Intervals for the odds ratio", a.OddsRatios)
+	fmt.Fprintf(&b, "Conclusion: %s\n", a.Conclusion)
+	for _, w := range a.Warnings {
+		fmt.Fprintf(&b, "Warning (%s): %s\n", w.Code, w.Message)
+	}
+	fmt.Fprintf(&b, "Caution: %s\n", a.Caution)
+	return b.String()
+}
+
+func writeIntervals(b *strings.Builder, title string, ivs []Interval) {
+	if len(ivs) == 0 {
+		return
+	}
+	fmt.Fprintf(b, "%s (%s):\n", title, levelPercent(ivs[0].Level))
+	for _, iv := range ivs {
+		note := ""
+		if iv.Clipped {
+			note = fmt.Sprintf("  [raw %s to %s]", FormatValue(iv.RawLower), FormatValue(iv.RawUpper))
+		}
+		fmt.Fprintf(b, "  %-40s %s to %s%s\n", iv.Name, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
+	}
+}
