@@ -108,7 +108,9 @@ var (
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
 	// the ratio and odds-ratio scales.
 	asymptoticTests = []TestMethod{}
-	exactTests      = []TestMethod{}
+	exactTests      = []TestMethod{
+		Fisher, FisherMidP,
+	}
 	ratioTests      = []TestMethod{}
 )
 
