@@ -111,7 +111,7 @@ var (
 	exactTests      = []TestMethod{
 		Fisher, FisherMidP,
 	}
-	ratioTests      = []TestMethod{}
+	ratioTests = []TestMethod{}
 )
 
 // IntervalMethods returns the registered interval methods of a family, in
