@@ -2,9 +2,15 @@
 SHELL := /bin/bash
 GO ?= go
 
-.PHONY: help test go-test bench
+.PHONY: help notebook setup test go-test bench
 help:
 	@grep -E '^[a-z-]+:.*## ' $(MAKEFILE_LIST) | sed 's/:.*## /\t/'
+
+notebook: ## install what is missing, then open the example notebooks in Jupyter on 127.0.0.1
+	scripts/notebook.sh $(NOTEBOOK_ARGS)
+
+setup: ## install Jupyter, Chromium, GoNB and its tools (.bin/) and the kernel (.jupyter/)
+	scripts/setup-notebooks.sh
 
 test: go-test ## every test (the README's test command; .ci/run calls it)
 
