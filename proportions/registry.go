@@ -102,8 +102,12 @@ var (
 	differenceMethods = []IntervalMethod{
 		Wald,
 	}
-	ratioMethods      = []IntervalMethod{}
-	oddsRatioMethods  = []IntervalMethod{}
+	ratioMethods = []IntervalMethod{
+		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
+	}
+	oddsRatioMethods = []IntervalMethod{
+		Woolf, GartAdjusted, MiettinenNurminenOddsRatio,
+	}
 	proportionMethods = []ProportionMethod{}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
 	// the ratio and odds-ratio scales.
@@ -111,7 +115,9 @@ var (
 	exactTests      = []TestMethod{
 		Fisher, FisherMidP,
 	}
-	ratioTests = []TestMethod{}
+	ratioTests = []TestMethod{
+		FarringtonManningRatio, MiettinenNurminenRatioTest, MiettinenNurminenOddsRatioTest,
+	}
 )
 
 // IntervalMethods returns the registered interval methods of a family, in

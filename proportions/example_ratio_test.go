@@ -1,0 +1,66 @@
+package proportions_test
+
+import (
+	"fmt"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// Two seed coatings: 36 of 40 coated seeds germinated against 16 of 80
+// untreated ones. How many times as often does the coated seed germinate?
+func ExampleKoopman() {
+	c := proportions.Counts{X1: 36, N1: 40, X2: 16, N2: 80}
+	iv, err := proportions.Koopman.Interval(c, 0.95)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(iv)
+	// Output: Koopman asymptotic score: 4.5000 (2.9396 to 7.1522), 95% confidence
+}
+
+// A zero cell: no defects at all on the new line (0 of 150) against 6 of
+// 150 on the old one. The ratio estimate is 0; the score interval says how
+// large the ratio could still be, while the plain Katz interval has nothing
+// to say.
+func ExampleIntervalMethods_zeroCell() {
+	c := proportions.Counts{X1: 0, N1: 150, X2: 6, N2: 150}
+	conf, _ := proportions.NewConfidence(0.95)
+	for _, m := range proportions.IntervalMethods(proportions.Ratio) {
+		fmt.Println(m.IntervalAt(c, conf))
+	}
+	// Output:
+	// Katz log: 0.0000 (0.0000 to ∞), 95% confidence
+	// Katz log, ½ added at zero events: 0.0000 (0.0044 to 1.3534), 95% confidence
+	// Koopman asymptotic score: 0.0000 (0.0000 to 0.6303), 95% confidence
+	// Miettinen–Nurminen score (ratio): 0.0000 (0.0000 to 0.6324), 95% confidence
+}
+
+// Ratio-scale non-inferiority: is the new arm's response rate at least 90%
+// of the standard arm's? 171 of 190 responded on the new treatment and 168
+// of 188 on the standard.
+func ExampleFarringtonManningRatio() {
+	c := proportions.Counts{X1: 171, N1: 190, X2: 168, N2: 188}
+	r, err := proportions.FarringtonManningRatio.Test(c,
+		proportions.WithNull(0.9), proportions.WithAlternative(proportions.Greater))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(r)
+	// Output: Farrington–Manning score test (ratio): z = 2.974, p = 0.001469 (greater, null 0.9): reject at 5%
+}
+
+// Odds ratios for a germination trial (20 of 25 against 6 of 15), by every
+// registered method.
+func ExampleIntervalMethods_oddsRatio() {
+	c := proportions.Counts{X1: 20, N1: 25, X2: 6, N2: 15}
+	conf, _ := proportions.NewConfidence(0.95)
+	for _, m := range proportions.IntervalMethods(proportions.OddsRatio) {
+		fmt.Println(m.IntervalAt(c, conf))
+	}
+	// Output:
+	// Woolf logit: 6.0000 (1.4447 to 24.9192), 95% confidence
+	// Gart adjusted logit: 6.0000 (1.3821 to 21.4716), 95% confidence
+	// Miettinen–Nurminen score (odds ratio): 6.0000 (1.4685 to 24.5733), 95% confidence
+}

@@ -1,0 +1,122 @@
+package proportions
+
+import "math"
+
+// Root finding for the limits of ratio and odds-ratio intervals. Those
+// limits are where a statistic that falls steadily as the parameter grows
+// crosses a critical value; the search runs on t = log(parameter), where the
+// statistics are smooth and both tails of (0, ∞) are reached in a few steps.
+
+// maxLogScale bounds the search on the log scale: parameters beyond
+// e^±300 ≈ 10^±130 are treated as 0 or ∞. Counts are at most 2^50 per group,
+// so no finite limit of a method here comes near that bound, and θ² stays
+// finite inside the statistics.
+const maxLogScale = 300
+
+// rootTolerance is the absolute tolerance on t = log(parameter): a relative
+// error of about 1e−11 in the reported limit.
+const rootTolerance = 1e-11
+
+// decreasingCrossing returns the t at which the nonincreasing function g
+// changes sign, searching outward from t0 in steps that start at step (a
+// guess of the distance to the root) and double. It returns
+// −Inf when g is already negative at −maxLogScale (the limit is 0 on the
+// parameter scale) and +Inf when g is still positive at +maxLogScale (the
+// limit is ∞).
+func decreasingCrossing(g func(t float64) float64, t0, step float64) float64 {
+	g0 := g(t0)
+	if g0 == 0 {
+		return t0
+	}
+	dir := 1.0
+	if g0 < 0 {
+		dir = -1
+	}
+	prev, gprev := t0, g0
+	if !(step > 1e-3) || math.IsInf(step, 1) {
+		step = 1
+	}
+	for ; ; step *= 2 {
+		next := t0 + dir*step
+		last := math.Abs(next) >= maxLogScale
+		if last {
+			next = dir * maxLogScale
+		}
+		gnext := g(next)
+		if gnext == 0 {
+			return next
+		}
+		if (gnext < 0) == (g0 > 0) {
+			return brentRoot(g, prev, next, gprev, gnext)
+		}
+		if last {
+			return math.Inf(int(dir))
+		}
+		prev, gprev = next, gnext
+	}
+}
+
+// brentRoot returns a zero of f between a and b, where fa = f(a) and
+// fb = f(b) have opposite signs, by Brent's method (Brent RP 1973,
+// Algorithms for Minimization without Derivatives, Prentice-Hall, ch. 4):
+// inverse quadratic or secant steps, falling back to bisection whenever an
+// interpolation step would not shrink the bracket fast enough. Infinite
+// function values (a statistic at a boundary) also force bisection.
+func brentRoot(f func(float64) float64, a, b, fa, fb float64) float64 {
+	if math.Abs(fa) < math.Abs(fb) {
+		a, b, fa, fb = b, a, fb, fa
+	}
+	c, fc := a, fa
+	d := b - a
+	e := d
+	for range 200 {
+		if fb == 0 {
+			return b
+		}
+		if (fb > 0) == (fc > 0) {
+			c, fc = a, fa
+			d = b - a
+			e = d
+		}
+		if math.Abs(fc) < math.Abs(fb) {
+			a, b, c = b, c, b
+			fa, fb, fc = fb, fc, fb
+		}
+		tol := 2*2.220446049250313e-16*math.Abs(b) + rootTolerance/2
+		m := (c - b) / 2
+		if math.Abs(m) <= tol {
+			return b
+		}
+		if math.Abs(e) >= tol && math.Abs(fa) > math.Abs(fb) && !math.IsInf(fa, 0) && !math.IsInf(fc, 0) {
+			var p, q float64
+			s := fb / fa
+			if a == c {
+				p, q = 2*m*s, 1-s
+			} else {
+				qq, r := fa/fc, fb/fc
+				p = s * (2*m*qq*(qq-r) - (b-a)*(r-1))
+				q = (qq - 1) * (r - 1) * (s - 1)
+			}
+			if p > 0 {
+				q = -q
+			} else {
+				p = -p
+			}
+			if 2*p < math.Min(3*m*q-math.Abs(tol*q), math.Abs(e*q)) {
+				e, d = d, p/q
+			} else {
+				d, e = m, m
+			}
+		} else {
+			d, e = m, m
+		}
+		a, fa = b, fb
+		if math.Abs(d) > tol {
+			b += d
+		} else {
+			b += math.Copysign(tol, m)
+		}
+		fb = f(b)
+	}
+	return b
+}

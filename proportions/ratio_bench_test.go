@@ -1,0 +1,39 @@
+package proportions
+
+import "testing"
+
+// benchTables are typical tables for the speed targets: every asymptotic
+// ratio and odds-ratio interval under 5 µs per table.
+var benchTables = []Counts{{36, 40, 16, 80}, {3, 30, 15, 50}, {189, 11034, 104, 11037}, {0, 25, 6, 25}}
+
+var benchSink float64
+
+// BenchmarkRatioIntervals times each registered ratio and odds-ratio
+// interval; ns/op is per table.
+func BenchmarkRatioIntervals(b *testing.B) {
+	conf, _ := NewConfidence(0.95)
+	for _, m := range ratioFamilies() {
+		b.Run(m.Key, func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				lo, hi := m.Limits(benchTables[i%len(benchTables)], conf)
+				benchSink += lo + hi
+			}
+		})
+	}
+}
+
+// BenchmarkRatioTests times each ratio and odds-ratio score test.
+func BenchmarkRatioTests(b *testing.B) {
+	conf, _ := NewConfidence(0.95)
+	h := Hypothesis{Null: 0.8, Alternative: Greater, Conf: conf}
+	for _, m := range ratioTests {
+		b.Run(m.Key, func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				r := m.Run(benchTables[i%len(benchTables)], h)
+				benchSink += r.PValue
+			}
+		})
+	}
+}
