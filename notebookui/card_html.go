@@ -1,0 +1,109 @@
+package notebookui
+
+import (
+	"html/template"
+	"strings"
+)
+
+// renderHTML lays out the view with html/template, which escapes every
+// string by its context (text, attribute), so labels such as
+// `<script>` or `" onerror="` show literally and never run.
+func renderHTML(v cardView) string {
+	var b strings.Builder
+	if err := cardTemplate.Execute(&b, v); err != nil {
+		// The template only reads strings and slices of the view, so an
+		// error is a bug in it; show that rather than half a card.
+		return "<pre>" + template.HTMLEscapeString("result card: "+err.Error()) + "</pre>"
+	}
+	return b.String()
+}
+
+var cardTemplate = template.Must(template.New("card").Parse(cardHTML))
+
+// cardHTML is the card's markup. Structure: a <section> with real headings
+// and tables (column headers with scope), decisions and warnings spelled
+// out in words, and a <details> holding every interval method.
+const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-label="{{.Title}}">
+<style>` + cardCSS + `</style>
+<h3 class="ps-title">{{.Title}}</h3>
+<div class="ps-headline">
+<p class="ps-lead">Difference in the share {{.Event}}, <span class="ps-label">{{.First}}</span> minus <span class="ps-label">{{.Second}}</span></p>
+<p class="ps-big"><span class="ps-diff" data-role="difference">{{.Difference}}</span> <span class="ps-unit">percentage points</span></p>
+<p class="ps-ci">{{.Level}} confidence interval: <strong data-role="interval">{{.Lower}} to {{.Upper}}</strong> points <span class="ps-muted">({{.Method}})</span></p>
+{{if .Verdict}}<p class="ps-verdict">{{.Verdict}}</p>{{end}}
+</div>
+<h4 class="ps-h">Each group</h4>
+<div class="ps-scroll"><table class="ps-t">
+<thead><tr><th scope="col">Group</th><th scope="col" class="ps-n">{{.Groups.EventHeader}}</th><th scope="col" class="ps-n">Out of</th><th scope="col" class="ps-n">{{.Groups.ShareHeader}}</th>{{if .Groups.IntervalHeader}}<th scope="col" class="ps-n">{{.Groups.IntervalHeader}}</th>{{end}}</tr></thead>
+<tbody>{{range .Groups.Rows}}
+<tr><th scope="row">{{.Label}}</th><td class="ps-n">{{.Events}}</td><td class="ps-n">{{.Trials}}</td><td class="ps-n">{{.Share}}</td>{{if $.Groups.IntervalHeader}}<td class="ps-n">{{.Interval}}</td>{{end}}</tr>{{end}}
+</tbody></table></div>
+{{if .Tests}}<h4 class="ps-h">Tests</h4>
+<p class="ps-muted ps-small">{{.Hypothesis}}</p>
+<div class="ps-scroll"><table class="ps-t">
+<thead><tr><th scope="col">Test</th><th scope="col" class="ps-n">Statistic</th><th scope="col" class="ps-n">p-value</th><th scope="col">Decision</th></tr></thead>
+<tbody>{{range .Tests}}
+<tr><th scope="row">{{.Name}}{{if .Headline}} <span class="ps-tag">headline</span>{{end}}</th><td class="ps-n">{{.Statistic}}</td><td class="ps-n">{{.P}}</td><td>{{.Decision}}</td></tr>{{end}}
+</tbody></table></div>{{end}}
+{{if .Conclusion}}<h4 class="ps-h">What the data say</h4>
+<p class="ps-conclusion">{{.Conclusion}}</p>{{end}}
+{{if .Warnings}}<h4 class="ps-h">Warnings</h4>
+<ul class="ps-warnings">{{range .Warnings}}
+<li><strong>Warning:</strong> {{.}}</li>{{end}}
+</ul>{{end}}
+{{if .Sections}}<details class="ps-more">
+<summary>Every interval method ({{.Level}})</summary>
+{{range .Sections}}<div class="ps-scroll"><table class="ps-t">
+<caption>{{.Title}} <span class="ps-muted">({{.Unit}})</span></caption>
+<thead><tr><th scope="col">Method</th><th scope="col" class="ps-n">Estimate</th><th scope="col" class="ps-n">Lower</th><th scope="col" class="ps-n">Upper</th><th scope="col">Note</th></tr></thead>
+<tbody>{{range .Rows}}
+<tr><th scope="row">{{.Name}}{{if .Headline}} <span class="ps-tag">headline</span>{{end}}</th><td class="ps-n">{{.Estimate}}</td><td class="ps-n">{{.Lower}}</td><td class="ps-n">{{.Upper}}</td><td>{{.Note}}</td></tr>{{end}}
+</tbody></table></div>
+{{end}}</details>{{end}}
+{{if .References}}<h4 class="ps-h">Methods and their sources</h4>
+<ol class="ps-refs">{{range .References}}
+<li><strong>{{.Name}}</strong> — {{.Citation}}</li>{{end}}
+</ol>{{end}}
+<p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
+</section>`
+
+// cardCSS is scoped to .ps-card. Text takes the notebook's own colour
+// (JupyterLab's --jp-content-font-color1 when set, else inherited), and
+// tints and rules are translucent grey, so the card reads in light and dark
+// themes alike. Selectors are specific enough to win over the notebook's
+// own .rendered_html table rules (striped rows, right-aligned cells).
+const cardCSS = `
+.ps-card{color:var(--jp-content-font-color1,inherit);background:transparent;font-family:var(--jp-ui-font-family,system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif);font-size:14px;line-height:1.45;max-width:52rem;margin:.25rem 0;padding:1rem 1.1rem;border:1px solid rgba(128,128,128,.45);border-radius:8px;box-sizing:border-box;overflow-wrap:anywhere}
+.ps-card *{box-sizing:border-box}
+.ps-card .ps-title{font-size:1.2em;font-weight:650;margin:0 0 .6rem;padding:0;line-height:1.3}
+.ps-card .ps-headline{border-left:4px solid #2a8c7a;padding:.3rem 0 .3rem .85rem;margin:0 0 .9rem}
+.ps-card .ps-headline p{margin:.15rem 0}
+.ps-card .ps-lead{font-size:.95em}
+.ps-card .ps-label{font-weight:600}
+.ps-card .ps-big{font-size:1.9em;font-weight:700;line-height:1.15;font-variant-numeric:tabular-nums}
+.ps-card .ps-unit{font-size:.5em;font-weight:500}
+.ps-card .ps-ci{font-variant-numeric:tabular-nums}
+.ps-card .ps-verdict{margin-top:.35rem}
+.ps-card .ps-muted{opacity:.8}
+.ps-card .ps-small{font-size:.9em;margin:.1rem 0 .35rem}
+.ps-card .ps-h{font-size:1em;font-weight:650;margin:1rem 0 .35rem;padding:0}
+.ps-card .ps-scroll{overflow-x:auto;max-width:100%}
+.ps-card table.ps-t{border-collapse:collapse;margin:0 0 .4rem;width:auto;min-width:60%;font-size:.95em;table-layout:auto;border:none}
+.ps-card table.ps-t caption{text-align:left;font-weight:600;padding:.5rem 0 .25rem;caption-side:top}
+.ps-card table.ps-t th,.ps-card table.ps-t td{text-align:left;padding:.3rem .7rem .3rem 0;border:none;border-bottom:1px solid rgba(128,128,128,.3);vertical-align:top;white-space:normal;max-width:none}
+.ps-card table.ps-t thead th{font-weight:600;border-bottom:1.5px solid rgba(128,128,128,.6);background:rgba(128,128,128,.1);padding-left:.4rem}
+.ps-card table.ps-t tbody th{font-weight:600;padding-left:.4rem}
+.ps-card table.ps-t tbody tr,.ps-card table.ps-t tbody tr:nth-child(odd),.ps-card table.ps-t tbody tr:nth-child(even){background:transparent}
+.ps-card table.ps-t tbody tr:hover{background:rgba(128,128,128,.08)}
+.ps-card table.ps-t .ps-n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
+.ps-card .ps-tag{display:inline-block;font-size:.75em;font-weight:600;padding:0 .35em;border:1px solid rgba(128,128,128,.6);border-radius:3px;vertical-align:1px}
+.ps-card .ps-conclusion{margin:.2rem 0 .4rem}
+.ps-card .ps-warnings{margin:.2rem 0 .4rem;padding:0;list-style:none}
+.ps-card .ps-warnings li{margin:.3rem 0;padding:.35rem .6rem;border-left:4px solid #c98a12;background:rgba(201,138,18,.1)}
+.ps-card details.ps-more{margin:.9rem 0 .2rem}
+.ps-card details.ps-more summary{cursor:pointer;font-weight:650}
+.ps-card .ps-refs{margin:.2rem 0 .4rem;padding-left:1.4rem;font-size:.9em}
+.ps-card .ps-refs li{margin:.15rem 0}
+.ps-card .ps-caution{margin:.9rem 0 0;padding-top:.5rem;border-top:1px solid rgba(128,128,128,.35);font-size:.9em}
+@media (max-width:480px){.ps-card{padding:.7rem .6rem}.ps-card .ps-big{font-size:1.5em}}
+`

@@ -1,0 +1,239 @@
+package notebookui
+
+import (
+	"fmt"
+	"strings"
+	"unicode/utf8"
+)
+
+// textWidth is where plain-text paragraphs wrap.
+const textWidth = 88
+
+// renderText lays out the view as plain text.
+func renderText(v cardView) string {
+	var b strings.Builder
+	b.WriteString(v.Title + "\n" + strings.Repeat("=", min(utf8.RuneCountInString(v.Title), textWidth)) + "\n")
+	fmt.Fprintf(&b, "Difference in the share %s, %s minus %s: %s percentage points\n", v.Event, v.First, v.Second, v.Difference)
+	fmt.Fprintf(&b, "%s confidence interval: %s to %s points (%s)\n", v.Level, v.Lower, v.Upper, v.Method)
+	if v.Verdict != "" {
+		b.WriteString(wrap(v.Verdict, "", textWidth))
+	}
+	b.WriteString("\nEach group\n")
+	b.WriteString(textTable(groupCells(v.Groups), "  "))
+	if len(v.Tests) > 0 {
+		b.WriteString("\nTests\n")
+		b.WriteString(wrap(v.Hypothesis, "  ", textWidth))
+		b.WriteString(textTable(testCells(v.Tests), "  "))
+	}
+	if v.Conclusion != "" {
+		b.WriteString("\nWhat the data say\n")
+		b.WriteString(wrap(v.Conclusion, "  ", textWidth))
+	}
+	if len(v.Warnings) > 0 {
+		b.WriteString("\nWarnings\n")
+		for _, w := range v.Warnings {
+			b.WriteString(wrap("- Warning: "+w, "    ", textWidth)[2:])
+		}
+	}
+	for _, s := range v.Sections {
+		fmt.Fprintf(&b, "\nEvery interval method: %s (%s, %s)\n", s.Title, s.Unit, v.Level)
+		b.WriteString(textTable(methodCells(s), "  "))
+	}
+	if len(v.References) > 0 {
+		b.WriteString("\nMethods and their sources\n")
+		for i, r := range v.References {
+			b.WriteString(wrap(fmt.Sprintf("[%d] %s — %s", i+1, r.Name, r.Citation), "      ", textWidth)[4:])
+		}
+	}
+	b.WriteString("\n")
+	b.WriteString(wrap("Before acting on this: "+v.Caution, "", textWidth))
+	return b.String()
+}
+
+// renderMarkdown lays out the view as Markdown (pipe tables; the folded
+// method table becomes an ordinary section).
+func renderMarkdown(v cardView) string {
+	var b strings.Builder
+	e := mdEscape
+	fmt.Fprintf(&b, "### %s\n\n", e(v.Title))
+	fmt.Fprintf(&b, "Difference in the share %s, **%s** minus **%s**: **%s percentage points**  \n", e(v.Event), e(v.First), e(v.Second), v.Difference)
+	fmt.Fprintf(&b, "%s confidence interval: **%s to %s** points (%s)\n", v.Level, v.Lower, v.Upper, e(v.Method))
+	if v.Verdict != "" {
+		fmt.Fprintf(&b, "\n%s\n", e(v.Verdict))
+	}
+	b.WriteString("\n#### Each group\n\n")
+	b.WriteString(mdTable(groupCells(v.Groups)))
+	if len(v.Tests) > 0 {
+		fmt.Fprintf(&b, "\n#### Tests\n\n%s\n\n", e(v.Hypothesis))
+		b.WriteString(mdTable(testCells(v.Tests)))
+	}
+	if v.Conclusion != "" {
+		fmt.Fprintf(&b, "\n#### What the data say\n\n%s\n", e(v.Conclusion))
+	}
+	if len(v.Warnings) > 0 {
+		b.WriteString("\n#### Warnings\n\n")
+		for _, w := range v.Warnings {
+			fmt.Fprintf(&b, "- **Warning:** %s\n", e(w))
+		}
+	}
+	for _, s := range v.Sections {
+		fmt.Fprintf(&b, "\n#### Every interval method: %s (%s, %s)\n\n", e(s.Title), s.Unit, v.Level)
+		b.WriteString(mdTable(methodCells(s)))
+	}
+	if len(v.References) > 0 {
+		b.WriteString("\n#### Methods and their sources\n\n")
+		for i, r := range v.References {
+			fmt.Fprintf(&b, "%d. **%s** — %s\n", i+1, e(r.Name), e(r.Citation))
+		}
+	}
+	fmt.Fprintf(&b, "\n> **Before acting on this:** %s\n", e(v.Caution))
+	return b.String()
+}
+
+// cells is a table: a header row, body rows, and which columns hold numbers
+// (right-aligned).
+type cells struct {
+	header  []string
+	rows    [][]string
+	numeric []bool
+}
+
+func groupCells(g groupTable) cells {
+	c := cells{header: []string{"Group", g.EventHeader, "Out of", g.ShareHeader}, numeric: []bool{false, true, true, true}}
+	if g.IntervalHeader != "" {
+		c.header = append(c.header, g.IntervalHeader)
+		c.numeric = append(c.numeric, true)
+	}
+	for _, r := range g.Rows {
+		row := []string{r.Label, r.Events, r.Trials, r.Share}
+		if g.IntervalHeader != "" {
+			row = append(row, r.Interval)
+		}
+		c.rows = append(c.rows, row)
+	}
+	return c
+}
+
+func testCells(tests []testRow) cells {
+	c := cells{header: []string{"Test", "Statistic", "p-value", "Decision"}, numeric: []bool{false, true, true, false}}
+	for _, t := range tests {
+		name := t.Name
+		if t.Headline {
+			name += " [headline]"
+		}
+		c.rows = append(c.rows, []string{name, t.Statistic, t.P, t.Decision})
+	}
+	return c
+}
+
+func methodCells(s methodSection) cells {
+	c := cells{header: []string{"Method", "Estimate", "Lower", "Upper", "Note"}, numeric: []bool{false, true, true, true, false}}
+	for _, r := range s.Rows {
+		name := r.Name
+		if r.Headline {
+			name += " [headline]"
+		}
+		c.rows = append(c.rows, []string{name, r.Estimate, r.Lower, r.Upper, r.Note})
+	}
+	return c
+}
+
+// textTable pads columns to their widest cell (in runes) and drops a
+// trailing empty column.
+func textTable(c cells, indent string) string {
+	widths := make([]int, len(c.header))
+	for _, row := range append([][]string{c.header}, c.rows...) {
+		for i, cell := range row {
+			widths[i] = max(widths[i], utf8.RuneCountInString(cell))
+		}
+	}
+	var b strings.Builder
+	for _, row := range append([][]string{c.header}, c.rows...) {
+		line := indent
+		for i, cell := range row {
+			pad := strings.Repeat(" ", widths[i]-utf8.RuneCountInString(cell))
+			if c.numeric[i] {
+				line += pad + cell
+			} else {
+				line += cell + pad
+			}
+			if i < len(row)-1 {
+				line += "  "
+			}
+		}
+		b.WriteString(strings.TrimRight(line, " ") + "\n")
+	}
+	return b.String()
+}
+
+// mdTable writes a pipe table with escaped cells.
+func mdTable(c cells) string {
+	var b strings.Builder
+	write := func(row []string) {
+		b.WriteString("|")
+		for _, cell := range row {
+			b.WriteString(" " + mdEscape(cell) + " |")
+		}
+		b.WriteString("\n")
+	}
+	write(c.header)
+	b.WriteString("|")
+	for _, num := range c.numeric {
+		if num {
+			b.WriteString(" ---: |")
+		} else {
+			b.WriteString(" --- |")
+		}
+	}
+	b.WriteString("\n")
+	for _, row := range c.rows {
+		write(row)
+	}
+	return b.String()
+}
+
+// mdEscape makes a string show literally in Markdown: the punctuation
+// that marks emphasis, code, links and table cells gets a backslash (user
+// strings never start a line, so line-start marks such as # need none), and <, > and & become HTML entities so
+// that no raw HTML reaches a renderer that allows it. Newlines become
+// spaces, since a label must stay on its table row.
+func mdEscape(s string) string {
+	var b strings.Builder
+	for _, r := range s {
+		switch r {
+		case '<':
+			b.WriteString("&lt;")
+		case '>':
+			b.WriteString("&gt;")
+		case '&':
+			b.WriteString("&amp;")
+		case '\n', '\r', '\t':
+			b.WriteByte(' ')
+		case '\\', '`', '*', '_', '[', ']', '|', '~':
+			b.WriteByte('\\')
+			b.WriteRune(r)
+		default:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
+
+// wrap breaks s into lines of at most width runes (longer words stay
+// whole), each starting with indent, each ending in a newline.
+func wrap(s, indent string, width int) string {
+	var b strings.Builder
+	line := indent
+	for _, word := range strings.Fields(s) {
+		if utf8.RuneCountInString(line) > len(indent) && utf8.RuneCountInString(line)+1+utf8.RuneCountInString(word) > width {
+			b.WriteString(line + "\n")
+			line = indent
+		}
+		if utf8.RuneCountInString(line) > len(indent) {
+			line += " "
+		}
+		line += word
+	}
+	b.WriteString(line + "\n")
+	return b.String()
+}
