@@ -144,6 +144,7 @@ func Page(title string, ds ...Displayable) string {
 	b.WriteString(pageHead)
 	b.WriteString("<title>" + html.EscapeString(title) + "</title>\n")
 	b.WriteString(pageStyle)
+	b.WriteString(engineFor(ds))
 	b.WriteString("</head>\n<body>\n<main>\n")
 	for _, d := range ds {
 		b.WriteString(d.HTML())

@@ -1,0 +1,381 @@
+package notebookui
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
+	"fmt"
+	"html"
+		"regexp"
+	"strconv"
+	"strings"
+)
+
+// Chart is one chart of propscope results, ready to show: in a notebook
+// (its HTML, with the chart engine loaded once per notebook by
+// [ChartEngine]), as a self-contained HTML page for a write-up, or as plain
+// text and Markdown (the numbers behind the chart as a table) where no
+// browser runs.
+//
+// A Chart is built by one of the chart functions (RatesChart,
+// DifferenceIntervalsChart, ConfidenceCurveChart, ...) from result data; it
+// never recomputes statistics. Its ID is derived from its content, so the
+// same data always give byte-identical output (golden files), while
+// different charts on one page never clash.
+type Chart struct {
+	id       string
+	kind     string
+	title    string
+	subtitle string
+	height   int
+	option   map[string]any
+	table    dataTable
+	notes    []string
+}
+
+// dataTable is the data behind a chart, shown beside it for readers who
+// cannot see the canvas, in text output and in Markdown.
+type dataTable struct {
+	Caption string     `json:"caption"`
+	Header  []string   `json:"header"`
+	Rows    [][]string `json:"rows"`
+}
+
+// ID returns the chart's deterministic identifier, also the id of its
+// drawing element in HTML.
+func (c *Chart) ID() string { return c.id }
+
+// Kind returns "chart" (see [Displayable]); [Chart.ChartType] tells which.
+func (c *Chart) Kind() string { return "chart" }
+
+// ChartType returns which chart this is, such as "rates" or
+// "confidence-curve".
+func (c *Chart) ChartType() string { return c.kind }
+
+// Title returns the chart's title.
+func (c *Chart) Title() string { return c.title }
+
+// Notes returns the sentences printed under the chart (for example why a
+// method is marked as recommended).
+func (c *Chart) Notes() []string { return append([]string(nil), c.notes...) }
+
+// funcMarker brackets JavaScript function source inside option strings
+// (the go-echarts convention, see opts.FuncOpts).
+const funcMarker = "__f__"
+
+var funcPattern = regexp.MustCompile(`"` + funcMarker + `((?:[^"\\]|\\.)*?)` + funcMarker + `"`)
+
+// OptionJSON returns the echarts option as JSON, with JavaScript callbacks
+// (tooltip and label formatters, custom renderers) as strings holding their
+// source. Tests and tools read the chart's data from it.
+func (c *Chart) OptionJSON() ([]byte, error) {
+	b, err := json.Marshal(c.option)
+	if err != nil {
+		return nil, fmt.Errorf("chart %s: %w", c.id, err)
+	}
+	return bytes.ReplaceAll(b, []byte(funcMarker), nil), nil
+}
+
+// optionScript returns the option as a JavaScript expression: JSON with
+// HTML-significant characters escaped (so user text such as a label
+// "</script>" cannot end the script element), and the callbacks as code.
+func (c *Chart) optionScript() (string, error) {
+	b, err := json.Marshal(c.option) // escapes <, > and & inside strings
+	if err != nil {
+		return "", fmt.Errorf("chart %s: %w", c.id, err)
+	}
+	var ferr error
+	out := funcPattern.ReplaceAllFunc(b, func(m []byte) []byte {
+		var src string
+		inner := m[len(funcMarker)+1 : len(m)-len(funcMarker)-1]
+		if err := json.Unmarshal(append(append([]byte{'"'}, inner...), '"'), &src); err != nil {
+			ferr = err
+		}
+		return []byte(src)
+	})
+	return string(out), ferr
+}
+
+// chartID derives the identifier from the kind and the option's content.
+func chartID(kind string, option map[string]any) (string, error) {
+	b, err := json.Marshal(option)
+	if err != nil {
+		return "", err
+	}
+	sum := sha256.Sum256(append([]byte(kind+"\x00"), b...))
+	return "propscope-" + kind + "-" + hex.EncodeToString(sum[:6]), nil
+}
+
+// newChart finishes a chart: it fixes the ID from the content.
+func newChart(kind, title, subtitle string, height int, option map[string]any, table dataTable, notes []string) (*Chart, error) {
+	id, err := chartID(kind, option)
+	if err != nil {
+		return nil, fmt.Errorf("%s chart: %w", kind, err)
+	}
+	return &Chart{id: id, kind: kind, title: title, subtitle: subtitle, height: height, option: option, table: table, notes: notes}, nil
+}
+
+// chartRuntime is the script around each chart. It draws every element
+// carrying the chart's ID that is not drawn yet (the same chart may be shown
+// twice on a page), waits up to ten seconds for the engine when the chart
+// comes before it, follows the page's text colour (dark themes) and
+// redraws on resize. It runs inside a function, so re-running a notebook
+// cell never redeclares anything.
+const chartRuntime = `(function () {
+  var id = %s;
+  var esc = function (s) {
+    return String(s).replace(/[&<>"']/g, function (c) {
+      return {"&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;"}[c];
+    });
+  };
+  var num = function (v, d) { return (typeof v === "number" && isFinite(v)) ? v.toFixed(d) : String(v); };
+  var pct = function (v, d) { return (typeof v === "number" && isFinite(v)) ? (v * 100).toFixed(d === undefined ? 2 : d) + "%%" : String(v); };
+  var pp = function (v, d) {
+    if (typeof v !== "number" || !isFinite(v)) { return String(v); }
+    var s = Math.abs(v * 100).toFixed(d === undefined ? 2 : d);
+    return (v > 0 ? "+" : (v < 0 ? "\u2212" : "")) + s + " pp";
+  };
+  var axisPct = function (v) { return Math.round(v * 1000) / 10 + "%%"; };
+  var axisPP = function (v) { var r = Math.round(v * 1000) / 10; return (r > 0 ? "+" : "") + r; };
+  var option = function () { return %s; };
+  var light = function (color) {
+    var m = /rgba?\((\d+),\s*(\d+),\s*(\d+)/.exec(color || "");
+    return m ? (0.299 * m[1] + 0.587 * m[2] + 0.114 * m[3]) > 150 : false;
+  };
+  var draw = function () {
+    var ec = window.echarts;
+    if (!ec) { return false; }
+    var els = document.querySelectorAll('[data-propscope-chart="' + id + '"]');
+    for (var i = 0; i < els.length; i++) {
+      var el = els[i];
+      if (ec.getInstanceByDom(el)) { continue; }
+      var chart = ec.init(el, null, {renderer: "canvas"});
+      var opt = option();
+      var fg = window.getComputedStyle(el).color;
+      if (light(fg)) {
+        opt.textStyle = {color: fg};
+        opt.darkMode = true;
+      }
+      chart.setOption(opt);
+      el.setAttribute("data-propscope-drawn", "true");
+      if (window.ResizeObserver) {
+        new ResizeObserver((function (c) { return function () { c.resize(); }; })(chart)).observe(el);
+      }
+    }
+    return true;
+  };
+  if (!draw()) {
+    var tries = 0;
+    var timer = setInterval(function () {
+      if (draw()) { clearInterval(timer); return; }
+      if (++tries > 100) {
+        clearInterval(timer);
+        var els = document.querySelectorAll('[data-propscope-chart="' + id + '"]');
+        for (var i = 0; i < els.length; i++) {
+          els[i].textContent = "This chart needs the chart engine: show notebookui.ChartEngine() once in an earlier cell, then run this cell again. The numbers are in the table below.";
+        }
+      }
+    }, 100);
+  }
+})();`
+
+// HTML returns the chart as an HTML fragment: a figure with the drawing
+// element, the title, notes, a collapsible table of the numbers, and the
+// script that draws it. The chart engine must be on the page once (see
+// [ChartEngine] and [EngineScript]); [Chart.Page] is the self-contained form.
+func (c *Chart) HTML() string {
+	js, err := c.optionScript()
+	if err != nil {
+		return `<div class="propscope-chart-error">` + html.EscapeString(err.Error()) + `</div>`
+	}
+	var b strings.Builder
+	fmt.Fprintf(&b, `<figure class="propscope-chart" data-kind="%s" style="margin:0.75em 0;max-width:860px;">`, html.EscapeString(c.kind))
+	fmt.Fprintf(&b, `<div id="%s" data-propscope-chart="%s" role="img" aria-label="%s" style="width:100%%;height:%dpx;"></div>`,
+		c.id, c.id, html.EscapeString(c.ariaLabel()), c.height)
+	if len(c.notes) > 0 || len(c.table.Rows) > 0 {
+		b.WriteString(`<figcaption style="font-size:0.9em;line-height:1.4;">`)
+		for _, n := range c.notes {
+			b.WriteString(`<p style="margin:0.3em 0;">` + html.EscapeString(n) + `</p>`)
+		}
+		if len(c.table.Rows) > 0 {
+			b.WriteString(`<details><summary>Numbers behind the chart</summary>`)
+			b.WriteString(c.table.html())
+			b.WriteString(`</details>`)
+		}
+		b.WriteString(`</figcaption>`)
+	}
+	b.WriteString(`</figure>`)
+	b.WriteString(`<script type="text/javascript">`)
+	fmt.Fprintf(&b, chartRuntime, strconv.Quote(c.id), js)
+	b.WriteString(`</script>`)
+	return b.String()
+}
+
+func (c *Chart) ariaLabel() string {
+	if c.subtitle == "" {
+		return c.title
+	}
+	return c.title + ". " + c.subtitle
+}
+
+// Page returns a complete HTML document holding the chart engine and the
+// chart: it opens and draws in a browser with no network.
+func (c *Chart) Page() string { return Page(c.title, c) }
+
+// WriteFile writes [Chart.Page] to a file.
+func (c *Chart) WriteFile(path string) error {
+	if err := WriteHTMLFile(path, c.title, c); err != nil {
+		return fmt.Errorf("write chart %s: %w", c.id, err)
+	}
+	return nil
+}
+
+// needsChartEngine marks displayables whose HTML draws with the chart
+// engine; [Page] then inlines the engine once.
+func (c *Chart) needsChartEngine() {}
+
+// JSON returns the chart as a JSON object: its kind, ID, title, notes, the
+// numbers behind it (caption, header, rows) and the echarts option (with
+// callbacks as source strings).
+func (c *Chart) JSON() ([]byte, error) {
+	opt, err := c.OptionJSON()
+	if err != nil {
+		return nil, err
+	}
+	return json.Marshal(struct {
+		Kind   string          `json:"kind"`
+		Chart  string          `json:"chart"`
+		ID     string          `json:"id"`
+		Title  string          `json:"title"`
+		Sub    string          `json:"subtitle,omitempty"`
+		Notes  []string        `json:"notes,omitempty"`
+		Table  dataTable       `json:"data"`
+		Option json.RawMessage `json:"option"`
+	}{"chart", c.kind, c.id, c.title, c.subtitle, c.notes, c.table, opt})
+}
+
+// Text returns the chart as plain text: title, notes and the numbers.
+func (c *Chart) Text() string {
+	var b strings.Builder
+	b.WriteString(c.title + "\n")
+	if c.subtitle != "" {
+		b.WriteString(c.subtitle + "\n")
+	}
+	for _, n := range c.notes {
+		b.WriteString(n + "\n")
+	}
+	if len(c.table.Rows) > 0 {
+		b.WriteString("\n" + c.table.text())
+	}
+	return b.String()
+}
+
+// String is [Chart.Text].
+func (c *Chart) String() string { return c.Text() }
+
+// Markdown returns the chart's title, notes and numbers as Markdown, for
+// write-ups where the interactive chart cannot go.
+func (c *Chart) Markdown() string {
+	var b strings.Builder
+	b.WriteString("**" + mdEscape(c.title) + "**\n\n")
+	if c.subtitle != "" {
+		b.WriteString(mdEscape(c.subtitle) + "\n\n")
+	}
+	for _, n := range c.notes {
+		b.WriteString(mdEscape(n) + "\n\n")
+	}
+	if len(c.table.Rows) > 0 {
+		b.WriteString(c.table.markdown())
+	}
+	return b.String()
+}
+
+func (t dataTable) html() string {
+	var b strings.Builder
+	b.WriteString(`<table style="border-collapse:collapse;margin:0.4em 0;font-variant-numeric:tabular-nums;">`)
+	if t.Caption != "" {
+		b.WriteString(`<caption style="text-align:left;font-weight:600;">` + html.EscapeString(t.Caption) + `</caption>`)
+	}
+	b.WriteString(`<thead><tr>`)
+	for _, h := range t.Header {
+		b.WriteString(`<th scope="col" style="text-align:left;padding:2px 10px 2px 0;border-bottom:1px solid currentColor;">` + html.EscapeString(h) + `</th>`)
+	}
+	b.WriteString(`</tr></thead><tbody>`)
+	for _, r := range t.Rows {
+		b.WriteString(`<tr>`)
+		for i, v := range r {
+			if i == 0 {
+				b.WriteString(`<th scope="row" style="text-align:left;font-weight:normal;padding:2px 10px 2px 0;">` + html.EscapeString(v) + `</th>`)
+				continue
+			}
+			b.WriteString(`<td style="padding:2px 10px 2px 0;">` + html.EscapeString(v) + `</td>`)
+		}
+		b.WriteString(`</tr>`)
+	}
+	b.WriteString(`</tbody></table>`)
+	return b.String()
+}
+
+func (t dataTable) text() string {
+	widths := make([]int, len(t.Header))
+	for i, h := range t.Header {
+		widths[i] = len([]rune(h))
+	}
+	for _, r := range t.Rows {
+		for i, v := range r {
+			if i < len(widths) && len([]rune(v)) > widths[i] {
+				widths[i] = len([]rune(v))
+			}
+		}
+	}
+	var b strings.Builder
+	if t.Caption != "" {
+		b.WriteString(t.Caption + "\n")
+	}
+	line := func(cells []string) {
+		for i, v := range cells {
+			if i > 0 {
+				b.WriteString("  ")
+			}
+			b.WriteString(v)
+			if i < len(cells)-1 {
+				b.WriteString(strings.Repeat(" ", widths[i]-len([]rune(v))))
+			}
+		}
+		b.WriteString("\n")
+	}
+	line(t.Header)
+	for _, r := range t.Rows {
+		line(r)
+	}
+	return b.String()
+}
+
+func (t dataTable) markdown() string {
+	var b strings.Builder
+	if t.Caption != "" {
+		b.WriteString(mdEscape(t.Caption) + "\n\n")
+	}
+	row := func(cells []string) {
+		b.WriteString("|")
+		for _, v := range cells {
+			b.WriteString(" " + mdEscape(v) + " |")
+		}
+		b.WriteString("\n")
+	}
+	row(t.Header)
+	b.WriteString("|" + strings.Repeat(" --- |", len(t.Header)) + "\n")
+	for _, r := range t.Rows {
+		row(r)
+	}
+	return b.String()
+}
+
+// mdEscape escapes the characters that Markdown or its HTML would
+// interpret, so user labels show literally.
+func mdEscape(s string) string {
+	r := strings.NewReplacer(`\`, `\\`, "|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "[", `\[`, "]", `\]`,
+		"<", "&lt;", ">", "&gt;", "&", "&amp;", "#", `\#`, "\n", " ")
+	return r.Replace(s)
+}

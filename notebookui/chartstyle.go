@@ -1,0 +1,143 @@
+package notebookui
+
+import (
+	"fmt"
+	"html"
+	"math"
+	"strconv"
+
+	"github.com/go-echarts/go-echarts/v2/charts"
+	"github.com/go-echarts/go-echarts/v2/opts"
+)
+
+// The chart palette: the eight colours of Okabe & Ito (2008, "Color
+// Universal Design — how to make figures and presentations that are
+// friendly to colorblind people"), chosen to stay distinct under the common
+// colour-vision deficiencies. Charts never carry meaning by colour alone:
+// series also differ in marker shape or line style, and recommended or
+// reference items carry a text label.
+const (
+	ColorBlue       = "#0072B2"
+	ColorVermillion = "#D55E00"
+	ColorGreen      = "#009E73"
+	ColorPurple     = "#CC79A7"
+	ColorOrange     = "#E69F00"
+	ColorSky        = "#56B4E9"
+	ColorYellow     = "#F0E442"
+	ColorGrey       = "#5F5F5F"
+)
+
+// Palette returns the series colours in the order charts use them (a fresh
+// slice). Yellow comes last: it is the weakest on white.
+func Palette() []string {
+	return []string{ColorBlue, ColorVermillion, ColorGreen, ColorPurple, ColorOrange, ColorSky, ColorGrey, ColorYellow}
+}
+
+// markerShapes are the marker shapes paired with the palette, so that each
+// series is told apart by shape as well as colour.
+var markerShapes = [...]string{"circle", "rect", "diamond", "triangle", "pin", "roundRect", "arrow", "circle"}
+
+func markerShape(i int) string { return markerShapes[i%len(markerShapes)] }
+
+// lineStyles pairs line dash patterns with the palette for line charts.
+var lineStyles = [...]string{"solid", "dashed", "dotted", "solid", "dashed", "dotted", "solid", "dashed"}
+
+func lineStyle(i int) string { return lineStyles[i%len(lineStyles)] }
+
+func paletteColor(i int) string {
+	p := Palette()
+	return p[i%len(p)]
+}
+
+// Chart sizes in pixels.
+const (
+	defaultHeight = 420
+	talltHeight   = 520
+)
+
+// commonGlobals are the options every chart shares: our title layout, the
+// palette, no animation (reproducible screenshots), item tooltips, a save
+// button and the accessibility description.
+func commonGlobals(title, subtitle string) []charts.GlobalOpts {
+	return []charts.GlobalOpts{
+		charts.WithInitializationOpts(opts.Initialization{Width: "100%", Height: "420px", Theme: "white"}),
+		charts.WithTitleOpts(opts.Title{
+			Title: title, Subtitle: subtitle, Left: "12", Top: "6",
+			TitleStyle:    &opts.TextStyle{FontSize: 16, FontWeight: "600"},
+			SubtitleStyle: &opts.TextStyle{FontSize: 12},
+		}),
+		charts.WithAnimation(false),
+		charts.WithColorsOpts(opts.Colors(Palette())),
+		charts.WithTooltipOpts(opts.Tooltip{Show: opts.Bool(true), Trigger: "item", Enterable: opts.Bool(false)}),
+		charts.WithToolboxOpts(opts.Toolbox{Show: opts.Bool(true), Right: "16", Top: "4", Feature: &opts.ToolBoxFeature{
+			SaveAsImage: &opts.ToolBoxFeatureSaveAsImage{Show: opts.Bool(true), Title: "save as PNG", Name: "propscope-chart"},
+		}}),
+		charts.WithAriaOpts(&opts.Aria{Enabled: opts.Bool(true)}),
+	}
+}
+
+// optionOf validates a go-echarts chart and returns its option map.
+func optionOf(ch interface {
+	Validate()
+	JSON() map[string]interface{}
+}) map[string]any {
+	ch.Validate()
+	return ch.JSON()
+}
+
+// jsFunc marks JavaScript source for the option (see Chart.optionScript).
+// Only constant code of this package goes through it, never user text:
+// user text travels as data and is escaped where it is shown.
+func jsFunc(src string) string { return funcMarker + src + funcMarker }
+
+// Number formats used in tooltips and tables. Proportions show as
+// percentages, differences as signed percentage points.
+func fmtPct(v float64) string {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return fmtSpecial(v)
+	}
+	return strconv.FormatFloat(100*v, 'f', 2, 64) + "%"
+}
+
+func fmtPP(v float64) string {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return fmtSpecial(v)
+	}
+	s := strconv.FormatFloat(math.Abs(100*v), 'f', 2, 64)
+	switch {
+	case v > 0 && s != "0.00":
+		return "+" + s + " pp"
+	case v < 0 && s != "0.00":
+		return "−" + s + " pp"
+	}
+	return "0.00 pp"
+}
+
+func fmtSpecial(v float64) string {
+	switch {
+	case math.IsInf(v, 1):
+		return "∞"
+	case math.IsInf(v, -1):
+		return "−∞"
+	}
+	return "not estimable"
+}
+
+func fmtLevel(level float64) string {
+	return strconv.FormatFloat(100*level, 'g', 4, 64) + "%"
+}
+
+// fmtP prints a probability such as a p-value or coverage with 4
+// significant digits.
+func fmtP(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
+
+// esc escapes user text for tooltip HTML.
+func esc(s string) string { return html.EscapeString(s) }
+
+// axisName is an axis title with its unit, e.g. "difference (percentage points)".
+func axisName(what, unit string) string {
+	if unit == "" {
+		return what
+	}
+	return fmt.Sprintf("%s (%s)", what, unit)
+}
