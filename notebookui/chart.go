@@ -371,11 +371,3 @@ func (t dataTable) markdown() string {
 	}
 	return b.String()
 }
-
-// mdEscape escapes the characters that Markdown or its HTML would
-// interpret, so user labels show literally.
-func mdEscape(s string) string {
-	r := strings.NewReplacer(`\`, `\\`, "|", `\|`, "*", `\*`, "_", `\_`, "`", "\\`", "[", `\[`, "]", `\]`,
-		"<", "&lt;", ">", "&gt;", "&", "&amp;", "#", `\#`, "\n", " ")
-	return r.Replace(s)
-}

@@ -170,11 +170,11 @@ func findInterval(ivs []proportions.Interval, key string) (proportions.Interval,
 
 // whiskerValue is the data value the whisker renderer reads.
 func whiskerValue(estimate float64, category int, iv proportions.Interval, strong bool) []float64 {
-	return []float64{estimate, float64(category), iv.Lower, iv.Upper, flag(strong),
-		flag(iv.RawLower < iv.Lower), flag(iv.RawUpper > iv.Upper)}
+	return []float64{estimate, float64(category), iv.Lower, iv.Upper, boolFlag(strong),
+		boolFlag(iv.RawLower < iv.Lower), boolFlag(iv.RawUpper > iv.Upper)}
 }
 
-func flag(b bool) float64 {
+func boolFlag(b bool) float64 {
 	if b {
 		return 1
 	}
