@@ -63,4 +63,6 @@ func ExampleIntervalMethods_oddsRatio() {
 	// Woolf logit: 6.0000 (1.4447 to 24.9192), 95% confidence
 	// Gart adjusted logit: 6.0000 (1.3821 to 21.4716), 95% confidence
 	// Miettinen–Nurminen score (odds ratio): 6.0000 (1.4685 to 24.5733), 95% confidence
+	// Cornfield exact conditional: 5.6922 (1.1864 to 31.7553), 95% confidence
+	// Cornfield mid-p: 5.6922 (1.3856 to 26.0846), 95% confidence
 }

@@ -37,3 +37,24 @@ func BenchmarkRatioTests(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkConditionalOddsRatio times the exact conditional intervals and
+// the conditional estimate at n = 1000 per group (target: under 1 ms).
+func BenchmarkConditionalOddsRatio(b *testing.B) {
+	conf, _ := NewConfidence(0.95)
+	tables := []Counts{{500, 1000, 430, 1000}, {30, 1000, 12, 1000}, {990, 1000, 960, 1000}}
+	for _, m := range []IntervalMethod{CornfieldExact, CornfieldMidP} {
+		b.Run(m.Key, func(b *testing.B) {
+			b.ReportAllocs()
+			for i := 0; b.Loop(); i++ {
+				lo, hi := m.Limits(tables[i%len(tables)], conf)
+				benchSink += lo + hi
+			}
+		})
+	}
+	b.Run("conditional-mle", func(b *testing.B) {
+		for i := 0; b.Loop(); i++ {
+			benchSink += conditionalMLE(tables[i%len(tables)])
+		}
+	})
+}

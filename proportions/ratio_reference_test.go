@@ -35,6 +35,14 @@ type ratioReference struct {
 		Statistic float64 `json:"statistic"`
 		PTwoSided float64 `json:"p_two_sided"`
 	} `json:"scipy"`
+	MidP []struct {
+		Source string    `json:"source"`
+		Status string    `json:"status"`
+		Data   Counts    `json:"data"`
+		Level  float64   `json:"level"`
+		Lower  JSONFloat `json:"lower"`
+		Upper  JSONFloat `json:"upper"`
+	} `json:"midp"`
 }
 
 func loadRatioReference(t *testing.T) ratioReference {
@@ -180,5 +188,55 @@ func TestRatioScoreTestsAtNoEffect(t *testing.T) {
 	}
 	if n == 0 {
 		t.Fatal("no Pearson chi-square entries")
+	}
+}
+
+// TestConditionalOddsRatioAgainstSciPy compares the conditional maximum-
+// likelihood estimate and the exact conditional (Cornfield) interval with
+// SciPy 1.10.1 (scipy.stats.contingency.odds_ratio, kind="conditional"),
+// a cross-implementation check. SciPy's root finding is looser than ours,
+// so the tolerance is relative 1e-6.
+func TestConditionalOddsRatioAgainstSciPy(t *testing.T) {
+	ref := loadRatioReference(t)
+	n := 0
+	for _, e := range ref.SciPy {
+		if e.Method != "conditional" {
+			continue
+		}
+		n++
+		iv, err := CornfieldExact.Interval(e.Data, e.Level)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !relClose(iv.Estimate, e.Value, 1e-6) || !relClose(iv.Lower, e.Lower, 1e-6) || !relClose(iv.Upper, e.Upper, 1e-6) {
+			t.Errorf("%v: got %.10g (%.10g, %.10g), SciPy %.10g (%.10g, %.10g)", e.Data, iv.Estimate, iv.Lower, iv.Upper, e.Value, e.Lower, e.Upper)
+		}
+		est, err := ConditionalMLE(e.Data)
+		if err != nil || est != iv.Estimate {
+			t.Errorf("ConditionalMLE %v = %v, %v; interval estimate %v", e.Data, est, err, iv.Estimate)
+		}
+	}
+	if n != 7 {
+		t.Errorf("checked %d conditional entries, want 7", n)
+	}
+}
+
+// TestCornfieldMidPRecomputed compares the mid-p conditional interval with
+// an independent recomputation from its definition using SciPy's general
+// noncentral hypergeometric distribution (status "recomputed": a
+// cross-implementation check, not a published value).
+func TestCornfieldMidPRecomputed(t *testing.T) {
+	ref := loadRatioReference(t)
+	if len(ref.MidP) == 0 {
+		t.Fatal("no mid-p entries")
+	}
+	for _, e := range ref.MidP {
+		iv, err := CornfieldMidP.Interval(e.Data, e.Level)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !relClose(iv.Lower, float64(e.Lower), 1e-8) || !relClose(iv.Upper, float64(e.Upper), 1e-8) {
+			t.Errorf("%v: got (%.10g, %.10g), recomputed (%.10g, %.10g)", e.Data, iv.Lower, iv.Upper, float64(e.Lower), float64(e.Upper))
+		}
 	}
 }

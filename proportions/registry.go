@@ -35,6 +35,10 @@ type IntervalMethod struct {
 	// given confidence. It must not allocate and must never return NaN:
 	// it is called for every outcome of a design by the coverage engine.
 	Limits func(c Counts, conf Confidence) (lower, upper float64) `json:"-"`
+	// PointEstimate, when set, is the estimate the method reports in place
+	// of Family.Estimate (the conditional odds-ratio methods report the
+	// conditional maximum-likelihood estimate); NaN means not estimable.
+	PointEstimate func(c Counts) float64 `json:"-"`
 }
 
 // Interval validates the counts and the level, computes the limits and
@@ -55,6 +59,9 @@ func (m IntervalMethod) IntervalAt(c Counts, conf Confidence) Interval {
 	rawLo, rawHi := m.Limits(c, conf)
 	lo, hi, clipped := clip(m.Family, rawLo, rawHi)
 	est := m.Family.Estimate(c)
+	if m.PointEstimate != nil {
+		est = m.PointEstimate(c)
+	}
 	return Interval{
 		Method: m.Key, Name: m.Name, Family: m.Family, Level: conf.Level,
 		Estimate: est, Defined: !math.IsNaN(est),
@@ -106,7 +113,7 @@ var (
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
 	}
 	oddsRatioMethods = []IntervalMethod{
-		Woolf, GartAdjusted, MiettinenNurminenOddsRatio,
+		Woolf, GartAdjusted, MiettinenNurminenOddsRatio, CornfieldExact, CornfieldMidP,
 	}
 	proportionMethods = []ProportionMethod{}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
