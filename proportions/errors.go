@@ -38,4 +38,10 @@ var (
 	ErrUnsupported = errors.New("not supported by this method")
 	// ErrTooLarge: a count is larger than the library handles.
 	ErrTooLarge = errors.New("count too large")
+	// ErrDesign: a study-planning input (anticipated rate, α, power,
+	// allocation ratio, drop-out share, group size) lies outside its range.
+	ErrDesign = errors.New("study design input outside its allowed range")
+	// ErrUnreachable: no finite sample size reaches the requested power
+	// (for example equal anticipated rates in a superiority design).
+	ErrUnreachable = errors.New("target power cannot be reached")
 )
