@@ -15,16 +15,17 @@ import "math"
 // subject to π̃1 − π̃2 = null (difference) or π̃1 = null·π̃2 (ratio). At no
 // effect they are both the pooled rate (p1 + r·p2)/(1 + r).
 //
-// The score tests' own restricted MLE works on integer counts; planning
-// needs it at real-valued anticipated rates, hence this small solver.
+// The ratio case reuses the score tests' solver on real-valued counts; the
+// difference case solves the Farrington–Manning cubic at real-valued rates.
 func nullRates(scale Family, p1, p2, r, null float64) (q1, q2 float64) {
 	if null == scale.NoEffect() {
 		pooled := (p1 + r*p2) / (1 + r)
 		return pooled, pooled
 	}
 	if scale == Ratio {
-		q2 = ratioNullRate2(p1, p2, r, null)
-		return null * q2, q2
+		// The likelihood equation of the ratio-scale score tests with
+		// x1 = p1, n1 = 1, x2 = r·p2, n2 = r.
+		return restrictedRatioRates(p1, 1, r*p2, r, null)
 	}
 	q1 = differenceNullRate1(p1, p2, r, null)
 	return q1, q1 - null
@@ -58,20 +59,4 @@ func differenceNullRate1(p1, p2, r, delta float64) float64 {
 	// Keep the root inside the parameter space (guards rounding at the edges).
 	lo, hi := math.Max(0, delta), math.Min(1, 1+delta)
 	return math.Max(lo, math.Min(hi, x))
-}
-
-// ratioNullRate2 solves the likelihood equation for π̃2 under π̃1 = ρ·π̃2,
-// the quadratic A·x² + B·x + C = 0 with
-//
-//	A = ρ(1 + r),  B = −(ρ(1 + r·p2) + r + p1),  C = p1 + r·p2,
-//
-// whose smaller root is the maximum (Farrington & Manning 1990).
-func ratioNullRate2(p1, p2, r, rho float64) float64 {
-	A := rho * (1 + r)
-	B := -(rho*(1+r*p2) + r + p1)
-	C := p1 + r*p2
-	disc := math.Max(0, B*B-4*A*C)
-	// The smaller root, written to avoid cancellation: x = 2C/(−B + √disc).
-	x := 2 * C / (-B + math.Sqrt(disc))
-	return math.Max(0, math.Min(math.Min(1, 1/rho), x))
 }

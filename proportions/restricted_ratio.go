@@ -19,7 +19,12 @@ import "math"
 // 2C / (−B + √(B² − 4AC)), free of cancellation since −B > 0, after dividing
 // the equation by max(θ, 1) so that B² cannot overflow.
 func restrictedUnderRatio(c Counts, theta float64) (p1, p2 float64) {
-	x1, n1, x2, n2 := float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2)
+	return restrictedRatioRates(float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2), theta)
+}
+
+// restrictedRatioRates is restrictedUnderRatio for real-valued counts (study
+// planning calls it with the anticipated rates, x = n·π).
+func restrictedRatioRates(x1, n1, x2, n2, theta float64) (p1, p2 float64) {
 	s := math.Max(theta, 1)
 	a := (n1 + n2) * theta / s
 	b := -(n1*theta + x1 + n2 + x2*theta) / s
