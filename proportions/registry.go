@@ -108,6 +108,12 @@ func (m ProportionMethod) IntervalAt(x, n int64, conf Confidence) Interval {
 var (
 	differenceMethods = []IntervalMethod{
 		Wald,
+		WaldCC,
+		AgrestiCaffo,
+		Newcombe,
+		NewcombeCC,
+		Mee,
+		MiettinenNurminen,
 	}
 	ratioMethods = []IntervalMethod{
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
@@ -115,7 +121,7 @@ var (
 	oddsRatioMethods = []IntervalMethod{
 		Woolf, GartAdjusted, MiettinenNurminenOddsRatio, CornfieldExact, CornfieldMidP,
 	}
-	proportionMethods = []ProportionMethod{}
+	proportionMethods = []ProportionMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
 	// the ratio and odds-ratio scales.
 	asymptoticTests = []TestMethod{}

@@ -1,0 +1,38 @@
+package proportions
+
+import "gonum.org/v1/gonum/stat/distuv"
+
+// Jeffreys is the equal-tailed interval of the posterior of π under
+// Jeffreys' prior Beta(½, ½), which after x events in n trials is
+// Beta(x + ½, n − x + ½):
+//
+//	lower = B⁻¹(α/2; x + ½, n − x + ½),   upper = B⁻¹(1 − α/2; x + ½, n − x + ½).
+//
+// Brown LD, Cai TT, DasGupta A (2001), "Interval estimation for a binomial
+// proportion", Statistical Science 16:101–133, recommend it (with Wilson's)
+// for its coverage close to nominal and its equal tails.
+//
+// Boundary rule (theirs): lower = 0 when x = 0 and upper = 1 when x = n,
+// since the posterior quantile there would exclude the observed extreme and
+// coverage near π = 0 and 1 would suffer.
+var Jeffreys = ProportionMethod{
+	Key:        "jeffreys",
+	Name:       "Jeffreys",
+	Citation:   "Brown LD, Cai TT, DasGupta A (2001). Interval estimation for a binomial proportion. Statistical Science 16:101–133 (Jeffreys interval).",
+	Definition: "quantiles α/2 and 1 − α/2 of Beta(x + ½, n − x + ½); lower 0 at x = 0 and upper 1 at x = n",
+	Limits:     jeffreysLimits,
+}
+
+func jeffreysLimits(x, n int64, conf Confidence) (lower, upper float64) {
+	alpha := conf.Alpha()
+	fx, fn := float64(x), float64(n)
+	post := distuv.Beta{Alpha: fx + 0.5, Beta: fn - fx + 0.5}
+	lower, upper = 0, 1
+	if x > 0 {
+		lower = post.Quantile(alpha / 2)
+	}
+	if x < n {
+		upper = post.Quantile(1 - alpha/2)
+	}
+	return lower, upper
+}
