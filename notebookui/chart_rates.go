@@ -1,7 +1,6 @@
 package notebookui
 
 import (
-	"errors"
 	"fmt"
 	"strconv"
 
@@ -10,8 +9,8 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// errNoIntervals is returned when an analysis carries no intervals to draw.
-var errNoIntervals = errors.New("nothing to draw")
+// errNoIntervals is returned when the data hold nothing to draw.
+var errNoIntervals = proportions.ErrEmptyInput
 
 // whiskerRenderer draws one interval as a horizontal line with end caps and
 // a marker at the estimate. Data item value: [estimate, category index,
