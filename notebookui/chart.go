@@ -7,7 +7,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"html"
-		"regexp"
+	"regexp"
 	"strconv"
 	"strings"
 )
