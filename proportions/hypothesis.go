@@ -88,6 +88,10 @@ type TestMethod struct {
 	// ContinuityCorrected marks a continuity-corrected variant (Yates);
 	// Analyze runs it only when WithContinuityCorrection(true) is given.
 	ContinuityCorrected bool `json:"continuity_corrected,omitempty"`
+	// Check, when set, reports counts the test refuses to run (for example a
+	// design too large for an exact unconditional test), with an error
+	// wrapping a sentinel such as ErrTooLarge. Test calls it before Run.
+	Check func(c Counts) error `json:"-"`
 	// Run computes the test for validated counts and a validated hypothesis
 	// (Test does the validation). It must never return NaN.
 	Run func(c Counts, h Hypothesis) TestResult `json:"-"`
@@ -107,6 +111,11 @@ func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
 	h, err := m.Hypothesis(s)
 	if err != nil {
 		return TestResult{}, err
+	}
+	if m.Check != nil {
+		if err := m.Check(c); err != nil {
+			return TestResult{}, err
+		}
 	}
 	return m.Run(c, h), nil
 }

@@ -126,7 +126,7 @@ var (
 	// the ratio and odds-ratio scales.
 	asymptoticTests = []TestMethod{}
 	exactTests      = []TestMethod{
-		Fisher, FisherMidP,
+		Fisher, FisherMidP, Barnard, BarnardWald, Boschloo, BoschlooDoubled,
 	}
 	ratioTests = []TestMethod{
 		FarringtonManningRatio, MiettinenNurminenRatioTest, MiettinenNurminenOddsRatioTest,

@@ -1,0 +1,141 @@
+package proportions
+
+import "math"
+
+// The region of Boschloo's test: tables whose Fisher p-value is at most the
+// observed one. Fisher's p-value depends on a table only through its
+// margin m = x1 + x2 and its place in that margin's hypergeometric
+// distribution, so the region is built one margin ("slice") at a time:
+//
+//   - one-sided (Greater): Fisher's p P(X1 ≥ k | m) falls as k rises, so the
+//     slice's tables in the region are k ≥ cut(m), found by summing the
+//     hypergeometric tail down from the top until it exceeds the observed p;
+//   - two-sided: Fisher's two-sided p orders a slice's tables by their
+//     probability, so the region is the two outer tails of the slice, found
+//     by merging from both ends, least probable table first, until the
+//     running total exceeds the observed p.
+//
+// Each slice costs as many steps as it has tables in the region, plus one,
+// so the whole region costs O(n1 + n2 + |region|) steps in log space
+// (accurate however small the observed p-value).
+
+// fisherSliceCuts returns, for every margin m = 0..n1+n2, the bounds
+// (left[m], right[m]) of the slice's part of the region: tables with
+// x1 ≤ left[m] or x1 ≥ right[m].
+func fisherSliceCuts(n1, n2 int64, logThr float64, side regionSide) (left, right []int64) {
+	n := n1 + n2
+	left, right = make([]int64, n+1), make([]int64, n+1)
+	for m := int64(0); m <= n; m++ {
+		lo, hi := hypergeomSupport(n1, n2, m)
+		switch side {
+		case sideGreater:
+			left[m], right[m] = lo-1, fisherUpperCut(n1, n2, m, logThr)
+		case sideLess:
+			left[m], right[m] = fisherLowerCut(n1, n2, m, logThr), hi+1
+		default:
+			left[m], right[m] = fisherTwoSidedCut(n1, n2, m, logThr)
+		}
+	}
+	return left, right
+}
+
+// fisherUpperCut returns the smallest k with log P(X1 ≥ k | m) ≤ logThr
+// (hi+1 when even the top table's tail exceeds it).
+func fisherUpperCut(n1, n2, m int64, logThr float64) int64 {
+	lo, hi := hypergeomSupport(n1, n2, m)
+	term := logHypergeomPMF(hi, n1, n2, m)
+	cum := term
+	if cum > logThr {
+		return hi + 1
+	}
+	k := hi
+	for k > lo {
+		term -= math.Log(hypergeomRatio(k-1, n1, n2, m))
+		next := logAddExp(cum, term)
+		if next > logThr {
+			break
+		}
+		cum, k = next, k-1
+	}
+	return k
+}
+
+// fisherLowerCut returns the largest k with log P(X1 ≤ k | m) ≤ logThr
+// (lo−1 when even the bottom table's tail exceeds it).
+func fisherLowerCut(n1, n2, m int64, logThr float64) int64 {
+	lo, hi := hypergeomSupport(n1, n2, m)
+	term := logHypergeomPMF(lo, n1, n2, m)
+	cum := term
+	if cum > logThr {
+		return lo - 1
+	}
+	k := lo
+	for k < hi {
+		term += math.Log(hypergeomRatio(k, n1, n2, m))
+		next := logAddExp(cum, term)
+		if next > logThr {
+			break
+		}
+		cum, k = next, k+1
+	}
+	return k
+}
+
+// fisherTwoSidedCut returns the slice's two-sided region bounds: the
+// tables are taken from both ends, least probable first, a group of tables
+// tied within FisherTieTolerance at a time (they share one two-sided
+// p-value), while the running total stays at most exp(logThr).
+func fisherTwoSidedCut(n1, n2, m int64, logThr float64) (left, right int64) {
+	lo, hi := hypergeomSupport(n1, n2, m)
+	tieTol := math.Log1p(FisherTieTolerance)
+	i, j := lo, hi
+	li, lj := logHypergeomPMF(lo, n1, n2, m), logHypergeomPMF(hi, n1, n2, m)
+	cum := math.Inf(-1)
+	for i <= j {
+		tie := min(li, lj) + tieTol
+		group := math.Inf(-1)
+		ni, nj, nli, nlj := i, j, li, lj
+		for ni <= nj && nli <= tie {
+			group = logAddExp(group, nli)
+			ni++
+			if ni <= hi {
+				nli += math.Log(hypergeomRatio(ni-1, n1, n2, m))
+			}
+		}
+		for nj >= ni && nlj <= tie {
+			group = logAddExp(group, nlj)
+			nj--
+			if nj >= lo {
+				nlj -= math.Log(hypergeomRatio(nj, n1, n2, m))
+			}
+		}
+		next := logAddExp(cum, group)
+		if next > logThr {
+			break
+		}
+		cum, i, j, li, lj = next, ni, nj, nli, nlj
+	}
+	return i - 1, j + 1
+}
+
+// fisherRegion builds Boschloo's region for the counts and returns it with
+// the log of the observed Fisher p-value (one-sided for sideGreater and
+// sideLess, two-sided for sideBoth).
+func fisherRegion(c Counts, side regionSide) (region, float64) {
+	alt := TwoSided
+	switch side {
+	case sideGreater:
+		alt = Greater
+	case sideLess:
+		alt = Less
+	}
+	logp := fisherLogP(c, alt, false)
+	left, right := fisherSliceCuts(c.N1, c.N2, logp+statTieTolerance, side)
+	reg := buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
+		for x2 := range row {
+			m := x1 + x2
+			row[x2] = int64(x1) <= left[m] || int64(x1) >= right[m]
+		}
+	})
+	return reg, logp
+}

@@ -1,0 +1,261 @@
+package proportions
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Unconditional exact tests (Barnard, Boschloo): the p-value is the largest
+// probability, over the unknown common success probability (the nuisance
+// parameter), of the tables at least as extreme as the observed one:
+//
+//	p = sup over π of P(T(X1, X2) at least as extreme as T(x1, x2) | π1 = π2 + δ0 = π + δ0),
+//
+// with X1 ~ Binomial(n1, π1) and X2 ~ Binomial(n2, π2) independent. How the
+// supremum is found is described in unconditional_sup.go; the cost is
+// O(n1·n2) once to build the region of extreme tables plus
+// O((n1 + n2)·√(n1 + n2)) to search the nuisance parameter (each evaluation
+// is one prefix-sum difference per run of the region, see
+// unconditional_region.go). UnconditionalMaxTables caps the design.
+
+// OrderingStatistic is the statistic that decides which tables are at
+// least as extreme as the observed one in an unconditional exact test.
+type OrderingStatistic int
+
+const (
+	// PooledScore orders by the score statistic (p1 − p2 − δ0)/SE at the
+	// restricted estimates; with δ0 = 0 this is the pooled z of Barnard's
+	// test as used by Suissa & Shuster (1985).
+	PooledScore OrderingStatistic = iota
+	// UnpooledWald orders by (p1 − p2 − δ0)/√(p1(1−p1)/n1 + p2(1−p2)/n2).
+	UnpooledWald
+	// FisherPValue orders by Fisher's exact p-value (Boschloo's test).
+	FisherPValue
+)
+
+// TwoSidedRule says how an unconditional test makes a two-sided p-value.
+type TwoSidedRule int
+
+const (
+	// TwoSidedOrdered (the default) takes the tables at least as extreme in
+	// either direction under a two-sided statistic: |z| ≥ |z_obs| for the z
+	// statistics, two-sided Fisher p ≤ observed for Boschloo's test, and
+	// maximises their total probability over the nuisance parameter.
+	TwoSidedOrdered TwoSidedRule = iota
+	// TwoSidedDoubled is twice the smaller one-sided p-value, capped at 1
+	// (each one-sided p maximised on its own), the convention of some
+	// references.
+	TwoSidedDoubled
+)
+
+// UnconditionalMaxTables is the largest number of tables (n1+1)·(n2+1) an
+// unconditional exact test or interval accepts: about 4·10⁸, a design of
+// 20 000 per group, which takes tens of seconds and a few hundred MB.
+// Larger designs are refused with an error wrapping ErrTooLarge (from the
+// test's Check); there the exact and the asymptotic tests agree closely.
+const UnconditionalMaxTables = 4e8
+
+// unconditionalSizeLimit is the SizeLimit (n1 + n2) at which one test takes
+// about a second on one core, measured with the benchmarks.
+const unconditionalSizeLimit = 6000
+
+// UnconditionalDesign describes an unconditional exact test.
+type UnconditionalDesign struct {
+	Statistic OrderingStatistic
+	TwoSided  TwoSidedRule
+	// BergerBoosGamma, when positive, restricts the supremum to a
+	// 1 − γ Clopper–Pearson confidence interval for the nuisance parameter
+	// and adds γ to the p-value: Berger RL, Boos DD (1994), "P values
+	// maximised over a confidence set for the nuisance parameter", Journal
+	// of the American Statistical Association 89:1012–1016. The interval is
+	// for the pooled proportion (x1+x2)/(n1+n2) when δ0 = 0 and for π2 from
+	// the second group otherwise. Berger and Boos suggest γ = 0.001.
+	BergerBoosGamma float64
+}
+
+// Barnard is Barnard's unconditional exact test with the pooled score
+// statistic z = (p1 − p2)/√(p̄(1−p̄)(1/n1 + 1/n2)), p̄ = (x1+x2)/(n1+n2):
+// Barnard GA (1947), "Significance tests for 2×2 tables", Biometrika
+// 34:123–138, with the score ordering of Suissa S, Shuster JJ (1985),
+// "Exact unconditional sample sizes for the 2×2 binomial trial", Journal of
+// the Royal Statistical Society A 148:317–327. A non-zero null difference
+// δ0 uses the score statistic at the restricted estimates (Farrington &
+// Manning 1990) and maximises over π2 with π1 = π2 + δ0: the exact
+// unconditional test of Chan ISF (1998), "Exact tests of equivalence and
+// efficacy with a non-zero lower bound for comparative studies",
+// Statistics in Medicine 17:1403–1413. Two-sided: |z| ≥ |z_obs|.
+var Barnard = mustUnconditional("barnard", "Barnard (score)", UnconditionalDesign{Statistic: PooledScore})
+
+// BarnardWald is Barnard's unconditional exact test ordered by the unpooled
+// (Wald) statistic z = (p1 − p2 − δ0)/√(p1(1−p1)/n1 + p2(1−p2)/n2), with
+// z = ±∞ when that variance is 0 and p1 − p2 ≠ δ0: Barnard GA (1947),
+// Biometrika 34:123–138. Two-sided: |z| ≥ |z_obs|.
+var BarnardWald = mustUnconditional("barnard-wald", "Barnard (Wald)", UnconditionalDesign{Statistic: UnpooledWald})
+
+// Boschloo is Boschloo's unconditional exact test: tables are ordered by
+// Fisher's exact p-value, and the p-value is the supremum over the common π
+// of P(Fisher p ≤ observed Fisher p): Boschloo RD (1970), "Raised
+// conditional level of significance for the 2×2-table when testing the
+// equality of two probabilities", Statistica Neerlandica 24:1–35. It is
+// never larger than Fisher's p-value. Two-sided: ordered by Fisher's
+// two-sided p-value (tables no more probable than the observed one within
+// their margin).
+var Boschloo = mustUnconditional("boschloo", "Boschloo", UnconditionalDesign{Statistic: FisherPValue})
+
+// BoschlooDoubled is Boschloo's test with the two-sided p-value taken as
+// twice the smaller one-sided p-value (capped at 1), ordered by Fisher's
+// one-sided p-values: the convention of some software and references.
+var BoschlooDoubled = mustUnconditional("boschloo-doubled", "Boschloo (doubled one-sided)",
+	UnconditionalDesign{Statistic: FisherPValue, TwoSided: TwoSidedDoubled})
+
+func mustUnconditional(key, name string, d UnconditionalDesign) TestMethod {
+	m, err := NewUnconditionalTest(d)
+	if err != nil {
+		panic(err) // registered designs are constants; reached only by a programming error
+	}
+	m.Key, m.Name = key, name
+	return m
+}
+
+// NewUnconditionalTest builds an unconditional exact test as a TestMethod
+// (usable with Test, the coverage engine and the cards) for any ordering
+// statistic, two-sided rule and Berger–Boos γ. It returns an error wrapping
+// ErrUnsupported for an unknown statistic or rule, or a γ outside [0, 0.2].
+// The key names the design, for example "barnard-wald-doubled-bb0.001".
+func NewUnconditionalTest(d UnconditionalDesign) (TestMethod, error) {
+	if d.Statistic < PooledScore || d.Statistic > FisherPValue || d.TwoSided < TwoSidedOrdered || d.TwoSided > TwoSidedDoubled {
+		return TestMethod{}, fmt.Errorf("unconditional design %+v: %w; use PooledScore, UnpooledWald or FisherPValue with TwoSidedOrdered or TwoSidedDoubled", d, ErrUnsupported)
+	}
+	if !(d.BergerBoosGamma >= 0 && d.BergerBoosGamma <= 0.2) {
+		return TestMethod{}, fmt.Errorf("Berger–Boos γ %v: %w; use 0 (off) or a small value such as 0.001 (at most 0.2)", d.BergerBoosGamma, ErrUnsupported)
+	}
+	key, name := [...]string{"barnard", "barnard-wald", "boschloo"}[d.Statistic], [...]string{"Barnard (score)", "Barnard (Wald)", "Boschloo"}[d.Statistic]
+	def := [...]string{
+		"p = sup over the common π of P(z ≥ z_obs), z the pooled score statistic (|z| ≥ |z_obs| two-sided)",
+		"p = sup over the common π of P(z ≥ z_obs), z the unpooled Wald statistic (|z| ≥ |z_obs| two-sided)",
+		"p = sup over the common π of P(Fisher p ≤ observed Fisher p)",
+	}[d.Statistic]
+	cite := [...]string{
+		"Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138; score ordering: Suissa S, Shuster JJ (1985). J R Stat Soc A 148:317–327; non-zero margin: Chan ISF (1998). Stat Med 17:1403–1413.",
+		"Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138.",
+		"Boschloo RD (1970). Raised conditional level of significance for the 2×2-table when testing the equality of two probabilities. Statistica Neerlandica 24:1–35.",
+	}[d.Statistic]
+	if d.TwoSided == TwoSidedDoubled {
+		key, name, def = key+"-doubled", name+", doubled", def+"; two-sided p = min(1, 2·smaller one-sided p)"
+	}
+	if d.BergerBoosGamma > 0 {
+		g := strconv.FormatFloat(d.BergerBoosGamma, 'g', -1, 64)
+		key, name = key+"-bb"+g, name+", Berger–Boos γ="+g
+		def += "; supremum over a 1−γ Clopper–Pearson interval for the nuisance parameter, plus γ"
+		cite += " Berger RL, Boos DD (1994). P values maximised over a confidence set for the nuisance parameter. JASA 89:1012–1016."
+	}
+	return TestMethod{
+		Key: key, Name: name, Citation: cite, Definition: def,
+		Family: Difference, Margins: d.Statistic != FisherPValue, Exact: true,
+		SizeLimit: unconditionalSizeLimit,
+		Check:     checkUnconditionalSize,
+		Run:       func(c Counts, h Hypothesis) TestResult { return runUnconditional(c, h, d, key, name) },
+	}, nil
+}
+
+// checkUnconditionalSize refuses designs above UnconditionalMaxTables.
+func checkUnconditionalSize(c Counts) error {
+	if t := float64(c.N1+1) * float64(c.N2+1); t > UnconditionalMaxTables {
+		return fmt.Errorf("%d and %d trials make %.3g tables: %w; exact unconditional methods accept at most %.0g tables ((n1+1)·(n2+1)); use Fisher's exact test or an asymptotic test at this size",
+			c.N1, c.N2, t, ErrTooLarge, float64(UnconditionalMaxTables))
+	}
+	return nil
+}
+
+// runUnconditional computes the test. Above UnconditionalMaxTables (which
+// Test refuses through Check) it returns p = 1 — a valid but uninformative
+// p-value — with the statistic name saying it was not computed, so direct
+// callers of Run never hang.
+func runUnconditional(c Counts, h Hypothesis, d UnconditionalDesign, key, name string) TestResult {
+	r := TestResult{Method: key, Name: name, Family: Difference}
+	if checkUnconditionalSize(c) != nil {
+		r.StatisticName = "not computed (design too large)"
+		r.PValue, r.LogPValue = 1, 0
+		r.decide(h)
+		return r
+	}
+	var logp, nuis float64
+	switch {
+	case h.Alternative == TwoSided && d.TwoSided == TwoSidedDoubled:
+		lg, ng, sg := unconditionalSide(c, h.Null, d, sideGreater)
+		ll, nl, sl := unconditionalSide(c, h.Null, d, sideLess)
+		logp, nuis, r.Statistic = lg, ng, sg
+		if ll < lg {
+			logp, nuis, r.Statistic = ll, nl, sl
+		}
+		logp = min(logp+math.Ln2, 0)
+	case h.Alternative == Greater:
+		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideGreater)
+	case h.Alternative == Less:
+		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideLess)
+	default:
+		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideBoth)
+	}
+	if g := d.BergerBoosGamma; g > 0 {
+		logp = math.Log(min(math.Exp(logp)+g, 1))
+	}
+	r.StatisticName = "z"
+	if d.Statistic == FisherPValue {
+		r.StatisticName = "Fisher p"
+	}
+	r.PValue, r.LogPValue, r.Nuisance = math.Exp(logp), logp, &nuis
+	r.decide(h)
+	return r
+}
+
+// unconditionalSide returns the log of the maximised tail probability for
+// one region, the nuisance value π2 where it is attained, and the observed
+// ordering statistic.
+func unconditionalSide(c Counts, delta float64, d UnconditionalDesign, side regionSide) (logp, nuisance, stat float64) {
+	var reg region
+	switch d.Statistic {
+	case FisherPValue:
+		var lf float64
+		reg, lf = fisherRegion(c, side)
+		stat = math.Exp(lf)
+	default:
+		reg, stat = zRegion(c, delta, d.Statistic == PooledScore, side)
+	}
+	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
+	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b}
+	logp, nuisance = s.supremum()
+	return logp, nuisance, stat
+}
+
+// nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0
+// in [0, 1], narrowed by the Berger–Boos interval when γ > 0.
+func nuisanceRange(c Counts, delta, gamma float64) (a, b float64) {
+	a, b = max(0, -delta), min(1, 1-delta)
+	if gamma <= 0 {
+		return a, b
+	}
+	x, n := c.X2, c.N2
+	if delta == 0 {
+		x, n = c.X1+c.X2, c.N1+c.N2
+	}
+	lo, hi := clopperPearson(x, n, gamma)
+	return max(a, lo), min(b, max(hi, max(a, lo)))
+}
+
+// clopperPearson returns the 1 − γ Clopper–Pearson interval for x events
+// of n: the γ/2 quantile of Beta(x, n−x+1) and the 1−γ/2 quantile of
+// Beta(x+1, n−x) (Clopper CJ, Pearson ES (1934), Biometrika 26:404–413),
+// with gonum's beta distribution.
+func clopperPearson(x, n int64, gamma float64) (lo, hi float64) {
+	lo, hi = 0, 1
+	if x > 0 {
+		lo = distuv.Beta{Alpha: float64(x), Beta: float64(n - x + 1)}.Quantile(gamma / 2)
+	}
+	if x < n {
+		hi = distuv.Beta{Alpha: float64(x + 1), Beta: float64(n - x)}.Quantile(1 - gamma/2)
+	}
+	return lo, hi
+}

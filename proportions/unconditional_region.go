@@ -1,0 +1,60 @@
+package proportions
+
+// A rejection region of an unconditional exact test: the set of tables
+// (x1, x2), 0 ≤ x1 ≤ n1, 0 ≤ x2 ≤ n2, at least as extreme as the observed
+// one under the test's ordering statistic. It is stored row by row as runs
+// of consecutive x2, so that its probability under independent binomials
+// costs one prefix-sum difference per run instead of one term per table.
+//
+// The runs are found by scanning every table once (O(n1·n2) work, done once
+// per test, not once per nuisance value): the code does not assume how many
+// runs a row has. For the statistics used here a row is one run, or two runs
+// touching the ends 0 and n2 (two-sided tests); tests check this property
+// on many designs, but correctness never depends on it.
+type region struct {
+	n1, n2 int
+	// Runs of row x1 are runs[rowStart[x1]:rowStart[x1+1]], each [lo, hi]
+	// inclusive.
+	rowStart []int32
+	runs     [][2]int32
+	// tables counts the tables in the region.
+	tables int64
+}
+
+// buildRegion scans the rows: fill(x1, row) must set row[x2] for every
+// x2 in 0..n2 to whether table (x1, x2) belongs to the region.
+func buildRegion(n1, n2 int, fill func(x1 int, row []bool)) region {
+	r := region{n1: n1, n2: n2, rowStart: make([]int32, n1+2)}
+	row := make([]bool, n2+1)
+	for x1 := 0; x1 <= n1; x1++ {
+		r.rowStart[x1] = int32(len(r.runs))
+		fill(x1, row)
+		for x2 := 0; x2 <= n2; {
+			if !row[x2] {
+				x2++
+				continue
+			}
+			start := x2
+			for x2 <= n2 && row[x2] {
+				x2++
+			}
+			r.runs = append(r.runs, [2]int32{int32(start), int32(x2 - 1)})
+			r.tables += int64(x2 - start)
+		}
+	}
+	r.rowStart[n1+1] = int32(len(r.runs))
+	return r
+}
+
+// maxRunsPerRow returns the largest number of runs in one row.
+func (r region) maxRunsPerRow() int {
+	most := 0
+	for x1 := 0; x1 <= r.n1; x1++ {
+		most = max(most, int(r.rowStart[x1+1]-r.rowStart[x1]))
+	}
+	return most
+}
+
+// full reports whether every table is in the region (then its probability
+// is 1 whatever the nuisance value).
+func (r region) full() bool { return r.tables == int64(r.n1+1)*int64(r.n2+1) }
