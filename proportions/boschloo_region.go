@@ -40,23 +40,12 @@ func fisherSliceCuts(n1, n2 int64, logThr float64, side regionSide) (left, right
 }
 
 // fisherUpperCut returns the smallest k with log P(X1 ≥ k | m) ≤ logThr
-// (hi+1 when even the top table's tail exceeds it).
+// (hi+1 when even the top table's tail exceeds it). The tail is summed from
+// the top in linear scale relative to the top table's probability (terms
+// grow toward the mode, so nothing underflows), rescaled before overflow.
 func fisherUpperCut(n1, n2, m int64, logThr float64) int64 {
 	lo, hi := hypergeomSupport(n1, n2, m)
-	term := logHypergeomPMF(hi, n1, n2, m)
-	cum := term
-	if cum > logThr {
-		return hi + 1
-	}
-	k := hi
-	for k > lo {
-		term -= math.Log(hypergeomRatio(k-1, n1, n2, m))
-		next := logAddExp(cum, term)
-		if next > logThr {
-			break
-		}
-		cum, k = next, k-1
-	}
+	k, _ := fisherWalk(n1, n2, m, hi, lo, -1, logThr)
 	return k
 }
 
@@ -64,21 +53,40 @@ func fisherUpperCut(n1, n2, m int64, logThr float64) int64 {
 // (lo−1 when even the bottom table's tail exceeds it).
 func fisherLowerCut(n1, n2, m int64, logThr float64) int64 {
 	lo, hi := hypergeomSupport(n1, n2, m)
-	term := logHypergeomPMF(lo, n1, n2, m)
-	cum := term
-	if cum > logThr {
-		return lo - 1
+	k, _ := fisherWalk(n1, n2, m, lo, hi, 1, logThr)
+	return k
+}
+
+// fisherWalk sums the hypergeometric probabilities from the end `from`
+// toward `to` while the sum stays at most exp(logThr), and returns the last
+// table included (one step outside `from` when none is); step is +1 when
+// walking up, −1 when walking down.
+func fisherWalk(n1, n2, m, from, to, step int64, logThr float64) (last int64, logSum float64) {
+	const big = 1e280
+	base := logHypergeomPMF(from, n1, n2, m)
+	if base > logThr {
+		return from - step, math.Inf(-1)
 	}
-	k := lo
-	for k < hi {
-		term += math.Log(hypergeomRatio(k, n1, n2, m))
-		next := logAddExp(cum, term)
-		if next > logThr {
+	limit := math.Exp(min(logThr-base, 700)) // sum ≤ limit, relative to exp(base)
+	sum, term := 1.0, 1.0
+	k := from
+	for k != to {
+		if step > 0 {
+			term *= hypergeomRatio(k, n1, n2, m)
+		} else {
+			term /= hypergeomRatio(k-1, n1, n2, m)
+		}
+		if sum+term > limit {
 			break
 		}
-		cum, k = next, k+1
+		sum += term
+		k += step
+		if sum > big {
+			sum, term, base = sum/big, term/big, base+math.Log(big)
+			limit = math.Exp(min(logThr-base, 700))
+		}
 	}
-	return k
+	return k, base + math.Log(sum)
 }
 
 // fisherTwoSidedCut returns the slice's two-sided region bounds: the

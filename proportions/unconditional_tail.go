@@ -8,13 +8,19 @@ type tailWork struct {
 	b1, b2   []float64 // binomial probabilities of the two groups
 	pre, suf []float64 // prefix and suffix sums of b2 over its window
 	lb1, lb2 []float64 // log probabilities, for the log-space slow path
+	recip    []float64 // recip[k] = 1/k, k ≥ 1, so the recurrences need no division
 	evals    int       // number of evaluations (for tests and cost notes)
 }
 
 func newTailWork(n1, n2 int) *tailWork {
+	recip := make([]float64, max(n1, n2)+2)
+	for k := 1; k < len(recip); k++ {
+		recip[k] = 1 / float64(k)
+	}
 	return &tailWork{
 		b1: make([]float64, n1+1), b2: make([]float64, n2+1),
 		pre: make([]float64, n2+2), suf: make([]float64, n2+2),
+		recip: recip,
 	}
 }
 
@@ -24,7 +30,8 @@ func newTailWork(n1, n2 int) *tailWork {
 // stale and must not be read). The mode's value comes from the saddle-point
 // log pmf, so no step multiplies more than a ratio; the recurrence keeps
 // ~1e−13 relative accuracy over the window.
-func fillBinomial(b []float64, n int, p, cutoff float64) (lo, hi int) {
+// recip[k] must hold 1/k for 1 ≤ k ≤ n.
+func fillBinomial(b []float64, n int, p, cutoff float64, recip []float64) (lo, hi int) {
 	q := 1 - p
 	switch {
 	case p <= 0:
@@ -39,7 +46,7 @@ func fillBinomial(b []float64, n int, p, cutoff float64) (lo, hi int) {
 	odds := p / q
 	hi = mode
 	for k := mode; k < n; k++ {
-		v := b[k] * float64(n-k) / float64(k+1) * odds
+		v := b[k] * float64(n-k) * recip[k+1] * odds
 		if v < cutoff || v == 0 {
 			break
 		}
@@ -49,7 +56,7 @@ func fillBinomial(b []float64, n int, p, cutoff float64) (lo, hi int) {
 	lo = mode
 	inv := q / p
 	for k := mode; k > 0; k-- {
-		v := b[k] * float64(k) / float64(n-k+1) * inv
+		v := b[k] * float64(k) * recip[n-k+1] * inv
 		if v < cutoff || v == 0 {
 			break
 		}
@@ -72,8 +79,8 @@ func fillBinomial(b []float64, n int, p, cutoff float64) (lo, hi int) {
 // set ε relative to the p-value (not to 1) and tiny p-values stay accurate.
 func (w *tailWork) prob(r *region, p1, p2, cutoff float64) float64 {
 	w.evals++
-	l1, h1 := fillBinomial(w.b1, r.n1, p1, cutoff)
-	l2, h2 := fillBinomial(w.b2, r.n2, p2, cutoff)
+	l1, h1 := fillBinomial(w.b1, r.n1, p1, cutoff, w.recip)
+	l2, h2 := fillBinomial(w.b2, r.n2, p2, cutoff, w.recip)
 	pre, suf, b2 := w.pre, w.suf, w.b2
 	pre[l2] = 0
 	for j := l2; j <= h2; j++ {
