@@ -58,3 +58,24 @@ func (r region) maxRunsPerRow() int {
 // full reports whether every table is in the region (then its probability
 // is 1 whatever the nuisance value).
 func (r region) full() bool { return r.tables == int64(r.n1+1)*int64(r.n2+1) }
+
+// mirrored reports whether the region is unchanged by exchanging events and
+// non-events, (x1, x2) → (n1 − x1, n2 − x2). Two-sided orderings have this
+// symmetry; then the tail at π equals the tail at 1 − π when π1 = π2 = π,
+// and the nuisance search can stop at π = ½.
+func (r region) mirrored() bool {
+	for x1 := 0; x1 <= r.n1; x1++ {
+		a := r.runs[r.rowStart[x1]:r.rowStart[x1+1]]
+		b := r.runs[r.rowStart[r.n1-x1]:r.rowStart[r.n1-x1+1]]
+		if len(a) != len(b) {
+			return false
+		}
+		for i, run := range a {
+			m := b[len(b)-1-i]
+			if int(run[0]) != r.n2-int(m[1]) || int(run[1]) != r.n2-int(m[0]) {
+				return false
+			}
+		}
+	}
+	return true
+}

@@ -106,17 +106,7 @@ func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, flo
 	}
 	zobs := stat(float64(c.X1), n1, float64(c.X2), n2, delta)
 	if pooled && delta == 0 {
-		// Fast path for Barnard's pooled statistic: no cubic to solve.
-		inv := 1/n1 + 1/n2
-		reg := buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
-			p1 := float64(x1) / n1
-			for x2 := range row {
-				pool := (float64(x1) + float64(x2)) / (n1 + n2)
-				z := zRatio(p1-float64(x2)/n2, pool*(1-pool)*inv)
-				row[x2] = zInRegion(z, zobs, side)
-			}
-		})
-		return reg, zobs
+		return pooledRegion(c, zobs, side), zobs
 	}
 	reg := buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
 		for x2 := range row {
@@ -124,4 +114,44 @@ func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, flo
 		}
 	})
 	return reg, zobs
+}
+
+// pooledRegion is zRegion for Barnard's pooled statistic at δ0 = 0, the
+// common case, without a square root or division per table: with
+// d = p1 − p2 and V the pooled variance, z = d/√V, so each comparison
+// z ≥ t becomes a comparison of d² with t²·V and the signs (V = 0 only
+// when d = 0 here, where z := 0).
+func pooledRegion(c Counts, zobs float64, side regionSide) region {
+	n1, n2 := float64(c.N1), float64(c.N2)
+	inv, invN, invN2 := 1/n1+1/n2, 1/(n1+n2), 1/n2
+	slack := statTieTolerance * math.Abs(zobs)
+	t := zobs - slack // Greater: z ≥ t
+	if side == sideLess {
+		t = zobs + slack // Less: z ≤ t
+	}
+	if side == sideBoth {
+		t = math.Abs(zobs) - slack // two-sided: |z| ≥ t
+	}
+	t2 := t * t
+	return buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
+		p1 := float64(x1) / n1
+		for x2 := range row {
+			pool := (float64(x1) + float64(x2)) * invN
+			v := pool * (1 - pool) * inv
+			d := p1 - float64(x2)*invN2
+			if float64(x2)*n1 == float64(x1)*n2 {
+				d = 0 // exact tie p1 = p2 (the float difference may not be 0)
+			}
+			far := d*d >= t2*v // |z| ≥ |t|
+			near := d*d <= t2*v
+			switch side {
+			case sideGreater:
+				row[x2] = (t <= 0 && (d >= 0 || near)) || (t > 0 && d > 0 && far)
+			case sideLess:
+				row[x2] = (t >= 0 && (d <= 0 || near)) || (t < 0 && d < 0 && far)
+			default:
+				row[x2] = t <= 0 || (d != 0 && far)
+			}
+		}
+	})
 }

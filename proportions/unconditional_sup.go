@@ -30,7 +30,7 @@ const supCandidateShare = 0.2
 // supTolerance is the precision of the refined peak location on the angle
 // scale (radians); the peak's height is then exact to far better than 1e−12
 // relative, because the tail is flat at a maximum.
-const supTolerance = 1e-10
+const supTolerance = 1e-9
 
 // nuisanceSearch evaluates a region's tail probability along the null line
 // π1 = π2 + delta for π2 in [a, b].
@@ -43,6 +43,9 @@ type nuisanceSearch struct {
 	best float64
 	// logScale makes at return log T (the slow path for T below ~1e−280).
 	logScale bool
+	// thetaMax is the end of the angle range searched: π/2, or π/4 when the
+	// tail is symmetric about π2 = ½ (see region.mirrored).
+	thetaMax float64
 }
 
 func (s *nuisanceSearch) pi2(theta float64) float64 {
@@ -70,6 +73,10 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 	if s.reg.full() {
 		return 0, s.pi2(math.Pi / 4)
 	}
+	s.thetaMax = math.Pi / 2
+	if s.delta == 0 && s.a == 0 && s.b == 1 && s.reg.mirrored() {
+		s.thetaMax = math.Pi / 4
+	}
 	v, p := s.search()
 	if v >= 1e-280 {
 		return math.Log(min(v, 1)), p
@@ -81,10 +88,13 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 // search runs the grid and the refinements on the current scale.
 func (s *nuisanceSearch) search() (value, pi2 float64) {
 	g := supGridPoints(s.reg.n1, s.reg.n2)
+	if s.thetaMax < math.Pi/2 {
+		g = g/2 + 1
+	}
 	if s.a == s.b {
 		g = 1
 	}
-	step := (math.Pi / 2) / float64(max(g-1, 1))
+	step := s.thetaMax / float64(max(g-1, 1))
 	vals := make([]float64, g)
 	for i := range vals {
 		vals[i] = s.at(float64(i) * step)
@@ -104,7 +114,7 @@ func (s *nuisanceSearch) search() (value, pi2 float64) {
 		if v < floor || (i > 0 && vals[i-1] > v) || (i+1 < g && vals[i+1] > v) {
 			continue
 		}
-		lo, hi := max(float64(i-1)*step, 0), min(float64(i+1)*step, math.Pi/2)
+		lo, hi := max(float64(i-1)*step, 0), min(float64(i+1)*step, s.thetaMax)
 		x, fx := maximizeBrent(s.at, lo, hi, float64(i)*step, v, supTolerance)
 		if fx > value {
 			value, theta = fx, x
