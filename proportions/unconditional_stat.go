@@ -21,13 +21,13 @@ const (
 // of floating point a few ulps apart and must all join the region.
 const statTieTolerance = 1e-9
 
-// scoreRestricted returns the maximum-likelihood estimates of (π1, π2)
+// exactRestricted returns the maximum-likelihood estimates of (π1, π2)
 // under the constraint π1 − π2 = delta, from the closed-form root of the
 // likelihood cubic given by Farrington CP, Manning G (1990), "Test
 // statistics and sample size formulae for comparative binomial trials with
 // null hypothesis of non-zero risk difference or non-unity relative risk",
 // Statistics in Medicine 9:1447–1454 (after Miettinen & Nurminen 1985).
-func scoreRestricted(p1, n1, p2, n2, delta float64) (q1, q2 float64) {
+func exactRestricted(p1, n1, p2, n2, delta float64) (q1, q2 float64) {
 	if delta == 0 {
 		pool := (p1*n1 + p2*n2) / (n1 + n2)
 		return pool, pool
@@ -65,17 +65,17 @@ func zRatio(num, variance float64) float64 {
 	return num / math.Sqrt(variance)
 }
 
-// scoreZ is the score statistic for π1 − π2 = delta: (p1 − p2 − delta)
+// exactScoreZ is the score statistic for π1 − π2 = delta: (p1 − p2 − delta)
 // over the standard error at the restricted estimates; with delta = 0 it is
 // the pooled statistic (p1 − p2)/√(p̄(1−p̄)(1/n1 + 1/n2)) of Barnard's test.
-func scoreZ(x1, n1, x2, n2, delta float64) float64 {
+func exactScoreZ(x1, n1, x2, n2, delta float64) float64 {
 	p1, p2 := x1/n1, x2/n2
-	q1, q2 := scoreRestricted(p1, n1, p2, n2, delta)
+	q1, q2 := exactRestricted(p1, n1, p2, n2, delta)
 	return zRatio(p1-p2-delta, q1*(1-q1)/n1+q2*(1-q2)/n2)
 }
 
-// waldZ is the unpooled (Wald) statistic (p1 − p2 − delta)/√(p1(1−p1)/n1 + p2(1−p2)/n2).
-func waldZ(x1, n1, x2, n2, delta float64) float64 {
+// exactWaldZ is the unpooled (Wald) statistic (p1 − p2 − delta)/√(p1(1−p1)/n1 + p2(1−p2)/n2).
+func exactWaldZ(x1, n1, x2, n2, delta float64) float64 {
 	p1, p2 := x1/n1, x2/n2
 	return zRatio(p1-p2-delta, p1*(1-p1)/n1+p2*(1-p2)/n2)
 }
@@ -100,9 +100,9 @@ func zInRegion(z, zobs float64, side regionSide) bool {
 // and the observed statistic.
 func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, float64) {
 	n1, n2 := float64(c.N1), float64(c.N2)
-	stat := waldZ
+	stat := exactWaldZ
 	if pooled {
-		stat = scoreZ
+		stat = exactScoreZ
 	}
 	zobs := stat(float64(c.X1), n1, float64(c.X2), n2, delta)
 	if pooled && delta == 0 {
