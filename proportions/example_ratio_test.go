@@ -65,4 +65,5 @@ func ExampleIntervalMethods_oddsRatio() {
 	// Miettinen–Nurminen score (odds ratio): 6.0000 (1.4685 to 24.5733), 95% confidence
 	// Cornfield exact conditional: 5.6922 (1.1864 to 31.7553), 95% confidence
 	// Cornfield mid-p: 5.6922 (1.3856 to 26.0846), 95% confidence
+	// Baptista–Pike exact: 5.6922 (1.3810 to 28.1663), 95% confidence
 }

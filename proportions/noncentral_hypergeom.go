@@ -63,8 +63,8 @@ type conditionalSplit struct {
 // split returns P(X1 < x), P(X1 = x), P(X1 > x) and E[X1] under ψ.
 func (d noncentralHypergeom) split(psi float64, x int64) conditionalSplit {
 	mode := d.mode(psi)
-	var below, at, above, moment float64 // weights relative to the mode; moment = Σ (k − mode)·w
-	add := func(k int64, w float64) {
+	var below, at, above, moment float64 // moment = Σ (k − mode)·w
+	total := d.walkFrom(mode, psi, func(k int64, w float64) {
 		switch {
 		case k < x:
 			below += w
@@ -74,16 +74,26 @@ func (d noncentralHypergeom) split(psi float64, x int64) conditionalSplit {
 			above += w
 		}
 		moment += float64(k-mode) * w
-	}
-	add(mode, 1)
-	total := 1.0
-	w := 1.0
+	})
+	return conditionalSplit{below / total, at / total, above / total, float64(mode) + moment/total}
+}
+
+// walk calls visit(k, w) for every value k that carries weight under ψ,
+// with w its probability relative to the mode's, and returns the sum of
+// the weights (the normalising constant relative to the mode).
+func (d noncentralHypergeom) walk(psi float64, visit func(k int64, w float64)) float64 {
+	return d.walkFrom(d.mode(psi), psi, visit)
+}
+
+func (d noncentralHypergeom) walkFrom(mode int64, psi float64, visit func(k int64, w float64)) float64 {
+	visit(mode, 1)
+	total, w := 1.0, 1.0
 	for k := mode; k < d.hi; k++ {
 		w *= d.ratio(k, psi)
 		if w < total*1e-17 {
 			break
 		}
-		add(k+1, w)
+		visit(k+1, w)
 		total += w
 	}
 	w = 1.0
@@ -92,8 +102,8 @@ func (d noncentralHypergeom) split(psi float64, x int64) conditionalSplit {
 		if w < total*1e-17 {
 			break
 		}
-		add(k-1, w)
+		visit(k-1, w)
 		total += w
 	}
-	return conditionalSplit{below / total, at / total, above / total, float64(mode) + moment/total}
+	return total
 }

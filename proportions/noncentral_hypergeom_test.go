@@ -83,3 +83,48 @@ func logBinomialCoefficient(n, k float64) float64 {
 	c, _ := math.Lgamma(n - k + 1)
 	return a - b - c
 }
+
+// bruteSterneP returns Σ f_ψ(k) over tables with f_ψ(k) ≤ f_ψ(x1), from the
+// brute-force log-gamma distribution.
+func bruteSterneP(c Counts, psi float64) float64 {
+	m := c.X1 + c.X2
+	lo, hi := max(0, m-c.N2), min(c.N1, m)
+	logw := func(k int64) float64 {
+		return logBinomialCoefficient(float64(c.N1), float64(k)) + logBinomialCoefficient(float64(c.N2), float64(m-k)) + float64(k)*math.Log(psi)
+	}
+	lx := logw(c.X1)
+	var in, total float64
+	for k := lo; k <= hi; k++ {
+		w := math.Exp(logw(k) - lx)
+		total += w
+		if w <= 1+1e-7 {
+			in += w
+		}
+	}
+	return in / total
+}
+
+// TestBaptistaPikeDefinition checks the Baptista–Pike limits against their
+// definition on a dense grid of odds ratios, with p(ψ) from the brute-force
+// distribution: no ψ outside [lower, upper] is accepted (p > α), and ψ just
+// inside each finite limit is.
+func TestBaptistaPikeDefinition(t *testing.T) {
+	const alpha = 0.05
+	conf, _ := NewConfidence(1 - alpha)
+	for _, c := range []Counts{{2, 5, 3, 6}, {4, 9, 1, 11}, {6, 12, 1, 15}, {12, 40, 5, 38}, {0, 8, 5, 9}, {8, 8, 3, 9}, {30, 200, 12, 180}} {
+		lo, hi := BaptistaPike.Limits(c, conf)
+		for t0 := -12.0; t0 <= 12; t0 += 0.001 {
+			psi := math.Exp(t0)
+			if (psi < lo*(1-1e-7) || psi > hi*(1+1e-7)) && bruteSterneP(c, psi) > alpha {
+				t.Errorf("%v: ψ = %v outside (%v, %v) has p = %v > α", c, psi, lo, hi, bruteSterneP(c, psi))
+				break
+			}
+		}
+		if lo > 0 && bruteSterneP(c, lo*(1+1e-6)) <= alpha {
+			t.Errorf("%v: just above the lower limit %v p = %v ≤ α", c, lo, bruteSterneP(c, lo*(1+1e-6)))
+		}
+		if !math.IsInf(hi, 1) && bruteSterneP(c, hi*(1-1e-6)) <= alpha {
+			t.Errorf("%v: just below the upper limit %v p = %v ≤ α", c, hi, bruteSterneP(c, hi*(1-1e-6)))
+		}
+	}
+}

@@ -43,6 +43,14 @@ type ratioReference struct {
 		Lower  JSONFloat `json:"lower"`
 		Upper  JSONFloat `json:"upper"`
 	} `json:"midp"`
+	BaptistaPike []struct {
+		Source string    `json:"source"`
+		Status string    `json:"status"`
+		Data   Counts    `json:"data"`
+		Level  float64   `json:"level"`
+		Lower  JSONFloat `json:"lower"`
+		Upper  JSONFloat `json:"upper"`
+	} `json:"baptista_pike"`
 }
 
 func loadRatioReference(t *testing.T) ratioReference {
@@ -236,6 +244,26 @@ func TestCornfieldMidPRecomputed(t *testing.T) {
 			t.Fatal(err)
 		}
 		if !relClose(iv.Lower, float64(e.Lower), 1e-8) || !relClose(iv.Upper, float64(e.Upper), 1e-8) {
+			t.Errorf("%v: got (%.10g, %.10g), recomputed (%.10g, %.10g)", e.Data, iv.Lower, iv.Upper, float64(e.Lower), float64(e.Upper))
+		}
+	}
+}
+
+// TestBaptistaPikeRecomputed compares the Baptista–Pike limits with an
+// independent grid-and-bisection recomputation from the definition using
+// SciPy's general noncentral hypergeometric distribution (status
+// "recomputed": a cross-implementation check, not a published value).
+func TestBaptistaPikeRecomputed(t *testing.T) {
+	ref := loadRatioReference(t)
+	if len(ref.BaptistaPike) == 0 {
+		t.Fatal("no Baptista–Pike entries")
+	}
+	for _, e := range ref.BaptistaPike {
+		iv, err := BaptistaPike.Interval(e.Data, e.Level)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !relClose(iv.Lower, float64(e.Lower), 1e-6) || !relClose(iv.Upper, float64(e.Upper), 1e-6) {
 			t.Errorf("%v: got (%.10g, %.10g), recomputed (%.10g, %.10g)", e.Data, iv.Lower, iv.Upper, float64(e.Lower), float64(e.Upper))
 		}
 	}

@@ -119,7 +119,7 @@ var (
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
 	}
 	oddsRatioMethods = []IntervalMethod{
-		Woolf, GartAdjusted, MiettinenNurminenOddsRatio, CornfieldExact, CornfieldMidP,
+		Woolf, GartAdjusted, MiettinenNurminenOddsRatio, CornfieldExact, CornfieldMidP, BaptistaPike,
 	}
 	proportionMethods = []ProportionMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
