@@ -35,7 +35,7 @@ type pair struct{ i, j int32 }
 // evaluation holds the binomials of the distinct rates of a set of points.
 type evaluation struct {
 	t       *Table
-	queries []query     // points with a defined truth, by ascending θ
+	queries []query // points with a defined truth, by ascending θ
 	pi1     []float64
 	pi2     []float64
 	firsts  []binomial  // first binomial per π1
@@ -282,17 +282,22 @@ func (ev *evaluation) point(q *query, ps *pointers) result {
 	r.width = dot(b1.p[lo:hi], ev.wsum[q.second][lo:hi])
 	if t.family() != proportions.Difference {
 		r.unbounded = dot(b1.p[lo:hi], ev.usum[q.second][lo:hi])
-		// Expected log-width among bounded intervals.
-		if bounded := 1 - r.unbounded; bounded > 1e-15 {
-			r.width /= bounded
-		} else {
-			r.width = math.Inf(1)
-		}
+		r.width = amongBounded(r.width, r.unbounded)
 	}
 	return r
 }
 
 func (t *Table) family() proportions.Family { return t.method.Family }
+
+// amongBounded turns Σ P(x)·width(x) over bounded intervals into the
+// expected width among bounded intervals; +Inf when (up to rounding) every
+// interval is unbounded.
+func amongBounded(sum, unbounded float64) float64 {
+	if bounded := 1 - unbounded; bounded > 1e-15 {
+		return sum / bounded
+	}
+	return math.Inf(1)
+}
 
 // firstAtMost returns the first i in [st, e) with v[i] ≤ x, or e; v is
 // non-increasing on [st, e).

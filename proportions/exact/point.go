@@ -161,11 +161,7 @@ func Coverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) (Point, 
 		}
 	}
 	if m.Family != proportions.Difference {
-		if bounded := 1 - r.unbounded; bounded > 0 {
-			r.width /= bounded
-		} else {
-			r.width = math.Inf(1)
-		}
+		r.width = amongBounded(r.width, r.unbounded)
 	}
 	return Point{Pi1: pi1, Pi2: pi2, Truth: theta, Defined: true,
 		Coverage: r.cov, Below: r.below, Above: r.above, Width: r.width, Unbounded: r.unbounded}, nil
