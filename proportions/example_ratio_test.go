@@ -67,3 +67,22 @@ func ExampleIntervalMethods_oddsRatio() {
 	// Cornfield mid-p: 5.6922 (1.3856 to 26.0846), 95% confidence
 	// Baptista–Pike exact: 5.6922 (1.3810 to 28.1663), 95% confidence
 }
+
+// Number needed to treat: 56 of 70 coated seed lots met the germination
+// standard against 48 of 80 plain ones. How many lots must be coated for
+// one more lot to meet it?
+func ExampleNumberNeededToTreat() {
+	c, err := proportions.NewComparison(56, 70, 48, 80,
+		proportions.Labels{First: "coated", Second: "plain", Event: "lot meeting the standard"})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	n, err := proportions.NumberNeededToTreat(c, proportions.Wald, true)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(n)
+	// Output: NNTB 5.0 (95% interval NNTB 2.9 to 17.4, from the Wald interval for the difference): treating about 5.0 with coated instead of plain gives one more lot meeting the standard (benefit).
+}
