@@ -70,7 +70,7 @@ func TestAgrestiCaffoDefinition(t *testing.T) {
 		q2 := float64(c.X2+1) / float64(c.N2+2)
 		se := math.Sqrt(q1*(1-q1)/float64(c.N1+2) + q2*(1-q2)/float64(c.N2+2))
 		lo, hi := AgrestiCaffo.Limits(c, conf)
-		if !close(lo, q1-q2-conf.Z*se, 1e-14) || !close(hi, q1-q2+conf.Z*se, 1e-14) {
+		if !nearly(lo, q1-q2-conf.Z*se, 1e-14) || !nearly(hi, q1-q2+conf.Z*se, 1e-14) {
 			t.Errorf("Agresti–Caffo %v: (%v, %v), formula (%v, %v)", c, lo, hi, q1-q2-conf.Z*se, q1-q2+conf.Z*se)
 		}
 	}
@@ -85,7 +85,7 @@ func TestScoreLimitsSolveScoreEquation(t *testing.T) {
 		for _, m := range []struct {
 			iv IntervalMethod
 			k  float64
-		}{{Mee, 1}, {MiettinenNurminen, mnFactor(c)}} {
+		}{{Mee, 1}, {MiettinenNurminen, mnVarianceFactor(c)}} {
 			lo, hi := m.iv.Limits(c, conf)
 			for _, delta := range []float64{lo, hi} {
 				if delta <= -1 || delta >= 1 {

@@ -10,7 +10,7 @@ package proportions
 // between two probabilities" (letter), Biometrics 40:1175–1176; method 5 of
 // Newcombe (1998). Unlike Miettinen–Nurminen it has no N/(N − 1) factor, so
 // it excludes δ exactly when the two-sided Farrington–Manning test
-// (ScoreTest) rejects at the same level.
+// (FarringtonManning) rejects at the same level.
 //
 // Limits never leave [−1, 1], contain p1 − p2, and are found to about 1e−11
 // by a safeguarded Newton search (see score.go).

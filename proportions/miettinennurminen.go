@@ -23,5 +23,5 @@ var MiettinenNurminen = IntervalMethod{
 }
 
 func miettinenNurminenLimits(c Counts, conf Confidence) (lower, upper float64) {
-	return scoreLimits(c, conf.Z, mnFactor(c))
+	return scoreLimits(c, conf.Z, mnVarianceFactor(c))
 }

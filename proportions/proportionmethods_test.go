@@ -68,7 +68,7 @@ func TestProportionMethodsSciPy(t *testing.T) {
 		}
 		x, n := r.int(t, "x"), r.int(t, "n")
 		lo, hi := m.Limits(x, n, conf)
-		if !close(lo, r.Lower, 1e-9) || !close(hi, r.Upper, 1e-9) {
+		if !nearly(lo, r.Lower, 1e-9) || !nearly(hi, r.Upper, 1e-9) {
 			t.Errorf("%s %d/%d at %v: (%.12g, %.12g), SciPy (%.12g, %.12g)", m.Name, x, n, r.Level, lo, hi, r.Lower, r.Upper)
 		}
 		checked++
@@ -78,8 +78,8 @@ func TestProportionMethodsSciPy(t *testing.T) {
 	}
 }
 
-// close reports |a − b| ≤ tol·max(1, |b|).
-func close(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b)) }
+// nearly reports |a − b| ≤ tol·max(1, |b|).
+func nearly(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, math.Abs(b)) }
 
 // Every single-proportion method on every x of small and large n: limits
 // are numbers in [0, 1], ordered, contain x/n, and shrink as the level drops.

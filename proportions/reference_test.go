@@ -102,3 +102,5 @@ func printedTolerance(printed, exact float64) float64 {
 	}
 	return 5e-5
 }
+
+func jsonNumber(s string) json.Number { return json.Number(s) }

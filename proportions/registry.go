@@ -124,8 +124,10 @@ var (
 	proportionMethods = []ProportionMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
 	// the ratio and odds-ratio scales.
-	asymptoticTests = []TestMethod{}
-	exactTests      = []TestMethod{
+	asymptoticTests = []TestMethod{
+		FarringtonManning, MiettinenNurminenTest, PearsonChiSquare, Yates, LikelihoodRatio,
+	}
+	exactTests = []TestMethod{
 		Fisher, FisherMidP, Barnard, BarnardWald, Boschloo, BoschlooDoubled,
 	}
 	ratioTests = []TestMethod{

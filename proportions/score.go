@@ -15,39 +15,27 @@ func restrictedVariance(c Counts, delta float64) float64 {
 	return fitRestricted(c, delta).variance(c)
 }
 
-// mnFactor is Miettinen and Nurminen's variance factor N/(N − 1); N ≥ 2 for
-// valid counts.
-func mnFactor(c Counts) float64 {
-	nn := float64(c.N1) + float64(c.N2)
-	return nn / (nn - 1)
-}
-
 // scoreZ returns z(δ) for the variance factor k. Degenerate case: V(δ) = 0
 // happens inside −1 < δ < 1 only when δ = 0 and every trial had the same
 // outcome (all events or none), and then p1 − p2 = δ too; the statistic is
 // 0/0 there and is defined as 0 (no evidence either way, p = 1).
 func scoreZ(c Counts, delta, k float64) float64 {
-	num := c.P1() - c.P2() - delta
-	v := k * restrictedVariance(c, delta)
-	if v <= 0 {
-		if num == 0 {
-			return 0
-		}
-		return math.Copysign(math.Inf(1), num)
-	}
-	return num / math.Sqrt(v)
+	return signedScore(c.P1()-c.P2()-delta, k*restrictedVariance(c, delta))
 }
 
 // FarringtonManningZ returns the score statistic for H0: π1 − π2 = delta
 // with the restricted-MLE variance (k = 1); at delta = 0 it is the pooled
 // two-proportion z. See FarringtonManning for the definition and the
-// degenerate case. It does not validate its arguments.
+// degenerate case. It does not validate its arguments and does not
+// allocate (for coverage, size and power computations).
 func FarringtonManningZ(c Counts, delta float64) float64 { return scoreZ(c, delta, 1) }
 
 // MiettinenNurminenZ returns the score statistic for H0: π1 − π2 = delta
 // with the restricted-MLE variance times N/(N − 1). See
 // MiettinenNurminenTest. It does not validate its arguments.
-func MiettinenNurminenZ(c Counts, delta float64) float64 { return scoreZ(c, delta, mnFactor(c)) }
+func MiettinenNurminenZ(c Counts, delta float64) float64 {
+	return scoreZ(c, delta, mnVarianceFactor(c))
+}
 
 // scoreLimits returns the interval {δ : |z(δ)| ≤ z} for the variance factor
 // k. The upper limit is minus the lower limit of the swapped groups, which

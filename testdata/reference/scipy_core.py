@@ -59,6 +59,18 @@ for x in (3.841458820694124, 100.0, 900.0):
 checks.append({'data': {'p': 0.95, 'df': 1}, 'quantity': 'chi-square quantile', 'value': float(stats.chi2.ppf(0.95, 1)),
                'source': SRC % "scipy.stats.chi2.ppf", 'status': STATUS})
 
+# Far tails: the pooled z of large tables (the formula evaluated here, an
+# independent recomputation) and SciPy's log of its two-sided normal p.
+import math
+for x1, n1, x2, n2 in [(5000, 10000, 3000, 10000), (5150, 10000, 3000, 10000), (6000, 10000, 3000, 10000),
+                       (60000, 100000, 30000, 100000)]:
+    p1, p2, pooled = x1 / n1, x2 / n2, (x1 + x2) / (n1 + n2)
+    z = (p1 - p2) / math.sqrt(pooled * (1 - pooled) * (1 / n1 + 1 / n2))
+    logp = float(stats.norm.logsf(abs(z))) + math.log(2)
+    checks.append({'data': {'x1': x1, 'n1': n1, 'x2': x2, 'n2': n2}, 'quantity': 'pooled z, two-sided normal p and its natural log',
+                   'statistic': z, 'value': math.exp(logp), 'log_value': logp,
+                   'source': SRC % "pooled z formula evaluated in Python (recomputed), tail from scipy.stats.norm.logsf", 'status': STATUS})
+
 out = {'description': 'Check values from SciPy, a general-purpose reference library (not software for comparing proportions). '
                       'status "reference-library": cross-implementation checks from a general library, compared at 1e-9 relative unless a test says otherwise.',
        'conventions': shared['conventions'],
