@@ -48,7 +48,6 @@ func (s *SizeCurve) String() string {
 		s.Name, s.N1, s.N2, s.Null, s.Alt, percent(s.Max), s.MaxPi1, s.MaxPi2, percent(s.Mean), percent(s.Alpha))
 }
 
-
 // Size computes the actual size of test t with hypothesis h for a study of
 // n1 and n2 trials: the exact probability of rejecting at WithSteps points
 // (default 1001) of the null line (see [EffectLine] with θ = h.Null). For a

@@ -35,7 +35,6 @@ func (s *Slice) String() string {
 	return b.String()
 }
 
-
 // AlongEffect evaluates the table along the line where the family's true
 // parameter equals θ (see [EffectLine]), at WithSteps points (default 101).
 // It reads WithSteps, WithProgress and WithWorkers.
