@@ -44,3 +44,38 @@ func BenchmarkRestrictedMLE(b *testing.B) {
 		sinkLo, sinkHi = RestrictedMLE(scoreBenchTables[i%len(scoreBenchTables)], 0.05)
 	}
 }
+
+var sinkResult TestResult
+
+// BenchmarkAsymptoticTests times each registered asymptotic test of
+// π1 − π2 = δ per table (two-sided, δ = 0 where the test requires it,
+// δ = −0.05 for the score tests).
+func BenchmarkAsymptoticTests(b *testing.B) {
+	conf, _ := NewConfidence(0.95)
+	for _, m := range asymptoticTests {
+		h := Hypothesis{Alternative: TwoSided, Conf: conf}
+		if m.Margins {
+			h.Null = -0.05
+		}
+		b.Run(m.Key, func(b *testing.B) {
+			for i := 0; b.Loop(); i++ {
+				sinkResult = m.Run(scoreBenchTables[i%len(scoreBenchTables)], h)
+			}
+		})
+	}
+}
+
+// BenchmarkScoreStatistics times the allocation-free statistics that
+// coverage, size and power computations call.
+func BenchmarkScoreStatistics(b *testing.B) {
+	b.Run("farrington-manning", func(b *testing.B) {
+		for i := 0; b.Loop(); i++ {
+			sinkLo = FarringtonManningZ(scoreBenchTables[i%len(scoreBenchTables)], -0.05)
+		}
+	})
+	b.Run("miettinen-nurminen", func(b *testing.B) {
+		for i := 0; b.Loop(); i++ {
+			sinkLo = MiettinenNurminenZ(scoreBenchTables[i%len(scoreBenchTables)], -0.05)
+		}
+	})
+}
