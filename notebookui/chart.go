@@ -371,3 +371,8 @@ func (t dataTable) markdown() string {
 	}
 	return b.String()
 }
+
+// Display shows the chart: in a GoNB cell as one output holding its HTML,
+// text and JSON (see [Display]); elsewhere it prints [Chart.Text]. Show
+// [ChartEngine] once before the first chart of a notebook.
+func (c *Chart) Display() error { return Display(c) }

@@ -386,3 +386,41 @@ func TestCurveChartOption(t *testing.T) {
 		t.Errorf("alpha line at %v", lines[0])
 	}
 }
+
+// TestConfidenceCurveOfAnalysis checks the chart of a real analysis: the
+// interval read off the Farrington–Manning score test's curve must be the
+// analysis's headline Mee interval (Mee's interval is by definition the set
+// of differences that test does not reject; Farrington & Manning 1990,
+// Stat Med 9:1447–1454), and the curve's value at the null must be the
+// test's p-value.
+func TestConfidenceCurveOfAnalysis(t *testing.T) {
+	for _, tc := range []struct{ x1, n1, x2, n2 int64 }{
+		{41, 50, 30, 50}, {19, 400, 8, 400}, {0, 20, 4, 25}, {7, 12, 1, 15},
+	} {
+		c, err := proportions.NewComparison(tc.x1, tc.n1, tc.x2, tc.n2, proportions.Labels{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, err := proportions.Analyze(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		test, err := proportions.LookupTest(a.Test.Method)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cc, err := ConfidenceCurveOf(c.Counts(), test, a.Interval.Level, a.Null, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(cc.Lower-a.Interval.Lower) > 1e-6 || math.Abs(cc.Upper-a.Interval.Upper) > 1e-6 {
+			t.Errorf("%v: read off %.8f to %.8f, headline %s %.8f to %.8f", tc, cc.Lower, cc.Upper, a.Interval.Name, a.Interval.Lower, a.Interval.Upper)
+		}
+		if cc.NullPValue != a.Test.PValue {
+			t.Errorf("%v: curve at the null %v, test p-value %v", tc, cc.NullPValue, a.Test.PValue)
+		}
+		if _, err := ConfidenceCurveChart(a); err != nil {
+			t.Error(err)
+		}
+	}
+}

@@ -1,0 +1,292 @@
+package notebookui
+
+import (
+	"encoding/json"
+	"fmt"
+	"github.com/propscope/propscope/proportions"
+	"math"
+	"strconv"
+
+	"github.com/go-echarts/go-echarts/v2/charts"
+	"github.com/go-echarts/go-echarts/v2/opts"
+	"github.com/propscope/propscope/proportions/exact"
+)
+
+// coverageBands are the colour classes of the coverage map, as distances
+// from the nominal level (in probability), with ColorBrewer's PuOr diverging
+// scheme (Brewer, colorbrewer2.org; marked colour-blind safe there):
+// oranges for coverage short of nominal, light grey for within a point of
+// it, purples for conservative.
+var coverageBands = []struct {
+	from, to float64 // distance from nominal; ±Inf for open ends
+	color    string
+	label    string
+}{
+	{math.Inf(-1), -0.05, "#B35806", "more than 5 points short"},
+	{-0.05, -0.02, "#E08214", "2 to 5 points short"},
+	{-0.02, -0.01, "#FDB863", "1 to 2 points short"},
+	{-0.01, 0.01, "#E8E8E8", "within 1 point of nominal"},
+	{0.01, 0.02, "#B2ABD2", "1 to 2 points over"},
+	{0.02, math.Inf(1), "#5E3C99", "more than 2 points over"},
+}
+
+// coveragePieces returns the visual map pieces for a nominal level. Piece
+// bounds are rounded to 1e−9 so that echarts compares clean numbers.
+func coveragePieces(nominal float64) []any {
+	pieces := make([]any, 0, len(coverageBands))
+	for _, b := range coverageBands {
+		p := map[string]any{"color": b.color, "label": b.label}
+		if !math.IsInf(b.from, 0) {
+			p["gte"] = round9(nominal + b.from)
+		}
+		if !math.IsInf(b.to, 0) {
+			p["lt"] = round9(nominal + b.to)
+		}
+		pieces = append(pieces, p)
+	}
+	return pieces
+}
+
+func round9(v float64) float64 { return math.Round(v*1e9) / 1e9 }
+
+// coverageMapTooltip shows the rates, the coverage and how the misses
+// split. Data items are [i, j, coverage, below, above, π1, π2].
+const coverageMapTooltip = `function (p) {
+  var v = p.value;
+  return 'π1 = ' + pct(v[5], 0) + ', π2 = ' + pct(v[6], 0) + '<br>coverage ' + pct(v[2], 2) +
+    '<br>interval entirely below the truth ' + pct(v[3], 2) + '<br>entirely above ' + pct(v[4], 2);
+}`
+
+// CoverageMapChart draws the exact coverage of one interval method over a
+// grid of true rates (π1 across, π2 up) as a heat map, with colour classes
+// centred on the nominal level (oranges short of it, purples over it) and
+// the lowest coverage marked. Each cell's tooltip gives its coverage and
+// how the misses split between the two sides. The surface is computed by
+// package exact; this function only draws it. Options read: WithHeight.
+func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) {
+	if s == nil || len(s.Pi1) == 0 || len(s.Pi2) == 0 || len(s.Coverage) != len(s.Pi1)*len(s.Pi2) {
+		return nil, fmt.Errorf("coverage map: %w: the surface has no grid", errNoIntervals)
+	}
+	set := newChartSettings(options)
+	nominal := s.Design.Level
+	sum := s.Summary()
+	title := fmt.Sprintf("Exact coverage of %s over all true rates", s.Name)
+	subtitle := fmt.Sprintf("%d and %d units per group, nominal %s; each cell is one pair (π1, π2)", s.Design.N1, s.Design.N2, fmtLevel(nominal))
+
+	xs := make([]string, len(s.Pi1))
+	for i, v := range s.Pi1 {
+		xs[i] = strconv.FormatFloat(100*v, 'g', 4, 64)
+	}
+	ys := make([]string, len(s.Pi2))
+	for j, v := range s.Pi2 {
+		ys[j] = strconv.FormatFloat(100*v, 'g', 4, 64)
+	}
+	data := make([][]float64, 0, len(s.Coverage))
+	minI, minJ := -1, -1
+	for i := range s.Pi1 {
+		for j := range s.Pi2 {
+			k := i*len(s.Pi2) + j
+			if !s.Defined[k] || math.IsNaN(s.Coverage[k]) {
+				continue
+			}
+			data = append(data, []float64{float64(i), float64(j), s.Coverage[k], s.Below[k], s.Above[k], s.Pi1[i], s.Pi2[j]})
+			if minI < 0 || s.Coverage[k] < s.Coverage[minI*len(s.Pi2)+minJ] {
+				minI, minJ = i, j
+			}
+		}
+	}
+	labelEvery := max(1, len(s.Pi1)/10)
+	ch := charts.NewHeatMap()
+	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
+	ch.SetGlobalOptions(
+		charts.WithXAxisOpts(opts.XAxis{Type: "category", Data: xs, Name: axisName("true rate π1 in group 1", "%"),
+			NameLocation: "middle", NameGap: 28}),
+		charts.WithYAxisOpts(opts.YAxis{Type: "category", Data: ys, Name: axisName("true rate π2 in group 2", "%"),
+			NameLocation: "middle", NameGap: 36}),
+		charts.WithGridOpts(opts.Grid{Left: "24", Right: "200", Top: "84", Bottom: "56", ContainLabel: opts.Bool(true)}),
+	)
+	option := optionOf(ch)
+	// Label about ten grid values per axis (go-echarts types the interval
+	// as a string, which echarts does not read as a number).
+	axisLabels(option, "xAxis", labelEvery-1)
+	axisLabels(option, "yAxis", max(1, len(s.Pi2)/10)-1)
+	series := map[string]any{
+		"type": "heatmap", "name": "coverage", "data": data, "progressive": 0,
+		"emphasis": map[string]any{"itemStyle": map[string]any{"borderColor": "#000", "borderWidth": 1}},
+	}
+	if minI >= 0 {
+		series["markPoint"] = map[string]any{
+			"symbol": "pin", "symbolSize": 40, "itemStyle": map[string]any{"color": "#000000"},
+			"data": []any{map[string]any{"coord": []int{minI, minJ}, "name": "lowest", "value": sum.Min,
+				"label": map[string]any{"formatter": "lowest " + fmtPct(sum.Min), "position": "right", "color": "#000000",
+					"backgroundColor": "#ffffff", "padding": 2, "fontSize": 11}}},
+		}
+	}
+	option["series"] = []any{series}
+	option["visualMap"] = []any{map[string]any{
+		"type": "piecewise", "dimension": 2, "pieces": coveragePieces(nominal), "orient": "vertical",
+		"right": 8, "top": "middle", "itemWidth": 16, "itemHeight": 12, "showLabel": true,
+		"outOfRange": map[string]any{"color": "#999999"},
+	}}
+	option["tooltip"] = map[string]any{"show": true, "trigger": "item", "formatter": jsFunc(coverageMapTooltip)}
+	option["legend"] = map[string]any{"show": false}
+	table := dataTable{Caption: "Summary of the map", Header: []string{"quantity", "value"}, Rows: [][]string{
+		{"method", s.Name},
+		{"design", fmt.Sprintf("n1 = %d, n2 = %d, nominal %s", s.Design.N1, s.Design.N2, fmtLevel(nominal))},
+		{"grid", fmt.Sprintf("%d × %d points, %d with a defined truth", len(s.Pi1), len(s.Pi2), sum.Points)},
+		{"lowest coverage", fmt.Sprintf("%s at π1 = %s, π2 = %s", fmtPct(sum.Min), fmtPct(sum.MinPi1), fmtPct(sum.MinPi2))},
+		{"mean coverage", fmtPct(sum.Mean)},
+		{"share of points more than 1 point short", fmtPct(sum.ShareBelow)},
+	}}
+	notes := []string{fmt.Sprintf("Coverage is the chance that the %s interval contains the true difference, computed exactly "+
+		"over every possible outcome of a study with these group sizes; it depends on the design, not on your data.", s.Name)}
+	return newChart("coverage-map", title, subtitle, set.heightOr(560), option, table, notes)
+}
+
+// axisLabels sets the label interval of the first axis of the given kind
+// in a go-echarts option map.
+func axisLabels(option map[string]any, axis string, interval int) {
+	switch v := option[axis].(type) {
+	case []opts.XAxis:
+		m := map[string]any{}
+		b, _ := json.Marshal(v[0])
+		_ = json.Unmarshal(b, &m)
+		m["axisLabel"] = map[string]any{"interval": interval}
+		option[axis] = []any{m}
+	case []opts.YAxis:
+		m := map[string]any{}
+		b, _ := json.Marshal(v[0])
+		_ = json.Unmarshal(b, &m)
+		m["axisLabel"] = map[string]any{"interval": interval}
+		option[axis] = []any{m}
+	}
+}
+
+// CoverageCurve is one interval method's exact coverage along a path of
+// true rates (points from package exact, in path order).
+type CoverageCurve struct {
+	// Method and Name identify the method (registry key and name).
+	Method string        `json:"method"`
+	Name   string        `json:"name"`
+	Points []exact.Point `json:"points"`
+}
+
+// coverageSliceTooltip lists each method's coverage at the rates under the
+// pointer. Points are [x, coverage, π1, π2, below, above].
+const coverageSliceTooltip = `function (ps) {
+  var v = ps[0].value;
+  var s = 'π1 = ' + pct(v[2], 1) + ', π2 = ' + pct(v[3], 1) + ' (difference ' + pp(v[2] - v[3], 1) + ')';
+  ps.forEach(function (p) {
+    s += '<br>' + p.marker + esc(p.seriesName) + ': ' + pct(p.value[1], 2) +
+      ' <span style="opacity:0.7">(misses ' + pct(p.value[4], 1) + ' below, ' + pct(p.value[5], 1) + ' above)</span>';
+  });
+  return s;
+}`
+
+// CoverageSliceChart draws the exact coverage of several interval methods
+// along one slice of true rates, one line per method, with the nominal
+// level as a line inside a band of ±1 percentage point. The slice is read
+// from the points: if π2 is the same at every point the chart runs along
+// π1 at that π2; if π1 − π2 is, it runs along π2 at that difference.
+// Options read: WithHeight.
+func CoverageSliceChart(d exact.Design, curves []CoverageCurve, options ...ChartOption) (*Chart, error) {
+	if len(curves) == 0 || len(curves[0].Points) == 0 {
+		return nil, fmt.Errorf("coverage slice: %w: no coverage points", errNoIntervals)
+	}
+	set := newChartSettings(options)
+	along, fixed, err := sliceAxis(curves)
+	if err != nil {
+		return nil, err
+	}
+	nominal := d.Level
+	title := "Exact coverage along a slice of true rates"
+	subtitle := fmt.Sprintf("%d and %d units per group, nominal %s; %s", d.N1, d.N2, fmtLevel(nominal), fixed)
+	var series, legend []any
+	table := dataTable{Caption: "Coverage along the slice", Header: []string{"method", "lowest", "where", "mean", "points more than 1 point short"}}
+	low := nominal - 0.05
+	for i, c := range curves {
+		data := make([][]float64, 0, len(c.Points))
+		minK, sum, n, short := -1, 0.0, 0, 0
+		for k, p := range c.Points {
+			if !p.Defined || math.IsNaN(p.Coverage) {
+				continue
+			}
+			x := p.Pi1
+			if along == "pi2" {
+				x = p.Pi2
+			}
+			data = append(data, []float64{x, p.Coverage, p.Pi1, p.Pi2, p.Below, p.Above})
+			if minK < 0 || p.Coverage < c.Points[minK].Coverage {
+				minK = k
+			}
+			sum, n = sum+p.Coverage, n+1
+			if p.Coverage < nominal-exact.ShortfallMargin {
+				short++
+			}
+			low = math.Min(low, p.Coverage)
+		}
+		line := map[string]any{
+			"type": "line", "name": c.Name, "data": data, "showSymbol": false,
+			"lineStyle": map[string]any{"color": paletteColor(i), "width": 2, "type": lineStyle(i)},
+			"itemStyle": map[string]any{"color": paletteColor(i)},
+		}
+		if i == 0 {
+			line["markArea"] = map[string]any{"silent": true, "itemStyle": map[string]any{"color": "rgba(0,0,0,0.07)"},
+				"label": map[string]any{"position": "insideTopLeft", "color": "#444444"},
+				"data": []any{[]any{map[string]any{"yAxis": nominal - exact.ShortfallMargin, "name": "nominal ± 1 point"},
+					map[string]any{"yAxis": math.Min(nominal+exact.ShortfallMargin, 1)}}}}
+			line["markLine"] = map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": []any{
+				map[string]any{"yAxis": nominal, "name": "nominal",
+					"lineStyle": map[string]any{"color": "#000000", "type": "solid", "width": 1},
+					"label":     map[string]any{"formatter": "nominal " + fmtLevel(nominal), "position": "insideEndTop", "color": "#000000"}}}}
+		}
+		series = append(series, line)
+		legend = append(legend, map[string]any{"name": c.Name, "icon": "path://M0,6 L24,6 L24,9 L0,9 Z"})
+		if minK >= 0 {
+			p := c.Points[minK]
+			table.Rows = append(table.Rows, []string{c.Name, fmtPct(p.Coverage), fmt.Sprintf("π1 = %s, π2 = %s", fmtPct(p.Pi1), fmtPct(p.Pi2)),
+				fmtPct(sum / float64(n)), fmt.Sprintf("%d of %d", short, n)})
+		}
+	}
+	xName := axisName("true rate π1 in group 1", "%")
+	if along == "pi2" {
+		xName = axisName("true rate π2 in group 2", "%")
+	}
+	yMin := math.Max(0, math.Floor(low*20)/20)
+	yStep := niceStep((1 - yMin) / 6)
+	ch := charts.NewLine()
+	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
+	ch.SetGlobalOptions(
+		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: 1, Name: xName, NameLocation: "middle", NameGap: 30,
+			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: yMin, Max: 1, MinInterval: yStep, MaxInterval: yStep, Name: axisName("exact coverage", "%"),
+			NameLocation: "middle", NameGap: 46, AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "110", Bottom: "56", ContainLabel: opts.Bool(true)}),
+	)
+	option := optionOf(ch)
+	option["series"] = series
+	option["legend"] = legendAt(legend)
+	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
+	notes := []string{"Each line is the chance that a method's interval contains the true difference, computed exactly over every " +
+		"possible outcome of a study of this size. Lines that dip below the band miss the truth more often than their label promises."}
+	return newChart("coverage-slice", title, subtitle, set.heightOr(defaultHeight+60), option, table, notes)
+}
+
+// sliceAxis tells which rate varies along the curves' points.
+func sliceAxis(curves []CoverageCurve) (along, fixed string, err error) {
+	p0 := curves[0].Points[0]
+	samePi2, sameDiff := true, true
+	for _, c := range curves {
+		for _, p := range c.Points {
+			samePi2 = samePi2 && p.Pi2 == p0.Pi2
+			sameDiff = sameDiff && math.Abs((p.Pi1-p.Pi2)-(p0.Pi1-p0.Pi2)) < 1e-9
+		}
+	}
+	switch {
+	case samePi2:
+		return "pi1", "along π1 at π2 = " + fmtPct(p0.Pi2), nil
+	case sameDiff:
+		return "pi2", "along π2 at a true difference of " + fmtPP(p0.Pi1-p0.Pi2), nil
+	}
+	return "", "", fmt.Errorf("coverage slice: %w: the points neither share π2 nor the difference π1 − π2", proportions.ErrUnsupported)
+}

@@ -1,0 +1,135 @@
+package notebookui
+
+import (
+	"context"
+	"errors"
+	"math"
+	"testing"
+
+	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
+)
+
+func waldSurface(t *testing.T, n1, n2 int) *exact.Surface {
+	t.Helper()
+	d, err := exact.NewDesign(n1, n2, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := exact.NewTable(context.Background(), proportions.Wald, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid := []float64{0, 0.1, 0.25, 0.5, 0.9, 1}
+	s, err := tab.Surface(context.Background(), exact.WithGrid(grid, grid))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
+}
+
+func TestCoverageMapOption(t *testing.T) {
+	s := waldSurface(t, 12, 15)
+	ch, err := CoverageMapChart(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := optionOfChart(t, ch)
+	checkCommon(t, m, "%")
+	series := seriesList(t, m)[0]
+	data := series["data"].([]any)
+	seen := 0
+	for _, item := range data {
+		v := values(t, item)
+		i, j := int(v[0]), int(v[1])
+		p := s.At(i, j)
+		if !p.Defined {
+			t.Fatalf("undefined point (%d, %d) drawn", i, j)
+		}
+		if v[2] != p.Coverage || v[3] != p.Below || v[4] != p.Above || v[5] != p.Pi1 || v[6] != p.Pi2 {
+			t.Errorf("cell (%d, %d) = %v, surface has %+v", i, j, v, p)
+		}
+		seen++
+	}
+	defined := 0
+	for _, d := range s.Defined {
+		if d {
+			defined++
+		}
+	}
+	if seen != defined {
+		t.Errorf("%d cells drawn, %d defined points", seen, defined)
+	}
+	// The classes must tile the line: each piece starts where the previous
+	// one ends, the first is open below and the last open above, and the
+	// middle class is nominal ± 1 point.
+	pieces := m["visualMap"].([]any)[0].(map[string]any)["pieces"].([]any)
+	var prev any
+	for k, raw := range pieces {
+		p := raw.(map[string]any)
+		if k == 0 && p["gte"] != nil || k == len(pieces)-1 && p["lt"] != nil {
+			t.Errorf("piece %d %v should be open-ended", k, p)
+		}
+		if k > 0 && p["gte"] != prev {
+			t.Errorf("piece %d starts at %v, previous ends at %v", k, p["gte"], prev)
+		}
+		prev = p["lt"]
+		if p["label"] == "within 1 point of nominal" && (math.Abs(p["gte"].(float64)-0.94) > 1e-12 || math.Abs(p["lt"].(float64)-0.96) > 1e-12) {
+			t.Errorf("nominal class %v, want [0.94, 0.96)", p)
+		}
+	}
+	mark := series["markPoint"].(map[string]any)["data"].([]any)[0].(map[string]any)
+	coord := mark["coord"].([]any)
+	sum := s.Summary()
+	if p := s.At(int(coord[0].(float64)), int(coord[1].(float64))); p.Coverage != sum.Min {
+		t.Errorf("marked cell has coverage %v, the surface's minimum is %v", p.Coverage, sum.Min)
+	}
+}
+
+func TestCoverageSliceOption(t *testing.T) {
+	d, _ := exact.NewDesign(20, 20, 0.95)
+	var curves []CoverageCurve
+	for _, m := range []proportions.IntervalMethod{proportions.Wald, proportions.Mee} {
+		tab, err := exact.NewTable(context.Background(), m, d)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c := CoverageCurve{Method: m.Key, Name: m.Name}
+		for _, pi1 := range []float64{0.05, 0.2, 0.4, 0.6} {
+			p, err := tab.At(pi1, 0.3)
+			if err != nil {
+				t.Fatal(err)
+			}
+			c.Points = append(c.Points, p)
+		}
+		curves = append(curves, c)
+	}
+	ch, err := CoverageSliceChart(d, curves)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := optionOfChart(t, ch)
+	checkCommon(t, m, "%")
+	series := seriesList(t, m)
+	if len(series) != 2 || series[0]["name"] != proportions.Wald.Name || series[1]["name"] != proportions.Mee.Name {
+		t.Fatalf("series %v, want one line per method", series)
+	}
+	for k, s := range series {
+		for i, item := range s["data"].([]any) {
+			v := values(t, item)
+			p := curves[k].Points[i]
+			if v[0] != p.Pi1 || v[1] != p.Coverage || v[4] != p.Below || v[5] != p.Above {
+				t.Errorf("%s point %d = %v, want π1 %v coverage %v", curves[k].Name, i, v, p.Pi1, p.Coverage)
+			}
+		}
+	}
+	band := series[0]["markArea"].(map[string]any)["data"].([]any)[0].([]any)
+	if lo := band[0].(map[string]any)["yAxis"].(float64); math.Abs(lo-0.94) > 1e-12 {
+		t.Errorf("band starts at %v, want 0.94", lo)
+	}
+	// Points that share neither π2 nor the difference are not a slice.
+	bad := []CoverageCurve{{Name: "x", Points: []exact.Point{{Pi1: 0.1, Pi2: 0.2, Defined: true}, {Pi1: 0.3, Pi2: 0.5, Defined: true}}}}
+	if _, err := CoverageSliceChart(d, bad); !errors.Is(err, proportions.ErrUnsupported) {
+		t.Errorf("not a slice: %v", err)
+	}
+}
