@@ -162,15 +162,6 @@ func axisLabels(option map[string]any, axis string, interval int) {
 	}
 }
 
-// CoverageCurve is one interval method's exact coverage along a path of
-// true rates (points from package exact, in path order).
-type CoverageCurve struct {
-	// Method and Name identify the method (registry key and name).
-	Method string        `json:"method"`
-	Name   string        `json:"name"`
-	Points []exact.Point `json:"points"`
-}
-
 // coverageSliceTooltip lists each method's coverage at the rates under the
 // pointer. Points are [x, coverage, π1, π2, below, above].
 const coverageSliceTooltip = `function (ps) {
@@ -184,27 +175,29 @@ const coverageSliceTooltip = `function (ps) {
 }`
 
 // CoverageSliceChart draws the exact coverage of several interval methods
-// along one slice of true rates, one line per method, with the nominal
-// level as a line inside a band of ±1 percentage point. The slice is read
-// from the points: if π2 is the same at every point the chart runs along
-// π1 at that π2; if π1 − π2 is, it runs along π2 at that difference.
+// along one slice of true rates (computed by package exact, for example with
+// Table.AlongFirst or Table.AlongEffect), one line per method, with the
+// nominal level as a line inside a band of ±1 percentage point. The slices
+// must share their design and their line of rates. A slice along the first
+// rate runs across π1; a slice at a fixed effect runs across π2.
 // Options read: WithHeight.
-func CoverageSliceChart(d exact.Design, curves []CoverageCurve, options ...ChartOption) (*Chart, error) {
-	if len(curves) == 0 || len(curves[0].Points) == 0 {
+func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, error) {
+	if len(slices) == 0 || slices[0] == nil || len(slices[0].Points) == 0 {
 		return nil, fmt.Errorf("coverage slice: %w: no coverage points", errNoIntervals)
 	}
 	set := newChartSettings(options)
-	along, fixed, err := sliceAxis(curves)
+	along, fixed, err := sliceAxis(slices)
 	if err != nil {
 		return nil, err
 	}
+	d := slices[0].Design
 	nominal := d.Level
 	title := "Exact coverage along a slice of true rates"
 	subtitle := fmt.Sprintf("%d and %d units per group, nominal %s; %s", d.N1, d.N2, fmtLevel(nominal), fixed)
 	var series, legend []any
 	table := dataTable{Caption: "Coverage along the slice", Header: []string{"method", "lowest", "where", "mean", "points more than 1 point short"}}
 	low := nominal - 0.05
-	for i, c := range curves {
+	for i, c := range slices {
 		data := make([][]float64, 0, len(c.Points))
 		minK, sum, n, short := -1, 0.0, 0, 0
 		for k, p := range c.Points {
@@ -272,21 +265,23 @@ func CoverageSliceChart(d exact.Design, curves []CoverageCurve, options ...Chart
 	return newChart("coverage-slice", title, subtitle, set.heightOr(defaultHeight+60), option, table, notes)
 }
 
-// sliceAxis tells which rate varies along the curves' points.
-func sliceAxis(curves []CoverageCurve) (along, fixed string, err error) {
-	p0 := curves[0].Points[0]
-	samePi2, sameDiff := true, true
-	for _, c := range curves {
-		for _, p := range c.Points {
-			samePi2 = samePi2 && p.Pi2 == p0.Pi2
-			sameDiff = sameDiff && math.Abs((p.Pi1-p.Pi2)-(p0.Pi1-p0.Pi2)) < 1e-9
+// sliceAxis checks that the slices share design and line, and tells which
+// rate varies along them.
+func sliceAxis(slices []*exact.Slice) (along, fixed string, err error) {
+	s0 := slices[0]
+	for _, s := range slices {
+		if s == nil || s.Design != s0.Design || s.Along != s0.Along || s.Fixed != s0.Fixed || s.Family != s0.Family {
+			return "", "", fmt.Errorf("coverage slice: %w: the slices differ in design or line of rates; draw each in its own chart",
+				proportions.ErrUnsupported)
 		}
 	}
 	switch {
-	case samePi2:
-		return "pi1", "along π1 at π2 = " + fmtPct(p0.Pi2), nil
-	case sameDiff:
-		return "pi2", "along π2 at a true difference of " + fmtPP(p0.Pi1-p0.Pi2), nil
+	case s0.Along == "first":
+		return "pi1", "along π1 at π2 = " + fmtPct(s0.Fixed), nil
+	case s0.Along == "effect" && s0.Family == proportions.Difference:
+		return "pi2", "along π2 at a true difference of " + fmtPP(s0.Fixed), nil
+	case s0.Along == "effect":
+		return "pi2", fmt.Sprintf("along π2 at a true %s of %s", s0.Family, strconv.FormatFloat(s0.Fixed, 'g', 4, 64)), nil
 	}
-	return "", "", fmt.Errorf("coverage slice: %w: the points neither share π2 nor the difference π1 − π2", proportions.ErrUnsupported)
+	return "", "", fmt.Errorf("coverage slice: %w: unknown line %q", proportions.ErrUnsupported, s0.Along)
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -88,23 +89,19 @@ func TestCoverageMapOption(t *testing.T) {
 
 func TestCoverageSliceOption(t *testing.T) {
 	d, _ := exact.NewDesign(20, 20, 0.95)
-	var curves []CoverageCurve
+	var slices []*exact.Slice
 	for _, m := range []proportions.IntervalMethod{proportions.Wald, proportions.Mee} {
 		tab, err := exact.NewTable(context.Background(), m, d)
 		if err != nil {
 			t.Fatal(err)
 		}
-		c := CoverageCurve{Method: m.Key, Name: m.Name}
-		for _, pi1 := range []float64{0.05, 0.2, 0.4, 0.6} {
-			p, err := tab.At(pi1, 0.3)
-			if err != nil {
-				t.Fatal(err)
-			}
-			c.Points = append(c.Points, p)
+		s, err := tab.AlongFirst(context.Background(), 0.3, exact.WithSteps(11))
+		if err != nil {
+			t.Fatal(err)
 		}
-		curves = append(curves, c)
+		slices = append(slices, s)
 	}
-	ch, err := CoverageSliceChart(d, curves)
+	ch, err := CoverageSliceChart(slices)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -115,11 +112,21 @@ func TestCoverageSliceOption(t *testing.T) {
 		t.Fatalf("series %v, want one line per method", series)
 	}
 	for k, s := range series {
-		for i, item := range s["data"].([]any) {
+		var defined []exact.Point
+		for _, p := range slices[k].Points {
+			if p.Defined {
+				defined = append(defined, p)
+			}
+		}
+		items := s["data"].([]any)
+		if len(items) != len(defined) {
+			t.Fatalf("%s: %d points drawn, %d defined", slices[k].Name, len(items), len(defined))
+		}
+		for i, item := range items {
 			v := values(t, item)
-			p := curves[k].Points[i]
+			p := defined[i]
 			if v[0] != p.Pi1 || v[1] != p.Coverage || v[4] != p.Below || v[5] != p.Above {
-				t.Errorf("%s point %d = %v, want π1 %v coverage %v", curves[k].Name, i, v, p.Pi1, p.Coverage)
+				t.Errorf("%s point %d = %v, want π1 %v coverage %v", slices[k].Name, i, v, p.Pi1, p.Coverage)
 			}
 		}
 	}
@@ -127,9 +134,16 @@ func TestCoverageSliceOption(t *testing.T) {
 	if lo := band[0].(map[string]any)["yAxis"].(float64); math.Abs(lo-0.94) > 1e-12 {
 		t.Errorf("band starts at %v, want 0.94", lo)
 	}
-	// Points that share neither π2 nor the difference are not a slice.
-	bad := []CoverageCurve{{Name: "x", Points: []exact.Point{{Pi1: 0.1, Pi2: 0.2, Defined: true}, {Pi1: 0.3, Pi2: 0.5, Defined: true}}}}
-	if _, err := CoverageSliceChart(d, bad); !errors.Is(err, proportions.ErrUnsupported) {
-		t.Errorf("not a slice: %v", err)
+	// Slices along different lines cannot share a chart.
+	tab, _ := exact.NewTable(context.Background(), proportions.Wald, d)
+	other, err := tab.AlongEffect(context.Background(), 0.1, exact.WithSteps(11))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := CoverageSliceChart([]*exact.Slice{slices[0], other}); !errors.Is(err, proportions.ErrUnsupported) {
+		t.Errorf("mixed slices: %v", err)
+	}
+	if ch, err := CoverageSliceChart([]*exact.Slice{other}); err != nil || !strings.Contains(ch.Title()+ch.Text(), "+10.00 pp") {
+		t.Errorf("slice at a fixed difference: %v", err)
 	}
 }
