@@ -47,3 +47,45 @@ func ExampleTable_Surface() {
 	// min 21.42% at (0.01, 0), mean 92.96%, 76.5% of points below 94.00%, mean width 0.4175
 	// min 92.36% at (0.95, 0.85), mean 93.83%, 58.6% of points below 94.00%, mean width 0.4396
 }
+
+// Which interval for the difference should a quality engineer comparing
+// 100 parts from each of two lines report? The answer depends on the
+// design only, so it can be fixed before the parts are inspected.
+func ExampleRecommend() {
+	d, _ := exact.NewDesign(100, 100, 0.95)
+	rec, err := exact.Recommend(context.Background(), proportions.Difference, d)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	best, _ := rec.Best()
+	fmt.Println(best.Name+":", best.Reason)
+	// Output:
+	// Mee score: holds the level, its lowest coverage being 93.29% at (π1 = 0.05, π2 = 0.01); average 94.97%, 0.033 points from 95.00%; mean width 0.2228.
+}
+
+// The exact power of a test for a planned study, and its actual size.
+func ExamplePower() {
+	fisher, err := proportions.LookupTest("fisher")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s, _ := proportions.NewSettings() // two-sided at 5%
+	h, _ := fisher.Hypothesis(s)
+	power, err := exact.Power(fisher, 60, 60, h, 0.45, 0.2)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("exact power %.4f\n", power)
+	size, err := exact.Size(context.Background(), fisher, 60, 60, h)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("largest actual size %.4f (nominal %.2f)\n", size.Max, size.Alpha)
+	// Output:
+	// exact power 0.7908
+	// largest actual size 0.0353 (nominal 0.05)
+}

@@ -195,3 +195,36 @@ func TestPowerBadInput(t *testing.T) {
 		t.Errorf("no hypothesis: %v", err)
 	}
 }
+
+// TestFisherPowerSciPy checks exact power and the largest actual size of
+// Fisher's exact test at 60 per group against a SciPy 1.10.1 enumeration
+// (scipy.stats.fisher_exact at every outcome; source and status in
+// testdata/reference/coverage.json).
+func TestFisherPowerSciPy(t *testing.T) {
+	fisher, err := proportions.LookupTest("fisher")
+	if err != nil {
+		t.Skip("Fisher's test not registered")
+	}
+	h := hypothesis(t, fisher)
+	for _, c := range loadReference(t) {
+		if c.Method != "fisher" {
+			continue
+		}
+		var got float64
+		if c.Pi1 != nil {
+			got, err = Power(fisher, c.N1, c.N2, h, *c.Pi1, *c.Pi2)
+		} else {
+			var s *SizeCurve
+			s, err = Size(context.Background(), fisher, c.N1, c.N2, h)
+			if s != nil {
+				got = s.Max
+			}
+		}
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(got-c.Value) > 1e-12 {
+			t.Errorf("%s: %.15g, SciPy %.15g", c.ID, got, c.Value)
+		}
+	}
+}
