@@ -171,7 +171,7 @@ const curveTooltip = `function (ps) {
 //
 // The interval is at the level of the analysis's headline interval (for a
 // one-sided analysis that is 1 − 2α, as Analyze documents). Options read:
-// WithHeight.
+// WithHeight, WithZoom (default: the part of the curve above 1e−4).
 func ConfidenceCurveChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) {
 	test, err := proportions.LookupTest(a.Test.Method)
 	if err != nil {
@@ -189,7 +189,7 @@ func ConfidenceCurveChart(a proportions.Analysis, options ...ChartOption) (*Char
 }
 
 // CurveChart draws a confidence curve computed by [ConfidenceCurveOf] for
-// the comparison whose labels it uses. Options read: WithHeight.
+// the comparison whose labels it uses. Options read: WithHeight, WithZoom.
 func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...ChartOption) (*Chart, error) {
 	if len(cc.Deltas) == 0 || len(cc.Deltas) != len(cc.PValues) {
 		return nil, fmt.Errorf("confidence curve chart: %w: the curve has no points", errNoIntervals)
@@ -219,11 +219,7 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 	)
 	option := optionOf(ch)
 	viewLo, viewHi, _ := niceRange(cc.ViewLower, cc.ViewUpper, -1, 1)
-	option["dataZoom"] = []any{
-		map[string]any{"type": "inside", "xAxisIndex": 0, "startValue": viewLo, "endValue": viewHi, "filterMode": "none"},
-		map[string]any{"type": "slider", "xAxisIndex": 0, "startValue": viewLo, "endValue": viewHi, "filterMode": "none",
-			"height": 16, "bottom": 10, "labelFormatter": jsFunc(ppAxisLabel)},
-	}
+	option["dataZoom"] = s.zoom(viewLo, viewHi, ppAxisLabel)
 	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(curveTooltip),
 		"axisPointer": map[string]any{"type": "line"}}
 	ivLabel := fmt.Sprintf("%s interval", fmtLevel(cc.Level))

@@ -180,7 +180,7 @@ const coverageSliceTooltip = `function (ps) {
 // nominal level as a line inside a band of ±1 percentage point. The slices
 // must share their design and their line of rates. A slice along the first
 // rate runs across π1; a slice at a fixed effect runs across π2.
-// Options read: WithHeight.
+// Options read: WithHeight, WithZoom (to open on part of the rates).
 func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, error) {
 	if len(slices) == 0 || slices[0] == nil || len(slices[0].Points) == 0 {
 		return nil, fmt.Errorf("coverage slice: %w: no coverage points", errNoIntervals)
@@ -260,6 +260,10 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 	option["series"] = series
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
+	if z := set.zoom(0, 0, percentAxisLabel); z != nil {
+		option["dataZoom"] = z
+		option["grid"] = []any{map[string]any{"left": "24", "right": "40", "top": "110", "bottom": "80", "containLabel": true}}
+	}
 	notes := []string{"Each line is the chance that a method's interval contains the true difference, computed exactly over every " +
 		"possible outcome of a study of this size. Lines that dip below the band miss the truth more often than their label promises."}
 	return newChart("coverage-slice", title, subtitle, set.heightOr(defaultHeight+60), option, table, notes)

@@ -146,4 +146,12 @@ func TestCoverageSliceOption(t *testing.T) {
 	if ch, err := CoverageSliceChart([]*exact.Slice{other}); err != nil || !strings.Contains(ch.Title()+ch.Text(), "+10.00 pp") {
 		t.Errorf("slice at a fixed difference: %v", err)
 	}
+	zoomed, err := CoverageSliceChart(slices, WithZoom(0, 0.1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	z := optionOfChart(t, zoomed)["dataZoom"].([]any)[1].(map[string]any)
+	if z["startValue"] != 0.0 || z["endValue"] != 0.1 {
+		t.Errorf("zoom window %v to %v, want 0 to 0.1", z["startValue"], z["endValue"])
+	}
 }

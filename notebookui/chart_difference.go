@@ -17,6 +17,8 @@ type chartSettings struct {
 	recommended string
 	reason      string
 	height      int
+	zoomFrom    float64
+	zoomTo      float64
 }
 
 func newChartSettings(options []ChartOption) chartSettings {
@@ -43,6 +45,33 @@ func WithHeight(px int) ChartOption {
 		if px > 0 {
 			s.height = px
 		}
+	}
+}
+
+// WithZoom opens the chart zoomed to the part of its horizontal axis from
+// `from` to `to` (in the axis's own units: rates and differences as
+// proportions, such as 0 to 0.1 for rates up to 10%); the reader can zoom
+// out with the slider under the chart.
+func WithZoom(from, to float64) ChartOption {
+	return func(s *chartSettings) {
+		if to > from {
+			s.zoomFrom, s.zoomTo = from, to
+		}
+	}
+}
+
+// zoom returns the dataZoom components for a horizontal window, or nil.
+func (s chartSettings) zoom(from, to float64, label string) []any {
+	if s.zoomTo > s.zoomFrom {
+		from, to = s.zoomFrom, s.zoomTo
+	}
+	if !(to > from) {
+		return nil
+	}
+	return []any{
+		map[string]any{"type": "inside", "xAxisIndex": 0, "startValue": from, "endValue": to, "filterMode": "none"},
+		map[string]any{"type": "slider", "xAxisIndex": 0, "startValue": from, "endValue": to, "filterMode": "none",
+			"height": 16, "bottom": 10, "labelFormatter": jsFunc(label)},
 	}
 }
 
