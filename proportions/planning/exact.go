@@ -1,0 +1,304 @@
+package planning
+
+import (
+	"cmp"
+	"context"
+	"fmt"
+	"strings"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// MaxExactGroup is the largest group size for which exact power is computed.
+const MaxExactGroup = 100000
+
+// MaxRegionOutcomes caps n1·n2 for ExactPowerByDifference, which runs the
+// test on every outcome of the design.
+const MaxRegionOutcomes = 4_000_000
+
+// ExactPowerResult is the exact power of the test the user will run, for a
+// design and group sizes.
+type ExactPowerResult struct {
+	Design proportions.Design `json:"design"`
+	// Test is the key of the test, TestName its published name.
+	Test       string                   `json:"test"`
+	TestName   string                   `json:"test_name"`
+	Citation   string                   `json:"citation"`
+	Hypotheses []proportions.Hypothesis `json:"hypotheses"`
+	N1         int64                    `json:"n1"`
+	N2         int64                    `json:"n2"`
+	// Power is the exact power; Asymptotic the normal approximation of
+	// proportions.PowerAt at the same sizes, for comparison.
+	Power      float64  `json:"power"`
+	Asymptotic float64  `json:"asymptotic_power"`
+	Notes      []string `json:"notes"`
+	Caution    string   `json:"caution"`
+}
+
+// ExactPower returns the exact power of test m, run as the design says
+// (Design.TestHypotheses: a two-sided test of no effect, a one-sided test
+// against the margin, or two one-sided tests for equivalence, each at
+// level α), with n1 and n2 units with an outcome and true rates
+// Design.Rate1 and Design.Rate2:
+//
+//	power = Σ_{x1=0..n1} Σ_{x2=0..n2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)},
+//
+// b the binomial probability, by running the test on every outcome (tails of
+// total probability below 10⁻¹⁶ left out). Design.Power, Allocation,
+// Dropout, Variance and ContinuityCorrection are not used (the test decides
+// its own statistic). Errors wrap the sentinels of proportions.SampleSize
+// except ErrUnreachable, ErrUnsupported when the test cannot carry out the
+// design, ErrDesign for sizes outside [1, MaxExactGroup], or the context's
+// error when it is cancelled.
+func ExactPower(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
+	dc, err := newDecision(d, m)
+	if err != nil {
+		return ExactPowerResult{}, err
+	}
+	if err := checkSizes(n1, n2); err != nil {
+		return ExactPowerResult{}, err
+	}
+	asym, err := proportions.PowerAt(d, n1, n2)
+	if err != nil {
+		return ExactPowerResult{}, err
+	}
+	p, err := enumeratePower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
+	if err != nil {
+		return ExactPowerResult{}, err
+	}
+	return ExactPowerResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Hypotheses: dc.hypotheses,
+		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: proportions.PlanningCaution}, nil
+}
+
+// newDecision validates the design's fields and rates (not its power) and
+// the test, and returns the decision rule.
+func newDecision(d proportions.Design, m proportions.TestMethod) (decision, error) {
+	if err := d.Validate(); err != nil {
+		return decision{}, err
+	}
+	hs, err := d.TestHypotheses(m)
+	if err != nil {
+		return decision{}, err
+	}
+	return decision{test: m, hypotheses: hs}, nil
+}
+
+func checkSizes(n1, n2 int64) error {
+	for i, n := range []int64{n1, n2} {
+		if n < 1 || n > MaxExactGroup {
+			return fmt.Errorf("group %d size %d: %w; exact power is computed for 1 to %d units per group", i+1, n, proportions.ErrDesign, MaxExactGroup)
+		}
+	}
+	return nil
+}
+
+func testNotes(m proportions.TestMethod) []string {
+	if m.Exact {
+		return []string{}
+	}
+	return []string{fmt.Sprintf("%s is an asymptotic test: its actual type I error can exceed α at some rates; the exact power counts its rejections as they are", m.Name)}
+}
+
+// ExactSampleSizeResult is the outcome of the exact sample-size search.
+//
+// Exact power is saw-toothed in n: it can reach the target at some size,
+// fall below it at the next, and rise again. First is the smallest group-1
+// size (scanning from Search.From) whose power reaches the target; Stable
+// is the smallest size from which every size up to Horizon reaches it (the
+// safer plan). Curve holds the exact power at every size scanned.
+type ExactSampleSizeResult struct {
+	Design   proportions.Design `json:"design"`
+	Test     string             `json:"test"`
+	TestName string             `json:"test_name"`
+	Citation string             `json:"citation"`
+	// Asymptotic is the normal-approximation answer of proportions.SampleSize.
+	Asymptotic proportions.SampleSizeResult `json:"asymptotic"`
+	From       int64                        `json:"from"`
+	Horizon    int64                        `json:"horizon"`
+	First      ExactSize                    `json:"first"`
+	// Stable is the zero ExactSize with StableFound false when the power at
+	// a horizon set in Search falls below the target.
+	Stable      ExactSize              `json:"stable"`
+	StableFound bool                   `json:"stable_found"`
+	Curve       proportions.PowerCurve `json:"curve"`
+	Notes       []string               `json:"notes"`
+	Caution     string                 `json:"caution"`
+}
+
+// ExactSize is one group-size answer of the exact search.
+type ExactSize struct {
+	N1    int64   `json:"n1"`
+	N2    int64   `json:"n2"`
+	Power float64 `json:"power"`
+	// Enrolled1 and Enrolled2 inflate the sizes for drop-out.
+	Enrolled1 int64 `json:"enrolled1"`
+	Enrolled2 int64 `json:"enrolled2"`
+}
+
+// ExactSampleSize finds the smallest group sizes at which the exact power
+// (see ExactPower) of test m reaches Design.Power, scanning n1 = From,
+// From+1, ... with n2 = ⌈r·n1⌉, and the smallest size from which the power
+// stays at or above the target up to the horizon (see Search for the
+// defaults). It reads every field of the design; Variance and
+// ContinuityCorrection shape only the asymptotic answer reported beside.
+// Errors are those of proportions.SampleSize and ExactPower, ErrUnreachable
+// when no size up to Search.MaxN1 reaches the target, ErrTooLarge when the
+// asymptotic size is above 1.5·MaxN1 (checked first, to fail fast), and
+// ErrDesign for a bad Search.
+func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
+	asym, err := proportions.SampleSize(d)
+	if err != nil {
+		return ExactSampleSizeResult{}, err
+	}
+	if maxN := cmp.Or(s.MaxN1, DefaultMaxN1); asym.Unrounded > 1.5*float64(maxN) {
+		return ExactSampleSizeResult{}, fmt.Errorf("the normal approximation needs n1 = %d: %w; the exact search stops at n1 = %d (Search.MaxN1); at such sizes the approximation is close",
+			asym.N1, proportions.ErrTooLarge, maxN)
+	}
+	dc, err := newDecision(d, m)
+	if err != nil {
+		return ExactSampleSizeResult{}, err
+	}
+	power := func(ctx context.Context, n1, n2 int64) (float64, error) {
+		if err := checkSizes(n1, n2); err != nil {
+			return 0, err
+		}
+		return enumeratePower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
+	}
+	sc, err := scan(ctx, d, s, power)
+	if err != nil {
+		return ExactSampleSizeResult{}, err
+	}
+	res := ExactSampleSizeResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Asymptotic: asym,
+		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: proportions.PlanningCaution,
+		Curve: proportions.PowerCurve{Design: d, Method: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: proportions.PlanningCaution}}
+	res.First = sizeAt(d, sc.curve, sc.first)
+	if sc.stableFound {
+		res.Stable = sizeAt(d, sc.curve, sc.stable)
+	}
+	res.Notes = append(testNotes(m), searchNotes(res)...)
+	return res, nil
+}
+
+// sizeAt picks the curve point at n1.
+func sizeAt(d proportions.Design, curve []proportions.PowerPoint, n1 int64) ExactSize {
+	for _, p := range curve {
+		if p.N1 == n1 {
+			return ExactSize{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
+		}
+	}
+	return ExactSize{}
+}
+
+func searchNotes(r ExactSampleSizeResult) []string {
+	var notes []string
+	if r.From > 1 {
+		notes = append(notes, fmt.Sprintf("the scan started at n1 = %d: a smaller size might also reach the target", r.From))
+	}
+	if !r.StableFound {
+		notes = append(notes, fmt.Sprintf("the exact power at the horizon n1 = %d is below the target: no size is stable up to it", r.Horizon))
+	} else if r.Stable.N1 > r.First.N1 {
+		notes = append(notes, fmt.Sprintf("exact power dips below the target again after n1 = %d; from n1 = %d it stays at or above it up to %d", r.First.N1, r.Stable.N1, r.Horizon))
+	}
+	return notes
+}
+
+// ExactPowerByN returns the exact power of test m for every n1 from n1From
+// to n1To (in equal steps when that is more than proportions.MaxCurvePoints
+// sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Design.Power is
+// not used.
+func ExactPowerByN(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1From, n1To int64) (proportions.PowerCurve, error) {
+	dc, err := newDecision(d, m)
+	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	grid, err := proportions.PowerByN(d, n1From, n1To) // validates the range, gives the sizes
+	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	grid.Method = "exact power of " + m.Name
+	for i, p := range grid.Points {
+		if err := checkSizes(p.N1, p.N2); err != nil {
+			return proportions.PowerCurve{}, err
+		}
+		if grid.Points[i].Power, err = enumeratePower(ctx, dc, p.N1, p.N2, d.Rate1, d.Rate2); err != nil {
+			return proportions.PowerCurve{}, err
+		}
+	}
+	return grid, nil
+}
+
+// ExactPowerByDifference returns the exact power of test m with n1 and n2
+// units against the first group's true rate, at points rates evenly spaced
+// from rate1From to rate1To, π2 = Design.Rate2 fixed. The test runs once on
+// every outcome (n1·n2 at most MaxRegionOutcomes); each rate then costs one
+// sum over x1 of b(x1; n1, π1) times the rejected probability of row x1.
+func ExactPowerByDifference(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (proportions.PowerCurve, error) {
+	dc, err := newDecision(d, m)
+	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	grid, err := proportions.PowerByDifference(d, n1, n2, rate1From, rate1To, points)
+	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	if (n1+1)*(n2+1) > MaxRegionOutcomes {
+		return proportions.PowerCurve{}, fmt.Errorf("%d × %d outcomes: %w; the power curve against the difference is computed for at most %d outcomes",
+			n1+1, n2+1, proportions.ErrTooLarge, MaxRegionOutcomes)
+	}
+	b2 := newBinomialRange(n2, d.Rate2)
+	rows := make([]float64, n1+1) // rejected probability of group 2 in each row x1
+	err = forRows(ctx, int(n1+1), func(i int) {
+		c := proportions.Counts{X1: int64(i), N1: n1, N2: n2}
+		for j, q := range b2.p {
+			c.X2 = b2.lo + int64(j)
+			if dc.rejects(c) {
+				rows[i] += q
+			}
+		}
+	})
+	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	grid.Method = "exact power of " + m.Name
+	for i, p := range grid.Points {
+		b1 := newBinomialRange(n1, p.Rate1)
+		s := 0.0
+		for k, q := range b1.p {
+			s += q * rows[b1.lo+int64(k)]
+		}
+		grid.Points[i].Power = min(1, s)
+	}
+	return grid, nil
+}
+
+// String prints the exact power in a few lines.
+func (r ExactPowerResult) String() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "Exact power %.4f of %s with %d + %d units (normal approximation %.4f)\n  design: %s\n",
+		r.Power, r.TestName, r.N1, r.N2, r.Asymptotic, r.Design)
+	writeNotes(&b, r.Notes, r.Caution)
+	return b.String()
+}
+
+// String prints the search result in a few lines.
+func (r ExactSampleSizeResult) String() string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "Exact sample size for %s with %s\n", r.Design, r.TestName)
+	fmt.Fprintf(&b, "  smallest size reaching the target: %d + %d (power %.4f)\n", r.First.N1, r.First.N2, r.First.Power)
+	if r.StableFound {
+		fmt.Fprintf(&b, "  stays at or above it from: %d + %d (power %.4f), checked up to n1 = %d\n", r.Stable.N1, r.Stable.N2, r.Stable.Power, r.Horizon)
+		if r.Design.Dropout > 0 {
+			fmt.Fprintf(&b, "  enrol %d + %d for the stable size\n", r.Stable.Enrolled1, r.Stable.Enrolled2)
+		}
+	}
+	fmt.Fprintf(&b, "  normal approximation: %d + %d (%s)\n", r.Asymptotic.N1, r.Asymptotic.N2, r.Asymptotic.Method)
+	writeNotes(&b, r.Notes, r.Caution)
+	return b.String()
+}
+
+func writeNotes(b *strings.Builder, notes []string, caution string) {
+	for _, n := range notes {
+		fmt.Fprintf(b, "  note: %s\n", n)
+	}
+	fmt.Fprintf(b, "  %s\n", caution)
+}

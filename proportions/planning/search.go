@@ -1,0 +1,119 @@
+package planning
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// DefaultMaxN1 is the largest group-1 size the exact search visits unless
+// Search.MaxN1 says otherwise.
+const DefaultMaxN1 = 2000
+
+// Search bounds the exact sample-size search. The zero value scans from
+// n1 = 1 with the default horizon and DefaultMaxN1.
+type Search struct {
+	// From is the first group-1 size scanned (default 1). Exact power is
+	// saw-toothed, so only a scan from 1 guarantees that the reported
+	// smallest size is the smallest; a later start saves time with slow tests.
+	From int64 `json:"from"`
+	// Horizon is the largest group-1 size checked when looking for the size
+	// from which the power stays at or above the target. The default is
+	// max(first + 10, ⌈1.25·first⌉), first the smallest size reaching the
+	// target, widened by a quarter at a time (up to MaxN1) until the power
+	// at the horizon itself reaches the target.
+	Horizon int64 `json:"horizon"`
+	// MaxN1 caps the scan (default DefaultMaxN1).
+	MaxN1 int64 `json:"max_n1"`
+}
+
+// powerFunc is exact power at group sizes (n1, n2).
+type powerFunc func(ctx context.Context, n1, n2 int64) (float64, error)
+
+// scanResult is the outcome of a search.
+type scanResult struct {
+	first, stable, horizon int64
+	from                   int64
+	curve                  []proportions.PowerPoint
+	// stableFound is false when the power at a user-set horizon is below
+	// the target, so no size is stable up to it.
+	stableFound bool
+}
+
+// scan walks n1 upward from s.From until the power reaches the target, then
+// on to the horizon, and finds the smallest size from which every size up
+// to the horizon reaches the target.
+func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) (scanResult, error) {
+	from, maxN := s.From, s.MaxN1
+	if from == 0 {
+		from = 1
+	}
+	if maxN == 0 {
+		maxN = DefaultMaxN1
+	}
+	if from < 1 || maxN < from || maxN > proportions.MaxTrials || s.Horizon < 0 || (s.Horizon > 0 && s.Horizon < from) {
+		return scanResult{}, fmt.Errorf("search from %d, horizon %d, cap %d: %w; give 1 ≤ From ≤ MaxN1 and a horizon of 0 (default) or at least From",
+			s.From, s.Horizon, s.MaxN1, proportions.ErrDesign)
+	}
+	res := scanResult{from: from}
+	at := func(n1 int64) (float64, error) {
+		n2 := d.SecondGroupSize(n1)
+		p, err := power(ctx, n1, n2)
+		if err != nil {
+			return 0, err
+		}
+		res.curve = append(res.curve, proportions.PowerPoint{N1: n1, N2: n2, Rate1: d.Rate1,
+			Difference: d.Rate1 - d.Rate2, Ratio: d.Rate1 / d.Rate2, Power: p})
+		return p, nil
+	}
+	n := from
+	for ; ; n++ {
+		if n > maxN {
+			return res, fmt.Errorf("exact power stays below %v for every n1 from %d to %d: %w; raise Search.MaxN1 or check the design with the asymptotic SampleSize",
+				d.Power, from, maxN, proportions.ErrUnreachable)
+		}
+		p, err := at(n)
+		if err != nil {
+			return res, err
+		}
+		if p >= d.Power {
+			break
+		}
+	}
+	res.first = n
+	horizon, userHorizon := max(s.Horizon, n), s.Horizon > 0
+	if !userHorizon {
+		horizon = min(maxN, max(n+10, int64(math.Ceil(1.25*float64(n)))))
+	}
+	for {
+		for n++; n <= horizon; n++ {
+			if _, err := at(n); err != nil {
+				return res, err
+			}
+		}
+		n = horizon
+		last := res.curve[len(res.curve)-1]
+		if last.Power >= d.Power || userHorizon || horizon >= maxN {
+			break
+		}
+		horizon = min(maxN, int64(math.Ceil(1.25*float64(horizon))))
+	}
+	res.horizon = horizon
+	res.stable, res.stableFound = stableFrom(res.curve, d.Power)
+	return res, nil
+}
+
+// stableFrom returns the smallest n1 from which every point of the curve
+// (ordered by n1, ending at the horizon) reaches the target.
+func stableFrom(curve []proportions.PowerPoint, target float64) (int64, bool) {
+	i := len(curve)
+	for i > 0 && curve[i-1].Power >= target {
+		i--
+	}
+	if i == len(curve) {
+		return 0, false
+	}
+	return curve[i].N1, true
+}
