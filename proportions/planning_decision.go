@@ -3,8 +3,7 @@ package proportions
 import "fmt"
 
 // This file turns a Design into the decision rule of the test the user
-// will run, for exact power: the hypotheses to run the test with and the
-// rule that combines them.
+// will run, for exact power: the hypotheses to run the test with.
 
 // Validate checks every field of the design and both rates; the target
 // power and whether it can be reached are checked by the sample-size
@@ -29,7 +28,7 @@ func (d Design) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 // against the margin for Superiority and NonInferiority; for Equivalence
 // the two one-sided hypotheses θ ≤ lower limit (alternative Greater) and
 // θ ≥ upper limit (alternative Less). The design rejects when m rejects
-// every one of them (see Rejects).
+// every one of them (exact.Decision carries this rule for exact power).
 //
 // A test of no effect may come from any scale (π1 = π2 on every scale); a
 // margin needs a test on the design's scale that accepts margins. Errors
@@ -77,15 +76,4 @@ func (d Design) TestHypotheses(m TestMethod) ([]Hypothesis, error) {
 		hs = append(hs, h)
 	}
 	return hs, nil
-}
-
-// Rejects reports whether test m, run with the hypotheses of
-// Design.TestHypotheses, rejects for the counts c: it must reject each one.
-func Rejects(m TestMethod, hs []Hypothesis, c Counts) bool {
-	for _, h := range hs {
-		if !m.Run(c, h).Reject {
-			return false
-		}
-	}
-	return len(hs) > 0
 }

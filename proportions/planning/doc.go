@@ -6,7 +6,8 @@
 // continuity correction) live in package proportions with the Design type
 // (proportions.SampleSize, PowerAt, DetectableDifference, PowerByN,
 // PowerByDifference). This package takes the same Design and a registered
-// proportions.TestMethod and enumerates every outcome of the two binomial
+// proportions.TestMethod and, through the operating-characteristics engine
+// (package exact), enumerates every outcome of the two binomial
 // distributions:
 //
 //	power = Σ_{x1} Σ_{x2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)}.
@@ -17,6 +18,7 @@
 // that reaches the target, and the smallest size from which every size up
 // to a stated horizon reaches it.
 //
-// Functions that enumerate take a context.Context and stop when it is
-// cancelled. They use every core.
+// Functions that enumerate take a context.Context (checked between group
+// sizes, and within the rejection region of ExactPowerByDifference) and use
+// every core.
 package planning

@@ -7,14 +7,12 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
 )
 
-// MaxExactGroup is the largest group size for which exact power is computed.
-const MaxExactGroup = 100000
-
-// MaxRegionOutcomes caps n1·n2 for ExactPowerByDifference, which runs the
-// test on every outcome of the design.
-const MaxRegionOutcomes = 4_000_000
+// MaxExactGroup is the largest group size for which exact power is
+// computed: that of the operating-characteristics engine (package exact).
+const MaxExactGroup = exact.MaxGroupSize
 
 // ExactPowerResult is the exact power of the test the user will run, for a
 // design and group sizes.
@@ -44,7 +42,8 @@ type ExactPowerResult struct {
 //	power = Σ_{x1=0..n1} Σ_{x2=0..n2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)},
 //
 // b the binomial probability, by running the test on every outcome (tails of
-// total probability below 10⁻¹⁶ left out). Design.Power, Allocation,
+// total probability below 10⁻¹⁶ left out) with the operating-characteristics
+// engine (exact.Decision.Power). Design.Power, Allocation,
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
 // its own statistic). Errors wrap the sentinels of proportions.SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the
@@ -62,25 +61,34 @@ func ExactPower(ctx context.Context, d proportions.Design, m proportions.TestMet
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
-	p, err := enumeratePower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
+	p, err := exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
-	return ExactPowerResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Hypotheses: dc.hypotheses,
+	return ExactPowerResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Hypotheses: dc.Hypotheses,
 		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: proportions.PlanningCaution}, nil
 }
 
 // newDecision validates the design's fields and rates (not its power) and
-// the test, and returns the decision rule.
-func newDecision(d proportions.Design, m proportions.TestMethod) (decision, error) {
+// the test, and returns the decision rule for the engine.
+func newDecision(d proportions.Design, m proportions.TestMethod) (exact.Decision, error) {
 	if err := d.Validate(); err != nil {
-		return decision{}, err
+		return exact.Decision{}, err
 	}
 	hs, err := d.TestHypotheses(m)
 	if err != nil {
-		return decision{}, err
+		return exact.Decision{}, err
 	}
-	return decision{test: m, hypotheses: hs}, nil
+	return exact.Decision{Test: m, Hypotheses: hs}, nil
+}
+
+// exactPower is the engine's exact power, after a check of the context (the
+// engine's single evaluations are short; searches check between sizes).
+func exactPower(ctx context.Context, dc exact.Decision, n1, n2 int64, p1, p2 float64) (float64, error) {
+	if err := ctx.Err(); err != nil {
+		return 0, err
+	}
+	return dc.Power(int(n1), int(n2), p1, p2)
 }
 
 func checkSizes(n1, n2 int64) error {
@@ -162,7 +170,7 @@ func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.Te
 		if err := checkSizes(n1, n2); err != nil {
 			return 0, err
 		}
-		return enumeratePower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
+		return exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
 	}
 	sc, err := scan(ctx, d, s, power)
 	if err != nil {
@@ -220,7 +228,7 @@ func ExactPowerByN(ctx context.Context, d proportions.Design, m proportions.Test
 		if err := checkSizes(p.N1, p.N2); err != nil {
 			return proportions.PowerCurve{}, err
 		}
-		if grid.Points[i].Power, err = enumeratePower(ctx, dc, p.N1, p.N2, d.Rate1, d.Rate2); err != nil {
+		if grid.Points[i].Power, err = exactPower(ctx, dc, p.N1, p.N2, d.Rate1, d.Rate2); err != nil {
 			return proportions.PowerCurve{}, err
 		}
 	}
@@ -230,43 +238,29 @@ func ExactPowerByN(ctx context.Context, d proportions.Design, m proportions.Test
 // ExactPowerByDifference returns the exact power of test m with n1 and n2
 // units against the first group's true rate, at points rates evenly spaced
 // from rate1From to rate1To, π2 = Design.Rate2 fixed. The test runs once on
-// every outcome (n1·n2 at most MaxRegionOutcomes); each rate then costs one
-// sum over x1 of b(x1; n1, π1) times the rejected probability of row x1.
+// every outcome (exact.NewRejectionRegion, which stops when ctx is
+// cancelled); each rate then costs one sum over the region's runs.
 func ExactPowerByDifference(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (proportions.PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
+		return proportions.PowerCurve{}, err
+	}
+	if err := checkSizes(n1, n2); err != nil {
 		return proportions.PowerCurve{}, err
 	}
 	grid, err := proportions.PowerByDifference(d, n1, n2, rate1From, rate1To, points)
 	if err != nil {
 		return proportions.PowerCurve{}, err
 	}
-	if (n1+1)*(n2+1) > MaxRegionOutcomes {
-		return proportions.PowerCurve{}, fmt.Errorf("%d × %d outcomes: %w; the power curve against the difference is computed for at most %d outcomes",
-			n1+1, n2+1, proportions.ErrTooLarge, MaxRegionOutcomes)
-	}
-	b2 := newBinomialRange(n2, d.Rate2)
-	rows := make([]float64, n1+1) // rejected probability of group 2 in each row x1
-	err = forRows(ctx, int(n1+1), func(i int) {
-		c := proportions.Counts{X1: int64(i), N1: n1, N2: n2}
-		for j, q := range b2.p {
-			c.X2 = b2.lo + int64(j)
-			if dc.rejects(c) {
-				rows[i] += q
-			}
-		}
-	})
+	region, err := exact.NewRejectionRegion(ctx, dc, int(n1), int(n2))
 	if err != nil {
 		return proportions.PowerCurve{}, err
 	}
 	grid.Method = "exact power of " + m.Name
 	for i, p := range grid.Points {
-		b1 := newBinomialRange(n1, p.Rate1)
-		s := 0.0
-		for k, q := range b1.p {
-			s += q * rows[b1.lo+int64(k)]
+		if grid.Points[i].Power, err = region.Power(p.Rate1, d.Rate2); err != nil {
+			return proportions.PowerCurve{}, err
 		}
-		grid.Points[i].Power = min(1, s)
 	}
 	return grid, nil
 }

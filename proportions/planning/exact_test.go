@@ -117,6 +117,10 @@ func exactDesigns() []struct {
 		m    proportions.TestMethod
 	}{
 		{"equality score (ratio scale)", eq, proportions.FarringtonManningRatio},
+		{"equality score", eq, proportions.FarringtonManning},
+		{"equality chi-square", eq, proportions.PearsonChiSquare},
+		{"non-inferiority score", ni, proportions.FarringtonManning},
+		{"equivalence Miettinen–Nurminen", equiv, proportions.MiettinenNurminenTest},
 		{"equality Fisher", eq, proportions.Fisher},
 		{"non-inferiority Wald", ni, waldDifference},
 		{"superiority lower is better", sup, waldDifference},
@@ -261,7 +265,7 @@ func TestExactPowerSawTooth(t *testing.T) {
 // The curve against the true rate uses a once-computed rejection region;
 // check it against ExactPower (tail-cut enumeration) and brute force.
 func TestExactPowerByDifference(t *testing.T) {
-	for _, tc := range exactDesigns()[2:6] {
+	for _, tc := range exactDesigns()[5:9] {
 		curve, err := ExactPowerByDifference(context.Background(), tc.d, tc.m, 25, 30, 0.05, 0.95, 7)
 		if err != nil {
 			t.Fatal(err)
