@@ -3,6 +3,7 @@ package proportions
 import (
 	"fmt"
 	"strings"
+	"unicode/utf8"
 )
 
 // String gives a readable plain-text summary of the analysis: the groups,
@@ -42,11 +43,16 @@ func writeIntervals(b *strings.Builder, title string, ivs []Interval) {
 		return
 	}
 	fmt.Fprintf(b, "%s (%s):\n", title, levelPercent(ivs[0].Level))
+	width := 0
+	for _, iv := range ivs {
+		width = max(width, utf8.RuneCountInString(iv.Name))
+	}
 	for _, iv := range ivs {
 		note := ""
 		if iv.Clipped {
 			note = fmt.Sprintf("  [raw %s to %s]", FormatValue(iv.RawLower), FormatValue(iv.RawUpper))
 		}
-		fmt.Fprintf(b, "  %-40s %s to %s%s\n", iv.Name, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
+		pad := strings.Repeat(" ", width-utf8.RuneCountInString(iv.Name))
+		fmt.Fprintf(b, "  %s%s  %s to %s%s\n", iv.Name, pad, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
 	}
 }
