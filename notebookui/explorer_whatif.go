@@ -1,0 +1,133 @@
+package notebookui
+
+import (
+	"fmt"
+	"strconv"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// WhatIfExplorer shows the result card of a comparison and lets the reader
+// change the observed counts: the events and trials of each group. Each
+// change reruns proportions.Analyze and redraws the card, so one sees how
+// the interval, the tests and the conclusion would move had a few more
+// units failed, or had the study been twice as large.
+//
+// Build it as a literal; Comparison is required.
+type WhatIfExplorer struct {
+	// Comparison holds the starting counts and the labels of the groups
+	// and of the event.
+	Comparison proportions.Comparison
+	// Analysis holds the options of the analysis (level, null value,
+	// alternative, continuity correction), as for proportions.Analyze.
+	Analysis []proportions.Option
+	// MaxTrials is the largest group size the sliders reach; 0 means
+	// twice the larger group (at least 20). At most MaxWhatIfTrials.
+	MaxTrials int
+}
+
+// MaxWhatIfTrials is the largest MaxTrials a what-if explorer accepts: the
+// sliders move in single units, and beyond a few thousand positions a
+// slider can no longer pick one.
+const MaxWhatIfTrials = 5000
+
+func (e WhatIfExplorer) validate() error {
+	if err := e.Comparison.Counts().Validate(); err != nil {
+		return fmt.Errorf("what-if explorer: starting counts: %w", err)
+	}
+	if _, err := proportions.NewSettings(e.Analysis...); err != nil {
+		return fmt.Errorf("what-if explorer: %w", err)
+	}
+	top := e.maxTrials()
+	if top > MaxWhatIfTrials || e.MaxTrials < 0 {
+		return fmt.Errorf("what-if explorer: slider range up to %d trials: %w; use 0 (twice the larger group) or at most %d",
+			e.MaxTrials, proportions.ErrTooLarge, MaxWhatIfTrials)
+	}
+	c := e.Comparison.Counts()
+	if c.N1 > int64(top) || c.N2 > int64(top) {
+		return fmt.Errorf("what-if explorer: the groups have %d and %d trials but the sliders stop at %d: %w; raise MaxTrials",
+			c.N1, c.N2, top, proportions.ErrTooLarge)
+	}
+	return nil
+}
+
+func (e WhatIfExplorer) maxTrials() int {
+	if e.MaxTrials != 0 {
+		return e.MaxTrials
+	}
+	c := e.Comparison.Counts()
+	return int(max(20, 2*max(c.N1, c.N2)))
+}
+
+// Run shows the explorer (see the package's explorer modes: live in a
+// notebook with a front end, a static card of the starting counts under
+// nbconvert or outside a notebook). In a live notebook it returns when the
+// reader presses Done or after the idle timeout. The error reports bad
+// starting settings or a failure to display.
+func (e WhatIfExplorer) Run(opts ...LiveOption) error {
+	if err := e.validate(); err != nil {
+		return err
+	}
+	return run(whatIfModel{e}, opts)
+}
+
+// Frame returns what the explorer shows for the given counts, as the live
+// explorer would draw it (no notebook needed). The counts must fit the
+// sliders' range.
+func (e WhatIfExplorer) Frame(x1, n1, x2, n2 int) (Frame, error) {
+	if err := e.validate(); err != nil {
+		return Frame{}, err
+	}
+	top := e.maxTrials()
+	for _, v := range []int{x1, n1, x2, n2} {
+		if v < 0 || v > top {
+			return Frame{}, fmt.Errorf("what-if explorer: count %d: %w; the sliders run from 0 to %d", v, proportions.ErrTooLarge, top)
+		}
+	}
+	return frameOf(whatIfModel{e}, []int{x1, n1, x2, n2}), nil
+}
+
+type whatIfModel struct{ e WhatIfExplorer }
+
+func (whatIfModel) name() string { return "what-if" }
+
+func (m whatIfModel) title() string {
+	c := m.e.Comparison
+	return fmt.Sprintf("What if the counts were different? %s: %s vs %s", capitalize(c.Event), c.First.Label, c.Second.Label)
+}
+
+func (m whatIfModel) controls() []control {
+	c := m.e.Comparison
+	top := m.e.maxTrials()
+	units := func(p int) string { return strconv.Itoa(p) }
+	return []control{
+		{key: "x1", label: c.First.Label + ": " + c.Event, min: 0, max: top, value: int(c.First.Events), show: units},
+		{key: "n1", label: c.First.Label + ": trials", min: 1, max: top, value: int(c.First.Trials), show: units},
+		{key: "x2", label: c.Second.Label + ": " + c.Event, min: 0, max: top, value: int(c.Second.Events), show: units},
+		{key: "n2", label: c.Second.Label + ": trials", min: 1, max: top, value: int(c.Second.Trials), show: units},
+	}
+}
+
+// render analyses the counts at the positions and shows the result card;
+// counts that do not make a comparison (more events than trials) get a
+// message saying which group and what to move.
+func (m whatIfModel) render(pos []int) Displayable {
+	c := m.e.Comparison
+	labels := proportions.Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event}
+	for g, which := range [2]string{c.First.Label, c.Second.Label} {
+		if x, n := pos[2*g], pos[2*g+1]; x > n {
+			return message{kind: "what-if", text: fmt.Sprintf(
+				"%s: %d %s out of %d trials is not possible: events cannot exceed trials. Lower the events or raise the trials.",
+				which, x, c.Event, n)}
+		}
+	}
+	cmp, err := proportions.NewComparison(int64(pos[0]), int64(pos[1]), int64(pos[2]), int64(pos[3]), labels)
+	if err != nil {
+		return message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
+	}
+	a, err := proportions.Analyze(cmp, m.e.Analysis...)
+	if err != nil {
+		return message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
+	}
+	return NewResultCard(a)
+}
