@@ -248,7 +248,7 @@ func (p planFigures) Text() string { return p.r.String() }
 
 func (p planFigures) JSON() ([]byte, error) {
 	return json.Marshal(struct {
-		Kind   string                        `json:"kind"`
+		Kind   string                       `json:"kind"`
 		Result proportions.SampleSizeResult `json:"sample_size"`
 	}{"plan", p.r})
 }

@@ -1,0 +1,434 @@
+package notebookui
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strconv"
+	"sync"
+
+	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
+)
+
+// IntervalExplorer shows how interval methods behave for a design: the
+// exact coverage along a slice of true rates through a chosen point
+// (π1, π2), computed by the exact engine (package proportions/exact), and
+// a table of the coverage at the point, the lowest and the mean coverage
+// along the slice and the expected widths. Sliders move n1, n2, the level,
+// π1 and either π2 or the difference π1 − π2 held along the slice; a
+// drop-down picks one method or all of them.
+//
+// The slice runs over π1 in steps of one percentage point: with π2 held,
+// π1 from 0 to 100%; with the difference held, over every π1 whose π2 =
+// π1 − difference is a rate. Each method's table of limits is computed
+// once per design (n1, n2, level) and kept while the reader moves the
+// rates, so a change of π1, π2 or the difference costs a slice, not a
+// table.
+//
+// Build it as a literal; zero fields take the defaults noted.
+type IntervalExplorer struct {
+	// N1 and N2 are the starting group sizes (required, at least 1).
+	N1, N2 int
+	// Level is the starting two-sided level (0 means 0.95); the slider
+	// moves in steps of half a percentage point from 80% to 99.5%.
+	Level float64
+	// Rate1 is the starting π1; Rate2 the starting π2; Difference the
+	// starting π1 − π2 held along the slice when HoldDifference is set.
+	// The sliders move in steps of one percentage point.
+	Rate1, Rate2, Difference float64
+	// HoldDifference starts the explorer with the slice at a fixed
+	// difference rather than at a fixed π2.
+	HoldDifference bool
+	// Methods are the keys of the interval methods offered (default:
+	// every registered method for the difference). The drop-down offers
+	// each, and all of them together when they share a family.
+	Methods []string
+	// Method is the key of the method shown first; "" shows all.
+	Method string
+	// MaxGroupSize is where the group-size sliders end (0 means 200, or
+	// the larger starting size if that is more); at most
+	// MaxExplorerGroupSize.
+	MaxGroupSize int
+}
+
+// MaxExplorerGroupSize is the largest group size the interval explorer
+// offers: its tables of limits take 24·(n1+1)·(n2+1) bytes per method and
+// a redraw after a change of n recomputes them.
+const MaxExplorerGroupSize = 1000
+
+// allMethods is the drop-down entry that shows every offered method.
+const allMethods = "all methods"
+
+func (e IntervalExplorer) level() float64 {
+	if e.Level == 0 {
+		return 0.95
+	}
+	return e.Level
+}
+
+func (e IntervalExplorer) maxN() int {
+	if e.MaxGroupSize != 0 {
+		return e.MaxGroupSize
+	}
+	return max(200, e.N1, e.N2)
+}
+
+// methods resolves the offered methods.
+func (e IntervalExplorer) methods() ([]proportions.IntervalMethod, error) {
+	if len(e.Methods) == 0 {
+		return proportions.IntervalMethods(proportions.Difference), nil
+	}
+	out := make([]proportions.IntervalMethod, 0, len(e.Methods))
+	for _, k := range e.Methods {
+		m, err := proportions.LookupInterval(k)
+		if err != nil {
+			return nil, fmt.Errorf("interval explorer: %w", err)
+		}
+		out = append(out, m)
+	}
+	return out, nil
+}
+
+func (e IntervalExplorer) validate() error {
+	ms, err := e.methods()
+	if err != nil {
+		return err
+	}
+	if e.Method != "" && e.Method != allMethods {
+		found := false
+		for _, m := range ms {
+			found = found || m.Key == e.Method
+		}
+		if !found {
+			return fmt.Errorf("interval explorer: method %q: %w; it is not among the offered methods", e.Method, proportions.ErrUnknownMethod)
+		}
+	}
+	if top := e.maxN(); top < 1 || top > MaxExplorerGroupSize {
+		return fmt.Errorf("interval explorer: group sizes up to %d: %w; the sliders can reach at most %d", top, proportions.ErrTooLarge, MaxExplorerGroupSize)
+	}
+	if _, err := exact.NewDesign(e.N1, e.N2, e.level()); err != nil {
+		return fmt.Errorf("interval explorer: %w", err)
+	}
+	if e.N1 > e.maxN() || e.N2 > e.maxN() {
+		return fmt.Errorf("interval explorer: starting sizes %d and %d beyond the sliders' end %d: %w; raise MaxGroupSize", e.N1, e.N2, e.maxN(), proportions.ErrTooLarge)
+	}
+	if !(e.level() >= 0.8 && e.level() <= 0.995) {
+		return fmt.Errorf("interval explorer: level %v: %w; the slider runs from 0.80 to 0.995", e.Level, proportions.ErrLevel)
+	}
+	for _, r := range []float64{e.Rate1, e.Rate2} {
+		if !(r >= 0 && r <= 1) {
+			return fmt.Errorf("interval explorer: rate %v: %w; a rate lies between 0 and 1", r, proportions.ErrDesign)
+		}
+	}
+	if !(e.Difference >= -1 && e.Difference <= 1) {
+		return fmt.Errorf("interval explorer: difference %v: %w; π1 − π2 lies between −1 and 1", e.Difference, proportions.ErrDesign)
+	}
+	return nil
+}
+
+// Run shows the explorer: live in a notebook with a front end, the
+// starting settings as a static view under nbconvert or outside a notebook
+// (see WhatIfExplorer.Run for the modes).
+func (e IntervalExplorer) Run(opts ...LiveOption) error {
+	m, err := e.model()
+	if err != nil {
+		return err
+	}
+	return run(m, opts)
+}
+
+// Frame returns what the explorer shows at its starting settings, as the
+// live explorer would draw it.
+func (e IntervalExplorer) Frame() (Frame, error) {
+	m, err := e.model()
+	if err != nil {
+		return Frame{}, err
+	}
+	return frameOf(m, startPositions(m)), nil
+}
+
+// Slice computes the exact coverage along the explorer's starting slice,
+// one result per shown method: the numbers behind Frame.
+func (e IntervalExplorer) Slice() ([]CoverageSlice, error) {
+	m, err := e.model()
+	if err != nil {
+		return nil, err
+	}
+	return m.slices(m.settings(startPositions(m)))
+}
+
+func (e IntervalExplorer) model() (*intervalModel, error) {
+	if err := e.validate(); err != nil {
+		return nil, err
+	}
+	ms, _ := e.methods()
+	return &intervalModel{e: e, methods: ms, tables: newTableCache(3 * len(ms))}, nil
+}
+
+// CoverageSlice is the exact coverage of one interval method along a
+// slice of true rates, with its summary.
+type CoverageSlice struct {
+	Design exact.Design `json:"design"`
+	Key    string       `json:"method"`
+	Name   string       `json:"name"`
+	// Family is the method's parameter; widths are on the log scale for
+	// the ratio and the odds ratio.
+	Family proportions.Family `json:"family"`
+	// Points are the slice's points in order of π1 (undefined truths
+	// included, with Defined false).
+	Points []exact.Point `json:"points"`
+	// At is the point the reader chose, when it lies on the slice.
+	At      exact.Point `json:"at"`
+	AtValid bool        `json:"at_valid"`
+	// Min and MinPi1 are the lowest coverage along the slice and the π1
+	// where it occurs (the first, in order of π1); Mean is the average
+	// coverage and MeanWidth the average expected width over the points
+	// with a defined truth.
+	Min       float64 `json:"min"`
+	MinPi1    float64 `json:"min_pi1"`
+	Mean      float64 `json:"mean"`
+	MeanWidth float64 `json:"mean_width"`
+}
+
+// sliceSettings is what the positions stand for.
+type sliceSettings struct {
+	n1, n2       int
+	level        float64
+	pi1, pi2     float64 // the chosen point (pi2 may fall outside [0, 1])
+	difference   float64
+	holdDiff     bool
+	methodChoice int // index into the drop-down
+}
+
+type intervalModel struct {
+	e       IntervalExplorer
+	methods []proportions.IntervalMethod
+	tables  *tableCache
+}
+
+func (*intervalModel) name() string { return "interval" }
+func (*intervalModel) title() string {
+	return "Interval behaviour: exact coverage along a slice of true rates"
+}
+
+// choices lists the drop-down: each method, then all of them when they
+// share one family (coverage curves of different parameters on one chart
+// would invite comparing what is not comparable).
+func (m *intervalModel) choices() []string {
+	out := make([]string, 0, len(m.methods)+1)
+	same := true
+	for _, me := range m.methods {
+		out = append(out, me.Name)
+		same = same && me.Family == m.methods[0].Family
+	}
+	if same && len(m.methods) > 1 {
+		out = append(out, allMethods)
+	}
+	return out
+}
+
+func (m *intervalModel) controls() []control {
+	e := m.e
+	pct := func(p int) string { return strconv.Itoa(p) + "%" }
+	choices := m.choices()
+	start := len(choices) - 1
+	for i, me := range m.methods {
+		if me.Key == e.Method {
+			start = i
+		}
+	}
+	mode := 0
+	if e.HoldDifference {
+		mode = 1
+	}
+	return []control{
+		{key: "n1", label: "group 1 size n1", min: 1, max: e.maxN(), value: e.N1, show: strconv.Itoa},
+		{key: "n2", label: "group 2 size n2", min: 1, max: e.maxN(), value: e.N2, show: strconv.Itoa},
+		{key: "level", label: "confidence level", min: 160, max: 199, value: int(math.Round(200 * e.level())),
+			show: func(p int) string { return strconv.FormatFloat(float64(p)/2, 'f', -1, 64) + "%" }},
+		{key: "pi1", label: "true rate π1", min: 0, max: 100, value: int(math.Round(100 * e.Rate1)), show: pct},
+		{key: "hold", label: "along the slice, hold", options: []string{"π2 fixed", "difference π1 − π2 fixed"}, value: mode},
+		{key: "pi2", label: "true rate π2", min: 0, max: 100, value: int(math.Round(100 * e.Rate2)), show: pct},
+		{key: "diff", label: "difference π1 − π2", min: -99, max: 99, value: int(math.Round(100 * e.Difference)),
+			show: func(p int) string { return signedPP(float64(p) / 100) }},
+		{key: "method", label: "method", options: choices, value: start},
+	}
+}
+
+func (m *intervalModel) settings(pos []int) sliceSettings {
+	s := sliceSettings{n1: pos[0], n2: pos[1], level: float64(pos[2]) / 200,
+		pi1: float64(pos[3]) / 100, holdDiff: pos[4] == 1, methodChoice: pos[7]}
+	s.difference = float64(pos[6]) / 100
+	s.pi2 = float64(pos[5]) / 100
+	if s.holdDiff {
+		// Whole percentage points, so the point lies on the slice's grid.
+		s.pi2 = float64(pos[3]-pos[6]) / 100
+	}
+	return s
+}
+
+// shown returns the methods the drop-down selects.
+func (m *intervalModel) shown(s sliceSettings) []proportions.IntervalMethod {
+	if s.methodChoice >= len(m.methods) {
+		return m.methods
+	}
+	return m.methods[s.methodChoice : s.methodChoice+1]
+}
+
+// grid returns the slice's (π1, π2) points, one percentage point apart.
+func grid(s sliceSettings) (pi1, pi2 []float64) {
+	if !s.holdDiff {
+		for k := 0; k <= 100; k++ {
+			pi1 = append(pi1, float64(k)/100)
+			pi2 = append(pi2, s.pi2)
+		}
+		return pi1, pi2
+	}
+	d := int(math.Round(100 * s.difference))
+	for k := max(0, d); k <= min(100, 100+d); k++ {
+		pi1 = append(pi1, float64(k)/100)
+		pi2 = append(pi2, float64(k-d)/100)
+	}
+	return pi1, pi2
+}
+
+// slices computes every shown method's slice, the methods in parallel.
+func (m *intervalModel) slices(s sliceSettings) ([]CoverageSlice, error) {
+	d, err := exact.NewDesign(s.n1, s.n2, s.level)
+	if err != nil {
+		return nil, err
+	}
+	shown := m.shown(s)
+	out := make([]CoverageSlice, len(shown))
+	errs := make([]error, len(shown))
+	var wg sync.WaitGroup
+	for i, me := range shown {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			out[i], errs[i] = m.slice(me, d, s)
+		}()
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return nil, err
+		}
+	}
+	return out, nil
+}
+
+func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s sliceSettings) (CoverageSlice, error) {
+	t, err := m.tables.get(me, d)
+	if err != nil {
+		return CoverageSlice{}, err
+	}
+	pi1, pi2 := grid(s)
+	cs := CoverageSlice{Design: d, Key: me.Key, Name: me.Name, Family: me.Family, Points: make([]exact.Point, len(pi1)),
+		Min: math.Inf(1)}
+	if !s.holdDiff {
+		// One evaluation for the whole slice: π1 varies, π2 is one value.
+		sf, err := t.Surface(context.Background(), exact.WithGrid(pi1, pi2[:1]), exact.WithWorkers(1))
+		if err != nil {
+			return CoverageSlice{}, err
+		}
+		for k := range pi1 {
+			cs.Points[k] = sf.At(k, 0)
+		}
+	} else {
+		for k := range pi1 {
+			if cs.Points[k], err = t.At(pi1[k], pi2[k]); err != nil {
+				return CoverageSlice{}, err
+			}
+		}
+	}
+	var n int
+	for _, p := range cs.Points {
+		if samePoint(p, s.pi1, s.pi2) {
+			cs.At, cs.AtValid = p, p.Defined
+		}
+		if !p.Defined {
+			continue
+		}
+		n++
+		cs.Mean += p.Coverage
+		cs.MeanWidth += p.Width
+		if p.Coverage < cs.Min {
+			cs.Min, cs.MinPi1 = p.Coverage, p.Pi1
+		}
+	}
+	if n == 0 {
+		return CoverageSlice{}, fmt.Errorf("%s: %w; no point of the slice has a defined true value", me.Name, proportions.ErrEmptyInput)
+	}
+	cs.Mean /= float64(n)
+	cs.MeanWidth /= float64(n)
+	return cs, nil
+}
+
+func samePoint(p exact.Point, pi1, pi2 float64) bool {
+	return math.Abs(p.Pi1-pi1) < 1e-9 && math.Abs(p.Pi2-pi2) < 1e-9
+}
+
+// render computes the slices and shows the chart and the summary table.
+func (m *intervalModel) render(pos []int) Displayable {
+	s := m.settings(pos)
+	sl, err := m.slices(s)
+	if err != nil {
+		return message{kind: "interval", text: "No coverage for these settings: " + err.Error()}
+	}
+	ch, err := coverageSliceChart(sl, s)
+	if err != nil {
+		return message{kind: "interval", text: "The coverage chart cannot be drawn: " + err.Error()}
+	}
+	return views{ch, coverageSummary{slices: sl, s: s}}
+}
+
+// tableCache keeps the most recently used tables of limits, so that moving
+// a rate slider reuses them. It is owned by one explorer.
+type tableCache struct {
+	mu    sync.Mutex
+	limit int
+	order []string
+	byKey map[string]*exact.Table
+}
+
+func newTableCache(limit int) *tableCache {
+	return &tableCache{limit: max(limit, 4), byKey: map[string]*exact.Table{}}
+}
+
+func (c *tableCache) get(me proportions.IntervalMethod, d exact.Design) (*exact.Table, error) {
+	key := fmt.Sprintf("%s/%d/%d/%v", me.Key, d.N1, d.N2, d.Level)
+	c.mu.Lock()
+	if t, ok := c.byKey[key]; ok {
+		c.touch(key)
+		c.mu.Unlock()
+		return t, nil
+	}
+	c.mu.Unlock()
+	t, err := exact.NewTable(context.Background(), me, d)
+	if err != nil {
+		return nil, err
+	}
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if _, ok := c.byKey[key]; !ok {
+		c.byKey[key] = t
+		c.order = append(c.order, key)
+		for len(c.order) > c.limit {
+			delete(c.byKey, c.order[0])
+			c.order = c.order[1:]
+		}
+	}
+	return t, nil
+}
+
+// touch moves key to the most recently used end.
+func (c *tableCache) touch(key string) {
+	for i, k := range c.order {
+		if k == key {
+			c.order = append(append(c.order[:i:i], c.order[i+1:]...), key)
+			return
+		}
+	}
+}
