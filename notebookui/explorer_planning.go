@@ -256,7 +256,7 @@ func (p planFigures) JSON() ([]byte, error) {
 // trimPct prints a share as a percentage with at most one decimal
 // ("12.5%", "80%").
 func trimPct(v float64) string {
-	return strconv.FormatFloat(math.Round(v*1000)/10, 'f', -1, 64) + "%"
+	return strings.Replace(strconv.FormatFloat(math.Round(v*1000)/10, 'f', -1, 64), "-", minus, 1) + "%"
 }
 
 // signedPP prints a difference in percentage points with a sign and at
