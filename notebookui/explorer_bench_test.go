@@ -68,7 +68,9 @@ func benchmarkIntervalSizeChange(b *testing.B, method string) {
 
 // BenchmarkIntervalExplorerSizeChangeNewcombe: a change of n1 near 200, one
 // closed-form method.
-func BenchmarkIntervalExplorerSizeChangeNewcombe(b *testing.B) { benchmarkIntervalSizeChange(b, "newcombe") }
+func BenchmarkIntervalExplorerSizeChangeNewcombe(b *testing.B) {
+	benchmarkIntervalSizeChange(b, "newcombe")
+}
 
 // BenchmarkIntervalExplorerSizeChangeMee: a change of n1 near 200 with a
 // score method, whose limits are roots of a restricted-likelihood equation.

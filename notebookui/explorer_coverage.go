@@ -8,18 +8,8 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/go-echarts/go-echarts/v2/charts"
-	"github.com/go-echarts/go-echarts/v2/opts"
 	"github.com/propscope/propscope/proportions"
 )
-
-// coverageSliceTooltip lists every method's coverage at the π1 under the
-// pointer. Points are [π1, coverage, π2].
-const coverageSliceTooltip = `function (ps) {
-  var s = 'π1 = ' + pct(ps[0].value[0], 0) + ', π2 = ' + pct(ps[0].value[2], 0);
-  ps.forEach(function (p) { if (p.value[1] !== null) { s += '<br>' + p.marker + esc(p.seriesName) + ': ' + pct(p.value[1], 2); } });
-  return s;
-}`
 
 // sliceSubtitle describes the slice: the design and what is held.
 func sliceSubtitle(s sliceSettings) string {
@@ -30,79 +20,52 @@ func sliceSubtitle(s sliceSettings) string {
 	return fmt.Sprintf("n1 = %d, n2 = %d, %s level; %s", s.n1, s.n2, trimPct(s.level), held)
 }
 
-// coverageSliceChart draws the exact coverage of each method along the
-// slice against π1, with the nominal level as a labelled line and the
-// chosen π1 marked.
+// coverageSliceChart draws the slices with CoverageSliceChart and marks the
+// reader's point: a vertical line at its position along the slice and a
+// dot on each method's curve.
 func coverageSliceChart(sl []CoverageSlice, s sliceSettings) (*Chart, error) {
 	if len(sl) == 0 {
 		return nil, fmt.Errorf("coverage slice chart: %w: no method", errNoIntervals)
 	}
-	title := "Exact coverage along the slice"
-	subtitle := sliceSubtitle(s)
-	lowest := s.level
-	var series, legend []any
-	table := dataTable{Caption: "Exact coverage at every tenth point of the slice",
-		Header: []string{"method", "π1", "π2", "coverage", "interval entirely below the truth", "entirely above"}}
+	curves := make([]CoverageCurve, len(sl))
 	for i, c := range sl {
-		data := make([][]any, len(c.Points))
-		for k, p := range c.Points {
-			var cov any // null where the truth is not defined: a gap in the line
-			if p.Defined {
-				cov = p.Coverage
-				lowest = math.Min(lowest, p.Coverage)
-			}
-			data[k] = []any{p.Pi1, cov, p.Pi2}
-			if k%10 == 0 && p.Defined {
-				table.Rows = append(table.Rows, []string{c.Name, trimPct(p.Pi1), trimPct(p.Pi2), fmtPct(p.Coverage), fmtPct(p.Below), fmtPct(p.Above)})
-			}
+		curves[i] = CoverageCurve{Method: c.Key, Name: c.Name, Points: c.Points}
+	}
+	ch, err := CoverageSliceChart(sl[0].Design, curves, WithHeight(440))
+	if err != nil {
+		return nil, err
+	}
+	series, _ := ch.option["series"].([]any)
+	x, name := s.pi1, "π1 = "+trimPct(s.pi1)
+	if s.holdDiff { // the chart runs along π2 when the difference is held
+		x, name = s.pi2, "π2 = "+trimPct(s.pi2)
+	}
+	for i, c := range sl {
+		line, ok := series[i].(map[string]any)
+		if !ok {
+			continue
 		}
-		line := map[string]any{
-			"type": "line", "name": c.Name, "data": data, "showSymbol": false, "symbol": markerShape(i), "connectNulls": false,
-			"lineStyle": map[string]any{"color": paletteColor(i), "width": 1.8, "type": lineStyle(i)},
-			"itemStyle": map[string]any{"color": paletteColor(i)},
+		if i == 0 && x >= 0 && x <= 1 {
+			ml, _ := line["markLine"].(map[string]any)
+			if ml != nil {
+				data, _ := ml["data"].([]any)
+				ml["data"] = append(data, map[string]any{"xAxis": x, "name": "your point",
+					"lineStyle": map[string]any{"color": ColorVermillion, "type": "dotted", "width": 1.5},
+					"label":     map[string]any{"formatter": "your point: " + name, "position": "end", "color": ColorVermillion}})
+			}
 		}
 		if c.AtValid {
-			line["markPoint"] = map[string]any{"symbol": "circle", "symbolSize": 9, "data": []any{map[string]any{
-				"coord": []float64{c.At.Pi1, c.At.Coverage}, "name": c.Name, "value": fmtPct(c.At.Coverage),
-				"itemStyle": map[string]any{"color": paletteColor(i), "borderColor": "#fff", "borderWidth": 1},
+			line["markPoint"] = map[string]any{"symbol": "circle", "symbolSize": 10, "data": []any{map[string]any{
+				"coord": []float64{x, c.At.Coverage}, "name": c.Name, "value": fmtPct(c.At.Coverage),
+				"itemStyle": map[string]any{"color": paletteColor(i), "borderColor": "#ffffff", "borderWidth": 1.5},
 				"label":     map[string]any{"show": len(sl) == 1, "formatter": fmtPct(c.At.Coverage), "position": "top", "color": paletteColor(i)}}}}
 		}
-		if i == 0 {
-			line["markLine"] = sliceMarks(s)
-		}
-		series = append(series, line)
-		legend = append(legend, map[string]any{"name": c.Name, "icon": markerShape(i)})
 	}
-	yMin := math.Max(0, math.Floor((lowest-0.02)*50)/50)
-	ch := charts.NewLine()
-	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
-	ch.SetGlobalOptions(
-		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: 1, Name: axisName("true rate π1", "%"), NameLocation: "middle", NameGap: 30,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
-		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: yMin, Max: 1, Name: axisName("exact coverage", "%"), NameLocation: "middle", NameGap: 48,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
-	)
-	option := optionOf(ch)
-	option["series"] = series
-	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
-	notes := []string{fmt.Sprintf("Coverage is the chance that the interval contains the true value when the true rates are (π1, π2); "+
-		"it is computed exactly over every outcome of the design, not simulated. A good method stays close to the nominal %s "+
-		"without dipping far below it; its wiggles come from the discreteness of the counts.", trimPct(s.level))}
-	return newChart("coverage-slice", title, subtitle, 400, option, table, notes)
-}
-
-// sliceMarks draws the nominal level and the chosen π1.
-func sliceMarks(s sliceSettings) map[string]any {
-	return map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": []any{
-		map[string]any{"yAxis": s.level, "name": "nominal",
-			"lineStyle": map[string]any{"color": ColorGrey, "type": "dashed", "width": 1.5},
-			"label":     map[string]any{"formatter": "nominal " + trimPct(s.level), "position": "insideEndTop", "color": ColorGrey}},
-		map[string]any{"xAxis": s.pi1, "name": "your π1",
-			"lineStyle": map[string]any{"color": ColorVermillion, "type": "dotted", "width": 1.5},
-			"label":     map[string]any{"formatter": "π1 = " + trimPct(s.pi1), "position": "end", "color": ColorVermillion}},
-	}}
+	// The marks changed the content: derive the identifier again.
+	if ch.id, err = chartID(ch.kind, ch.option); err != nil {
+		return nil, err
+	}
+	return ch, nil
 }
 
 // coverageSummary is the table under the chart: per method the coverage

@@ -209,7 +209,7 @@ type intervalModel struct {
 
 func (*intervalModel) name() string { return "interval" }
 func (*intervalModel) title() string {
-	return "Interval behaviour: exact coverage along a slice of true rates"
+	return "Interval explorer: how the methods behave for this design"
 }
 
 // choices lists the drop-down: each method, then all of them when they

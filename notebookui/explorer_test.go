@@ -141,7 +141,7 @@ func TestIntervalExplorerFrameShowsTheNumbers(t *testing.T) {
 		t.Fatal(err)
 	}
 	html := f.HTML()
-	for _, want := range []string{`data-explorer="interval"`, `data-method="wald"`, `data-method="agresti-caffo"`, "nominal 95%", "π2 held at 25%", "Exact coverage along the slice"} {
+	for _, want := range []string{`data-explorer="interval"`, `data-method="wald"`, `data-method="agresti-caffo"`, "nominal 95%", "π2 held at 25%", "Exact coverage along a slice of true rates", "your point: π1 = 25%"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("frame HTML lacks %q", want)
 		}
