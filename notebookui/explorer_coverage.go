@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
 )
 
 // sliceSubtitle describes the slice: the design and what is held.
@@ -27,11 +28,11 @@ func coverageSliceChart(sl []CoverageSlice, s sliceSettings) (*Chart, error) {
 	if len(sl) == 0 {
 		return nil, fmt.Errorf("coverage slice chart: %w: no method", errNoIntervals)
 	}
-	curves := make([]CoverageCurve, len(sl))
+	slices := make([]*exact.Slice, len(sl))
 	for i, c := range sl {
-		curves[i] = CoverageCurve{Method: c.Key, Name: c.Name, Points: c.Points}
+		slices[i] = c.Slice
 	}
-	ch, err := CoverageSliceChart(sl[0].Design, curves, WithHeight(440))
+	ch, err := CoverageSliceChart(slices, WithHeight(440))
 	if err != nil {
 		return nil, err
 	}
@@ -85,19 +86,14 @@ func (c coverageSummary) header() []string {
 
 // cells are one method's figures as shown.
 func (c coverageSummary) cells(sl CoverageSlice) []string {
-	width := func(w float64) string {
-		if sl.Family == proportions.Difference {
-			return strings.TrimPrefix(fmtPP(w), "+")
-		}
-		return strconv.FormatFloat(w, 'f', 3, 64) + " (log scale)"
-	}
+	width := func(w float64) string { return strings.TrimPrefix(fmtPP(w), "+") }
 	at, atWidth := "not on the slice", "—"
 	if sl.AtValid {
 		at, atWidth = fmtPct(sl.At.Coverage), width(sl.At.Width)
 	} else if c.s.pi2 < 0 || c.s.pi2 > 1 {
 		at = fmt.Sprintf("π2 would be %s: not a rate", trimPct(c.s.pi2))
 	}
-	return []string{sl.Name, at, fmt.Sprintf("%s at π1 = %s", fmtPct(sl.Min), trimPct(sl.MinPi1)), fmtPct(sl.Mean), atWidth, width(sl.MeanWidth)}
+	return []string{sl.Name, at, fmt.Sprintf("%s at π1 = %s, π2 = %s", fmtPct(sl.Min), trimPct(sl.MinPi1), trimPct(sl.MinPi2)), fmtPct(sl.Mean), atWidth, width(sl.MeanWidth)}
 }
 
 func (c coverageSummary) HTML() string {
@@ -153,6 +149,7 @@ func (c coverageSummary) JSON() ([]byte, error) {
 		OnSlice   bool                  `json:"point_on_slice"`
 		Min       float64               `json:"min"`
 		MinPi1    float64               `json:"min_pi1"`
+		MinPi2    float64               `json:"min_pi2"`
 		Mean      float64               `json:"mean"`
 		Width     proportions.JSONFloat `json:"width_at_point"`
 		MeanWidth proportions.JSONFloat `json:"mean_width"`
@@ -163,7 +160,7 @@ func (c coverageSummary) JSON() ([]byte, error) {
 		if sl.AtValid {
 			cov, w = sl.At.Coverage, sl.At.Width
 		}
-		rows[i] = row{sl.Key, sl.Name, proportions.JSONFloat(cov), sl.AtValid, sl.Min, sl.MinPi1, sl.Mean, proportions.JSONFloat(w), proportions.JSONFloat(sl.MeanWidth)}
+		rows[i] = row{sl.Key, sl.Name, proportions.JSONFloat(cov), sl.AtValid, sl.Min, sl.MinPi1, sl.MinPi2, sl.Mean, proportions.JSONFloat(w), proportions.JSONFloat(sl.MeanWidth)}
 	}
 	return json.Marshal(map[string]any{"kind": "coverage-summary", "slice": sliceSubtitle(c.s), "pi1": c.s.pi1, "pi2": c.s.pi2, "methods": rows})
 }

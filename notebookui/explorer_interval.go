@@ -40,9 +40,9 @@ type IntervalExplorer struct {
 	// HoldDifference starts the explorer with the slice at a fixed
 	// difference rather than at a fixed π2.
 	HoldDifference bool
-	// Methods are the keys of the interval methods offered (default:
-	// every registered method for the difference). The drop-down offers
-	// each, and all of them together when they share a family.
+	// Methods are the keys of the interval methods for the difference
+	// offered (default: every registered one). The drop-down offers each,
+	// and all of them together.
 	Methods []string
 	// Method is the key of the method shown first; "" shows all.
 	Method string
@@ -84,6 +84,10 @@ func (e IntervalExplorer) methods() ([]proportions.IntervalMethod, error) {
 		m, err := proportions.LookupInterval(k)
 		if err != nil {
 			return nil, fmt.Errorf("interval explorer: %w", err)
+		}
+		if m.Family != proportions.Difference {
+			return nil, fmt.Errorf("interval explorer: %s is a method for the %s: %w; the explorer compares methods for the difference π1 − π2 (draw the others with CoverageSliceChart or CoverageMapChart)",
+				m.Name, m.Family, proportions.ErrUnsupported)
 		}
 		out = append(out, m)
 	}
@@ -167,26 +171,23 @@ func (e IntervalExplorer) model() (*intervalModel, error) {
 }
 
 // CoverageSlice is the exact coverage of one interval method along a
-// slice of true rates, with its summary.
+// slice of true rates (as computed by the exact engine), with its summary.
 type CoverageSlice struct {
-	Design exact.Design `json:"design"`
-	Key    string       `json:"method"`
-	Name   string       `json:"name"`
-	// Family is the method's parameter; widths are on the log scale for
-	// the ratio and the odds ratio.
-	Family proportions.Family `json:"family"`
-	// Points are the slice's points in order of π1 (undefined truths
-	// included, with Defined false).
-	Points []exact.Point `json:"points"`
+	// Slice holds the points: along π1 at a fixed π2, or along π2 at a
+	// fixed difference.
+	Slice *exact.Slice `json:"slice"`
+	Key   string       `json:"method"`
+	Name  string       `json:"name"`
 	// At is the point the reader chose, when it lies on the slice.
 	At      exact.Point `json:"at"`
 	AtValid bool        `json:"at_valid"`
-	// Min and MinPi1 are the lowest coverage along the slice and the π1
-	// where it occurs (the first, in order of π1); Mean is the average
+	// Min is the lowest coverage along the slice, at (MinPi1, MinPi2)
+	// (the first such point along the slice); Mean is the average
 	// coverage and MeanWidth the average expected width over the points
 	// with a defined truth.
 	Min       float64 `json:"min"`
 	MinPi1    float64 `json:"min_pi1"`
+	MinPi2    float64 `json:"min_pi2"`
 	Mean      float64 `json:"mean"`
 	MeanWidth float64 `json:"mean_width"`
 }
@@ -212,17 +213,13 @@ func (*intervalModel) title() string {
 	return "Interval explorer: how the methods behave for this design"
 }
 
-// choices lists the drop-down: each method, then all of them when they
-// share one family (coverage curves of different parameters on one chart
-// would invite comparing what is not comparable).
+// choices lists the drop-down: each method, then all of them.
 func (m *intervalModel) choices() []string {
 	out := make([]string, 0, len(m.methods)+1)
-	same := true
 	for _, me := range m.methods {
 		out = append(out, me.Name)
-		same = same && me.Family == m.methods[0].Family
 	}
-	if same && len(m.methods) > 1 {
+	if len(m.methods) > 1 {
 		out = append(out, allMethods)
 	}
 	return out
@@ -276,23 +273,6 @@ func (m *intervalModel) shown(s sliceSettings) []proportions.IntervalMethod {
 	return m.methods[s.methodChoice : s.methodChoice+1]
 }
 
-// grid returns the slice's (π1, π2) points, one percentage point apart.
-func grid(s sliceSettings) (pi1, pi2 []float64) {
-	if !s.holdDiff {
-		for k := 0; k <= 100; k++ {
-			pi1 = append(pi1, float64(k)/100)
-			pi2 = append(pi2, s.pi2)
-		}
-		return pi1, pi2
-	}
-	d := int(math.Round(100 * s.difference))
-	for k := max(0, d); k <= min(100, 100+d); k++ {
-		pi1 = append(pi1, float64(k)/100)
-		pi2 = append(pi2, float64(k-d)/100)
-	}
-	return pi1, pi2
-}
-
 // slices computes every shown method's slice, the methods in parallel.
 func (m *intervalModel) slices(s sliceSettings) ([]CoverageSlice, error) {
 	d, err := exact.NewDesign(s.n1, s.n2, s.level)
@@ -324,27 +304,22 @@ func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s s
 	if err != nil {
 		return CoverageSlice{}, err
 	}
-	pi1, pi2 := grid(s)
-	cs := CoverageSlice{Design: d, Key: me.Key, Name: me.Name, Family: me.Family, Points: make([]exact.Point, len(pi1)),
-		Min: math.Inf(1)}
-	if !s.holdDiff {
-		// One evaluation for the whole slice: π1 varies, π2 is one value.
-		sf, err := t.Surface(context.Background(), exact.WithGrid(pi1, pi2[:1]), exact.WithWorkers(1))
-		if err != nil {
-			return CoverageSlice{}, err
-		}
-		for k := range pi1 {
-			cs.Points[k] = sf.At(k, 0)
-		}
+	ctx := context.Background()
+	// The methods already run in parallel: one worker each.
+	var es *exact.Slice
+	if s.holdDiff {
+		// π2 over its whole range in steps of one percentage point.
+		k := int(math.Round(100*(1-math.Abs(s.difference)))) + 1
+		es, err = t.AlongEffect(ctx, s.difference, exact.WithSteps(k), exact.WithWorkers(1))
 	} else {
-		for k := range pi1 {
-			if cs.Points[k], err = t.At(pi1[k], pi2[k]); err != nil {
-				return CoverageSlice{}, err
-			}
-		}
+		es, err = t.AlongFirst(ctx, s.pi2, exact.WithSteps(101), exact.WithWorkers(1))
 	}
+	if err != nil {
+		return CoverageSlice{}, err
+	}
+	cs := CoverageSlice{Slice: es, Key: me.Key, Name: me.Name, Min: math.Inf(1)}
 	var n int
-	for _, p := range cs.Points {
+	for _, p := range es.Points {
 		if samePoint(p, s.pi1, s.pi2) {
 			cs.At, cs.AtValid = p, p.Defined
 		}
@@ -355,7 +330,7 @@ func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s s
 		cs.Mean += p.Coverage
 		cs.MeanWidth += p.Width
 		if p.Coverage < cs.Min {
-			cs.Min, cs.MinPi1 = p.Coverage, p.Pi1
+			cs.Min, cs.MinPi1, cs.MinPi2 = p.Coverage, p.Pi1, p.Pi2
 		}
 	}
 	if n == 0 {

@@ -74,11 +74,11 @@ func TestIntervalExplorerSliceMatchesEnumeration(t *testing.T) {
 		t.Fatalf("want the Wald slice only, got %d slices", len(sl))
 	}
 	s := sl[0]
-	if len(s.Points) != 101 {
-		t.Fatalf("slice with π2 held: want 101 points (π1 = 0, 1, …, 100%%), got %d", len(s.Points))
+	if len(s.Slice.Points) != 101 {
+		t.Fatalf("slice with π2 held: want 101 points (π1 = 0, 1, …, 100%%), got %d", len(s.Slice.Points))
 	}
 	var sum, lowest float64 = 0, 2
-	for k, p := range s.Points {
+	for k, p := range s.Slice.Points {
 		want := bruteCoverage(waldLimits, 25, 30, 0.95, float64(k)/100, 0.2)
 		if p.Pi2 != 0.2 || math.Abs(p.Pi1-float64(k)/100) > 1e-12 {
 			t.Fatalf("point %d at (%v, %v), want (%v, 0.2)", k, p.Pi1, p.Pi2, float64(k)/100)
@@ -114,16 +114,16 @@ func TestIntervalExplorerHoldDifference(t *testing.T) {
 	}
 	s := sl[0]
 	// π1 from 10% to 100% in whole points, π2 = π1 − 10 points.
-	if len(s.Points) != 91 {
-		t.Fatalf("want 91 points, got %d", len(s.Points))
+	if len(s.Slice.Points) != 91 {
+		t.Fatalf("want 91 points, got %d", len(s.Slice.Points))
 	}
-	for _, p := range s.Points {
+	for _, p := range s.Slice.Points {
 		if math.Abs(p.Pi1-p.Pi2-0.1) > 1e-9 || p.Pi2 < 0 || p.Pi1 > 1 {
 			t.Fatalf("point (%v, %v) is not on the line π1 − π2 = 0.1", p.Pi1, p.Pi2)
 		}
 	}
 	for _, k := range []int{0, 17, 40, 90} {
-		p := s.Points[k]
+		p := s.Slice.Points[k]
 		want := bruteCoverage(nc.Limits, 20, 20, 0.9, p.Pi1, p.Pi2)
 		if math.Abs(p.Coverage-want) > 1e-9 {
 			t.Errorf("Newcombe coverage at (%v, %v): %v, enumeration %v", p.Pi1, p.Pi2, p.Coverage, want)
@@ -190,6 +190,7 @@ func TestIntervalExplorerRejectsBadSettings(t *testing.T) {
 		{IntervalExplorer{N1: 10, N2: 10, Level: 0.5}, proportions.ErrLevel},
 		{IntervalExplorer{N1: 10, N2: 10, Rate1: 1.5}, proportions.ErrDesign},
 		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"no-such"}}, proportions.ErrUnknownMethod},
+		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"katz"}}, proportions.ErrUnsupported},
 		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"wald"}, Method: "mee"}, proportions.ErrUnknownMethod},
 	}
 	for _, c := range cases {
