@@ -39,3 +39,14 @@ func BenchmarkWaldTable500(b *testing.B) {
 		}
 	}
 }
+
+// BenchmarkMiettinenNurminenSurface500 is the second speed target: the
+// Miettinen–Nurminen coverage surface at n1 = n2 = 500 including all
+// 251,001 interval computations (target < 0.25 s on 2 cores).
+func BenchmarkMiettinenNurminenSurface500(b *testing.B) {
+	m, err := proportions.LookupInterval("miettinen-nurminen")
+	if err != nil {
+		b.Skip("Miettinen–Nurminen interval not registered")
+	}
+	benchSurface(b, m, 500)
+}
