@@ -31,6 +31,15 @@ type IntervalMethod struct {
 	// about a second or less; 0 means no limit. Analyze skips a method above
 	// its limit and says so in a warning instead of hanging.
 	SizeLimit int64 `json:"size_limit,omitempty"`
+	// Symmetric declares that the method treats the two groups alike and
+	// events and non-events alike: exchanging the groups (x1, n1) and
+	// (x2, n2), or counting non-events in both groups (difference and odds
+	// ratio only), turns the interval (L, U) into its mirror image, (−U, −L)
+	// for the difference and (1/U, 1/L) for the ratio and the odds ratio.
+	// The exact coverage engine (proportions/exact) then computes one
+	// outcome of each mirror set, up to 4 times fewer; its tests check the
+	// claim for every registered method.
+	Symmetric bool `json:"symmetric,omitempty"`
 	// Limits computes the raw (unclipped) limits for valid counts at the
 	// given confidence. It must not allocate and must never return NaN:
 	// it is called for every outcome of a design by the coverage engine.

@@ -15,6 +15,7 @@ var WaldCC = IntervalMethod{
 	Family:     Difference,
 	Citation:   "Newcombe RG (1998). Interval estimation for the difference between independent proportions: comparison of eleven methods. Statistics in Medicine 17:873–890 (method 2).",
 	Definition: "p1 − p2 ± (z·√(p1(1−p1)/n1 + p2(1−p2)/n2) + (1/n1 + 1/n2)/2)",
+	Symmetric:  true,
 	Limits:     waldCCLimits,
 }
 

@@ -117,6 +117,10 @@ func closePoints(t *testing.T, what string, got, want Point, tol float64) {
 		return
 	}
 	check := func(name string, g, w float64) {
+		tol := tol
+		if name == "width" {
+			tol = max(tol, 1e-8)
+		}
 		if !(math.Abs(g-w) <= tol*math.Max(1, math.Abs(w))) && !(math.IsInf(g, 1) && math.IsInf(w, 1)) {
 			t.Errorf("%s: %s = %.15g, brute force %.15g", what, name, g, w)
 		}
@@ -124,7 +128,13 @@ func closePoints(t *testing.T, what string, got, want Point, tol float64) {
 	check("coverage", got.Coverage, want.Coverage)
 	check("below", got.Below, want.Below)
 	check("above", got.Above, want.Above)
+	// The engine copies the mirror images of a Symmetric method's
+	// intervals; the score intervals' root searches make a direct
+	// computation differ from the mirror image by up to about 1e-9, which
+	// moves expected widths by as much (coverage would move only if a
+	// limit fell that close to the truth).
 	check("width", got.Width, want.Width)
+
 	check("unbounded", got.Unbounded, want.Unbounded)
 }
 
@@ -136,7 +146,7 @@ func closePoints(t *testing.T, what string, got, want Point, tol float64) {
 func TestAgainstBruteForce(t *testing.T) {
 	methods := append(proportions.AllIntervalMethods(), zigzag, zigzagRatio)
 	grid := []float64{0, 0.003, 0.1, 0.25, 0.5, 0.5, 0.77, 0.95, 1}
-	for _, d := range []Design{{N1: 7, N2: 11, Level: 0.95}, {N1: 20, N2: 13, Level: 0.9}} {
+	for _, d := range []Design{{N1: 7, N2: 11, Level: 0.95}, {N1: 20, N2: 13, Level: 0.9}, {N1: 10, N2: 10, Level: 0.95}} {
 		for _, m := range methods {
 			tab, err := NewTable(context.Background(), m, d)
 			if err != nil {

@@ -39,7 +39,10 @@ type Table struct {
 
 // NewTable computes the limits of method m for every outcome of the design,
 // on every core (or WithWorkers), and checks that they are numbers with
-// lower ≤ upper. It reads the options WithProgress (rows done out of n1+1)
+// lower ≤ upper. For a method declared Symmetric it computes one outcome
+// of each mirror set and copies the mirror images (see
+// proportions.IntervalMethod.Symmetric): half of the outcomes, a quarter
+// when n1 = n2 on the difference and odds-ratio scales. It reads the options WithProgress (rows done out of n1+1)
 // and WithWorkers, and stops early with ctx's error when ctx is cancelled.
 // Memory: 24·(n1+1)·(n2+1) bytes, 24 MB at 1000 per group.
 func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...Option) (*Table, error) {
@@ -65,12 +68,17 @@ func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts 
 	}
 	rowCuts := make([][]int32, d.N1+1)
 	rep := newReporter(cfg.progress, d.N1+1)
+	sym := t.symmetries()
+	// First the outcomes that stand for their mirror sets, then the rest.
 	err = parallel(ctx, cfg.workers, d.N1+1, func(x1 int) error {
-		cuts, err := t.fillRow(x1)
-		if err != nil {
-			return err
-		}
-		rowCuts[x1] = cuts
+		return t.computeRow(x1, sym)
+	})
+	if err != nil {
+		return nil, err
+	}
+	err = parallel(ctx, cfg.workers, d.N1+1, func(x1 int) error {
+		t.mirrorRow(x1, sym)
+		rowCuts[x1] = t.finishRow(x1)
 		rep.add(1)
 		return nil
 	})
@@ -109,39 +117,122 @@ func (t *Table) Limits(x1, x2 int) (lower, upper float64) {
 // (n1+1 when every row is a single piece).
 func (t *Table) Pieces() int { return len(t.cuts) - (t.n1 + 1) }
 
-// fillRow computes row x1's limits and widths and cuts it into pieces
-// where either limit rises with x2.
-func (t *Table) fillRow(x1 int) ([]int32, error) {
+// symmetry says which mirror images of an outcome the method's Symmetric
+// declaration lets the table copy instead of compute.
+type symmetry struct {
+	swap       bool // (x1, x2) ↔ (x2, x1), when n1 = n2
+	complement bool // (x1, x2) ↔ (n1 − x1, n2 − x2), difference and odds ratio
+}
+
+func (t *Table) symmetries() symmetry {
+	if !t.method.Symmetric {
+		return symmetry{}
+	}
+	return symmetry{swap: t.n1 == t.n2, complement: t.method.Family != proportions.Ratio}
+}
+
+// source returns the outcome whose limits give those of (x1, x2) — the
+// first of its mirror set in table order — and whether they are mirrored
+// (exchanging the groups and counting non-events each mirror the interval;
+// doing both gives it back unchanged).
+func (t *Table) source(x1, x2 int, sym symmetry) (s1, s2 int, mirrored bool) {
+	s1, s2 = x1, x2
+	better := func(y1, y2 int, m bool) {
+		if y1 < s1 || y1 == s1 && y2 < s2 {
+			s1, s2, mirrored = y1, y2, m
+		}
+	}
+	if sym.complement {
+		better(t.n1-x1, t.n2-x2, true)
+	}
+	if sym.swap {
+		better(x2, x1, true)
+		if sym.complement {
+			better(t.n2-x2, t.n1-x1, false)
+		}
+	}
+	return s1, s2, mirrored
+}
+
+// computeRow calls the method for the outcomes of row x1 that stand for
+// their mirror sets, and checks the limits.
+func (t *Table) computeRow(x1 int, sym symmetry) error {
 	c := proportions.Counts{X1: int64(x1), N1: int64(t.n1), N2: int64(t.n2)}
+	base := x1 * t.stride
+	for x2 := 0; x2 <= t.n2; x2++ {
+		if s1, s2, _ := t.source(x1, x2, sym); s1 != x1 || s2 != x2 {
+			continue
+		}
+		c.X2 = int64(x2)
+		lo, hi := t.method.Limits(c, t.conf)
+		if !(lo <= hi) { // also catches NaN
+			return fmt.Errorf("interval method %q gave limits (%v, %v) at %d/%d vs %d/%d; the engine needs numbers with lower ≤ upper",
+				t.method.Key, lo, hi, x1, t.n1, x2, t.n2)
+		}
+		t.lower[base+x2], t.upper[base+x2] = lo, hi
+	}
+	return nil
+}
+
+// mirrorRow copies the limits of row x1's other outcomes from the outcomes
+// that stand for them.
+func (t *Table) mirrorRow(x1 int, sym symmetry) {
+	if sym == (symmetry{}) {
+		return
+	}
+	base := x1 * t.stride
+	for x2 := 0; x2 <= t.n2; x2++ {
+		s1, s2, mirrored := t.source(x1, x2, sym)
+		if s1 == x1 && s2 == x2 {
+			continue
+		}
+		k := s1*t.stride + s2
+		lo, hi := t.lower[k], t.upper[k]
+		if mirrored {
+			lo, hi = t.mirror(lo, hi)
+		}
+		t.lower[base+x2], t.upper[base+x2] = lo, hi
+	}
+}
+
+// mirror returns the mirror image of an interval: (−U, −L) for the
+// difference, (1/U, 1/L) for the ratio families (1/0 = ∞, 1/∞ = 0).
+func (t *Table) mirror(lo, hi float64) (float64, float64) {
+	if t.method.Family == proportions.Difference {
+		return -hi, -lo
+	}
+	inv := func(v float64) float64 {
+		switch {
+		case v <= 0:
+			return math.Inf(1)
+		case math.IsInf(v, 1):
+			return 0
+		}
+		return 1 / v
+	}
+	return inv(hi), inv(lo)
+}
+
+// finishRow computes row x1's reported widths and cuts it into pieces
+// where either limit rises with x2.
+func (t *Table) finishRow(x1 int) []int32 {
 	base := x1 * t.stride
 	lower, upper, width := t.lower[base:base+t.stride], t.upper[base:base+t.stride], t.width[base:base+t.stride]
 	difference := t.method.Family == proportions.Difference
 	cuts := []int32{0}
-	for x2 := range lower {
-		c.X2 = int64(x2)
-		lo, hi := t.method.Limits(c, t.conf)
-		if !(lo <= hi) { // also catches NaN
-			return nil, fmt.Errorf("interval method %q gave limits (%v, %v) at %d/%d vs %d/%d; the engine needs numbers with lower ≤ upper",
-				t.method.Key, lo, hi, x1, t.n1, x2, t.n2)
+	for x2, lo := range lower {
+		hi := upper[x2]
+		if x2 > 0 && (lo > lower[x2-1] || hi > upper[x2-1]) {
+			cuts = append(cuts, int32(x2))
 		}
-		lower[x2], upper[x2] = lo, hi
 		if difference {
 			// The reported interval is clipped to [−1, 1].
-			if lo < -1 {
-				lo = -1
-			}
-			if hi > 1 {
-				hi = 1
-			}
-			width[x2] = hi - lo
+			width[x2] = min(hi, 1) - max(lo, -1)
 		} else {
 			width[x2] = t.reportedWidth(lo, hi)
 		}
-		if x2 > 0 && (lower[x2] > lower[x2-1] || upper[x2] > upper[x2-1]) {
-			cuts = append(cuts, int32(x2))
-		}
 	}
-	return append(cuts, int32(t.stride)), nil
+	return append(cuts, int32(t.stride))
 }
 
 // reportedWidth is the width of the clipped interval: U − L for the
