@@ -88,7 +88,7 @@ func fitMinority(c Counts, delta float64) restrictedFit {
 	// Far from the edges the closed form is accurate to about √ε at worst,
 	// so its root inside the range is the maximum; near an edge the sign
 	// of the likelihood equation there decides.
-	if start-lo < edgeMargin || hi-start < edgeMargin {
+	if !(start-lo >= edgeMargin && hi-start >= edgeMargin) { // also when NaN
 		if likelihoodSlope(c, lo, uLo) <= 0 {
 			return edgeFit(lo, uLo, delta > 0)
 		}
@@ -144,11 +144,31 @@ func curvature(k int64, den float64) float64 {
 // it goes from positive to negative, by Newton steps from start kept inside
 // a shrinking bracket (bisecting when a step would leave it). From the
 // closed-form start one step usually suffices.
+//
+// The likelihood equation has poles at the edges (x1/t at t = 0, x2/u at
+// u = 0, ...), and Newton steps overshoot across a pole when the root sits
+// next to it (one event in 10¹¹ trials). So the steps are taken on the
+// equation multiplied by the factors that vanish at the nearer edge (t or
+// u at the lower edge, 1 − t or 1 − u at the upper), which has the same
+// sign and root but no pole there: with w that product, the step
+// −(w·S)/(w·S)′ is S/(−S′ − S·w′/w).
 func solveLikelihood(c Counts, delta, lo, hi, start float64) float64 {
+	// The root is on the side of the pooled guess (x1 + x2 + n2·δ)/N, the
+	// estimate of π1 that matches the total count of events under π2 = π1 − δ.
+	guess := (float64(c.X1) + float64(c.X2) + float64(c.N2)*delta) / (float64(c.N1) + float64(c.N2))
+	nearLo := guess-lo <= hi-guess
 	t := start
 	if !(t > lo && t < hi) {
-		t = lo + (hi-lo)/2
+		// Rounding put the closed form outside the range: the root is near
+		// an edge, where the weighted steps below are close to linear.
+		t = math.Max(lo, math.Min(hi, guess))
+		if !(t > lo && t < hi) {
+			t = lo + (hi-lo)/2
+		}
 	}
+	// Which pole factors vanish at the nearer edge (and have a count).
+	poleT := nearLo && delta <= 0 && c.X1 > 0 || !nearLo && delta >= 0 && c.N1 > c.X1
+	poleU := nearLo && delta >= 0 && c.X2 > 0 || !nearLo && delta <= 0 && c.N2 > c.X2
 	a, b := lo, hi
 	for range 200 {
 		u := t - delta
@@ -161,8 +181,22 @@ func solveLikelihood(c Counts, delta, lo, hi, start float64) float64 {
 		default:
 			return t
 		}
-		ds := curvature(c.X1, t) + curvature(c.N1-c.X1, 1-t) + curvature(c.X2, u) + curvature(c.N2-c.X2, 1-u)
-		step := s / ds
+		// −S′ and w′/w.
+		curv := curvature(c.X1, t) + curvature(c.N1-c.X1, 1-t) + curvature(c.X2, u) + curvature(c.N2-c.X2, 1-u)
+		var dlogw float64
+		switch {
+		case nearLo && poleT:
+			dlogw += 1 / t
+		case !nearLo && poleT:
+			dlogw -= 1 / (1 - t)
+		}
+		switch {
+		case nearLo && poleU:
+			dlogw += 1 / u
+		case !nearLo && poleU:
+			dlogw -= 1 / (1 - u)
+		}
+		step := s / (curv - s*dlogw)
 		scale := math.Min(math.Min(t-lo, hi-t), math.Min(t, 1-t))
 		if math.Abs(step) <= 1e-12*scale || math.Abs(step) <= 4e-16*t {
 			// Converged, or the step is within a few units in the last
@@ -173,6 +207,9 @@ func solveLikelihood(c Counts, delta, lo, hi, start float64) float64 {
 		next := t + step
 		if !(next > a && next < b) {
 			next = a + (b-a)/2
+		}
+		if next == t || next == a || next == b {
+			return t // the bracket is down to adjacent floats
 		}
 		t = next
 	}
