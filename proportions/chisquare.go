@@ -19,6 +19,9 @@ import "math"
 // sign(p1 − p2)·√X² with its normal one-sided tail (DF is then 0), the
 // usual one-sided version of the test.
 //
+// Yates' continuity-corrected variant is the separate, opt-in test Yates
+// (off by default because the correction makes the test conservative).
+//
 // Degenerate case: when every unit has the same outcome (no events at all,
 // or no non-events) an expected count is 0 and X² is 0/0; it is defined as
 // X² = 0, p = 1. The test applies only to δ = 0.
