@@ -36,6 +36,7 @@ var BaptistaPike = IntervalMethod{
 	Key:           "baptista-pike",
 	Name:          "Baptista–Pike exact",
 	Family:        OddsRatio,
+	Symmetric:     true,
 	Citation:      "Baptista J, Pike MC (1977). Exact two-sided confidence limits for the odds ratio in a 2×2 table. Journal of the Royal Statistical Society C (Applied Statistics) 26:214–220.",
 	Definition:    "all ψ at which the total probability of the tables no more probable than the observed one, under the noncentral hypergeometric distribution given the margins, exceeds α; estimate: conditional maximum likelihood",
 	Exact:         true,

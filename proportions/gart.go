@@ -20,6 +20,7 @@ var GartAdjusted = IntervalMethod{
 	Key:        "gart",
 	Name:       "Gart adjusted logit",
 	Family:     OddsRatio,
+	Symmetric:  true,
 	Citation:   "Gart JJ (1966). Alternative analyses of contingency tables. Journal of the Royal Statistical Society B 28:164–179.",
 	Definition: "exp(log((a+½)(d+½)/((b+½)(c+½))) ± z·√(1/(a+½) + 1/(b+½) + 1/(c+½) + 1/(d+½))), a = x1, b = n1 − x1, c = x2, d = n2 − x2",
 	Limits:     gartLimits,

@@ -19,6 +19,7 @@ var Katz = IntervalMethod{
 	Key:        "katz",
 	Name:       "Katz log",
 	Family:     Ratio,
+	Symmetric:  true,
 	Citation:   "Katz D, Baptista J, Azen SP, Pike MC (1978). Obtaining confidence intervals for the risk ratio in cohort studies. Biometrics 34:469–474.",
 	Definition: "exp(log(p1/p2) ± z·√(1/x1 − 1/n1 + 1/x2 − 1/n2)); [0, ∞] when a group has no events",
 	Limits:     katzLimits,

@@ -25,6 +25,7 @@ var KatzZeroAdjusted = IntervalMethod{
 	Key:        "katz-zero-adjusted",
 	Name:       "Katz log, ½ added at zero events",
 	Family:     Ratio,
+	Symmetric:  true,
 	Citation:   "Katz D, Baptista J, Azen SP, Pike MC (1978). Obtaining confidence intervals for the risk ratio in cohort studies. Biometrics 34:469–474; ½ correction: Haldane JBS (1956). Annals of Human Genetics 20:309–311.",
 	Definition: "Katz log interval; when a group has no events, ½ is first added to all four cells (x+½ events of n+1 trials in each group)",
 	Limits:     katzZeroAdjustedLimits,

@@ -20,6 +20,7 @@ var Koopman = IntervalMethod{
 	Key:        "koopman",
 	Name:       "Koopman asymptotic score",
 	Family:     Ratio,
+	Symmetric:  true,
 	Citation:   "Koopman PAR (1984). Confidence intervals for the ratio of two binomial proportions. Biometrics 40:513–517.",
 	Definition: "all θ with (x1 − n1p̃1)²/(n1p̃1(1−p̃1)) + (x2 − n2p̃2)²/(n2p̃2(1−p̃2)) ≤ z², p̃ the maximum-likelihood estimates under π1 = θ·π2",
 	Limits:     koopmanLimits,

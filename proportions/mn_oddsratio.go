@@ -43,6 +43,7 @@ var MiettinenNurminenOddsRatio = IntervalMethod{
 	Key:        "mn-odds-ratio",
 	Name:       "Miettinen–Nurminen score (odds ratio)",
 	Family:     OddsRatio,
+	Symmetric:  true,
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "all ψ with (x1 − n1p̃1)²·((N−1)/N)·(1/(n1p̃1(1−p̃1)) + 1/(n2p̃2(1−p̃2))) ≤ z², p̃ the maximum-likelihood estimates under odds ratio ψ",
 	Limits:     mnOddsRatioLimits,

@@ -19,6 +19,7 @@ var Woolf = IntervalMethod{
 	Key:        "woolf",
 	Name:       "Woolf logit",
 	Family:     OddsRatio,
+	Symmetric:  true,
 	Citation:   "Woolf B (1955). On estimating the relation between blood group and disease. Annals of Human Genetics 19:251–253.",
 	Definition: "exp(log(ad/(bc)) ± z·√(1/a + 1/b + 1/c + 1/d)) with a = x1, b = n1 − x1, c = x2, d = n2 − x2; [0, ∞] when a cell is zero",
 	Limits:     woolfLimits,
