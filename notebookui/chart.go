@@ -190,7 +190,7 @@ func (c *Chart) HTML() string {
 		return `<div class="propscope-chart-error">` + html.EscapeString(err.Error()) + `</div>`
 	}
 	var b strings.Builder
-	fmt.Fprintf(&b, `<figure class="propscope-chart" data-kind="%s" style="margin:0.75em 0;max-width:860px;">`, html.EscapeString(c.kind))
+	fmt.Fprintf(&b, `<figure class="propscope-chart" data-kind="%s" style="margin:0.75em 0;max-width:860px;overflow:hidden;">`, html.EscapeString(c.kind))
 	fmt.Fprintf(&b, `<div id="%s" data-propscope-chart="%s" role="img" aria-label="%s" style="width:100%%;height:%dpx;"></div>`,
 		c.id, c.id, html.EscapeString(c.ariaLabel()), c.height)
 	if len(c.notes) > 0 || len(c.table.Rows) > 0 {

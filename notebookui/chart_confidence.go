@@ -220,7 +220,7 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 	option := optionOf(ch)
 	viewLo, viewHi, _ := niceRange(cc.ViewLower, cc.ViewUpper, -1, 1)
 	option["dataZoom"] = s.zoom(viewLo, viewHi, ppAxisLabel)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(curveTooltip),
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(curveTooltip),
 		"axisPointer": map[string]any{"type": "line"}}
 	ivLabel := fmt.Sprintf("%s interval", fmtLevel(cc.Level))
 	curve := map[string]any{
@@ -238,7 +238,7 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 				map[string]any{"yAxis": alpha, "name": "α", "lineStyle": map[string]any{"color": ColorVermillion, "type": "dashed", "width": 1.5},
 					"label": map[string]any{"formatter": "α = " + fmtP(alpha), "position": "insideEndTop", "color": ColorVermillion}},
 				map[string]any{"xAxis": cc.Lower, "name": "lower", "lineStyle": map[string]any{"color": ColorBlue, "type": "dotted", "width": 1.5},
-					"label": map[string]any{"formatter": "lower " + fmtPP(cc.Lower), "position": "insideMiddleTop", "color": ColorBlue}},
+					"label": map[string]any{"formatter": "lower " + fmtPP(cc.Lower), "position": "insideMiddleBottom", "color": ColorBlue}},
 				map[string]any{"xAxis": cc.Upper, "name": "upper", "lineStyle": map[string]any{"color": ColorBlue, "type": "dotted", "width": 1.5},
 					"label": map[string]any{"formatter": "upper " + fmtPP(cc.Upper), "position": "insideMiddleTop", "color": ColorBlue}},
 				map[string]any{"xAxis": cc.Null, "name": "null", "lineStyle": map[string]any{"color": ColorGrey, "type": "dashed", "width": 1.5},

@@ -49,6 +49,12 @@ func coveragePieces(nominal float64) []any {
 
 func round9(v float64) float64 { return math.Round(v*1e9) / 1e9 }
 
+// round7 keeps seven decimals of a probability drawn on a chart (a
+// hundred-thousandth of a percentage point, far below what the chart or its
+// tooltip shows): a coverage map holds ten thousand cells, and full
+// precision would double the size of the notebook.
+func round7(v float64) float64 { return math.Round(v*1e7) / 1e7 }
+
 // coverageMapTooltip shows the rates, the coverage and how the misses
 // split. Data items are [i, j, coverage, below, above, π1, π2].
 const coverageMapTooltip = `function (p) {
@@ -89,7 +95,7 @@ func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) 
 			if !s.Defined[k] || math.IsNaN(s.Coverage[k]) {
 				continue
 			}
-			data = append(data, []float64{float64(i), float64(j), s.Coverage[k], s.Below[k], s.Above[k], s.Pi1[i], s.Pi2[j]})
+			data = append(data, []float64{float64(i), float64(j), round7(s.Coverage[k]), round7(s.Below[k]), round7(s.Above[k]), s.Pi1[i], s.Pi2[j]})
 			if minI < 0 || s.Coverage[k] < s.Coverage[minI*len(s.Pi2)+minJ] {
 				minI, minJ = i, j
 			}
@@ -128,7 +134,7 @@ func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) 
 		"right": 8, "top": "middle", "itemWidth": 16, "itemHeight": 12, "showLabel": true,
 		"outOfRange": map[string]any{"color": "#999999"},
 	}}
-	option["tooltip"] = map[string]any{"show": true, "trigger": "item", "formatter": jsFunc(coverageMapTooltip)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(coverageMapTooltip)}
 	option["legend"] = map[string]any{"show": false}
 	table := dataTable{Caption: "Summary of the map", Header: []string{"quantity", "value"}, Rows: [][]string{
 		{"method", s.Name},
@@ -208,7 +214,7 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 			if along == "pi2" {
 				x = p.Pi2
 			}
-			data = append(data, []float64{x, p.Coverage, p.Pi1, p.Pi2, p.Below, p.Above})
+			data = append(data, []float64{x, round7(p.Coverage), p.Pi1, p.Pi2, round7(p.Below), round7(p.Above)})
 			if minK < 0 || p.Coverage < c.Points[minK].Coverage {
 				minK = k
 			}
@@ -259,7 +265,7 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 	option := optionOf(ch)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
 	if z := set.zoom(0, 0, percentAxisLabel); z != nil {
 		option["dataZoom"] = z
 		option["grid"] = []any{map[string]any{"left": "24", "right": "40", "top": "110", "bottom": "80", "containLabel": true}}

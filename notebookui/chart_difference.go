@@ -162,7 +162,7 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 		charts.WithGridOpts(opts.Grid{Left: "16", Right: "110", Top: "80", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
 	option["legend"] = map[string]any{"show": false}
 	option["series"] = []any{map[string]any{
 		"type": "custom", "name": "intervals", "data": data,

@@ -124,7 +124,7 @@ func powerBySize(curves []proportions.PowerCurve, s chartSettings) (*Chart, erro
 	option := optionOf(ch)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(powerBySizeTooltip)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(powerBySizeTooltip)}
 	notes := []string{curves[0].Caution}
 	if len(curves) > 1 {
 		notes = append([]string{"Exact power moves up and down as n grows (the attainable significance levels jump with the discrete outcomes): " +
@@ -183,7 +183,7 @@ func powerByDifference(curves []proportions.PowerCurve, s chartSettings) (*Chart
 	option := optionOf(ch)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "axis", "formatter": jsFunc(powerByDifferenceTooltip)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(powerByDifferenceTooltip)}
 	notes := []string{fmt.Sprintf("At the null value the power equals the test's size, α = %s for a well-behaved test.", fmtP(d.Alpha)), curves[0].Caution}
 	return newChart("power-by-difference", title, subtitle, s.heightOr(defaultHeight+40), option, table, notes)
 }

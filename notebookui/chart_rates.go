@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"fmt"
+	"math"
 	"strconv"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
@@ -91,11 +92,19 @@ func RatesChart(a proportions.Analysis) (*Chart, error) {
 	title := fmt.Sprintf("Share %s, by group", event)
 	subtitle := fmt.Sprintf("estimate with %s intervals from each method", fmtLevel(level))
 
+	lo, hi := 1.0, 0.0
+	for _, g := range a.Groups {
+		for _, iv := range g.Intervals {
+			lo, hi = math.Min(lo, iv.Lower), math.Max(hi, iv.Upper)
+		}
+	}
+	axisMin, axisMax, step := niceRange(lo, hi, 0, 1)
 	ch := charts.NewCustom()
 	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
 	ch.SetGlobalOptions(
 		charts.WithXAxisOpts(opts.XAxis{
-			Type: "value", Min: 0, Max: 1, Name: axisName("share "+event, "%"), NameLocation: "middle", NameGap: 30,
+			Type: "value", Min: axisMin, Max: axisMax, MinInterval: step, MaxInterval: step,
+			Name: axisName("share "+event, "%"), NameLocation: "middle", NameGap: 30,
 			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)},
 		}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "category", Data: labels, Inverse: opts.Bool(true)}),
@@ -135,7 +144,7 @@ func RatesChart(a proportions.Analysis) (*Chart, error) {
 	}
 	option["series"] = series
 	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
 	notes := []string{fmt.Sprintf("%s: %d of %d %s (%s); %s: %d of %d %s (%s).",
 		labels[0], a.Groups[0].Group.Events, a.Groups[0].Group.Trials, event, fmtPct(a.Groups[0].Proportion),
 		labels[1], a.Groups[1].Group.Events, a.Groups[1].Group.Trials, event, fmtPct(a.Groups[1].Proportion))}

@@ -132,6 +132,10 @@ func sendBundle(d Displayable) error {
 		Data:     data,
 		Metadata: map[string]any{"propscope": d.Kind()},
 	})
+	// Wait until GoNB has taken the output: a cell program that exits right
+	// after sending a large output (a chart holds hundreds of kilobytes)
+	// otherwise loses it now and then.
+	gonbui.Sync()
 	return errors.Join(jsonErr, gonbui.Error())
 }
 
