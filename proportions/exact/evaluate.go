@@ -6,6 +6,9 @@ import (
 	"slices"
 
 	"github.com/propscope/propscope/proportions"
+	"gonum.org/v1/gonum/blas"
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/floats"
 )
 
 // The evaluation of a Table at many points (π1, π2).
@@ -138,11 +141,11 @@ func (ev *evaluation) widthSums(j int) {
 	t := ev.t
 	b := &ev.seconds[j]
 	lo, hi := b.lo, b.hi+1
+	// w = W[:, lo:hi] · p[lo:hi], with W the table of widths.
 	w := make([]float64, t.n1+1)
-	for x1 := range w {
-		base := x1 * t.stride
-		w[x1] = dot(b.p[lo:hi], t.width[base+lo:base+hi])
-	}
+	blas64.Gemv(blas.NoTrans, 1,
+		blas64.General{Rows: t.n1 + 1, Cols: hi - lo, Stride: t.stride, Data: t.width[lo : t.n1*t.stride+hi]},
+		blas64.Vector{N: hi - lo, Inc: 1, Data: b.p[lo:hi]}, 0, blas64.Vector{N: t.n1 + 1, Inc: 1, Data: w})
 	ev.wsum[j] = w
 	if t.family() == proportions.Difference {
 		return
@@ -196,41 +199,59 @@ func (ev *evaluation) run(from, to int) {
 // movePointers brings the runs of rows lo..hi to truth θ: by bisection
 // for a row new to the task, else by walking down from the previous truth.
 func (t *Table) movePointers(lo, hi int, theta float64, ps *pointers) {
+	lower, upper := t.lower, t.upper
+	a0, b0, ready := ps.a0, ps.b0, ps.ready
 	for x1 := lo; x1 <= hi; x1++ {
-		base := x1 * t.stride
-		lower, upper := t.lower[base:base+t.stride], t.upper[base:base+t.stride]
-		k0, last := t.rowCut[x1], t.rowCut[x1+1]-1
-		if !ps.ready[x1] {
-			ps.ready[x1] = true
-			e := t.cuts[k0+1]
-			ps.a0[x1] = firstAtMost(lower, 0, e, theta)
-			ps.b0[x1] = firstBelow(upper, 0, e, theta)
-			for k := k0 + 1; k < last; k++ {
-				st, e := t.cuts[k], t.cuts[k+1]
-				ps.ax[k] = firstAtMost(lower, st, e, theta)
-				ps.bx[k] = firstBelow(upper, st, e, theta)
-			}
+		if !ready[x1] {
+			t.startRow(x1, theta, ps)
 			continue
 		}
-		a, b := ps.a0[x1], ps.b0[x1]
-		for a > 0 && lower[a-1] <= theta {
+		// First pieces start at x2 = 0.
+		base := x1 * t.stride
+		a, b := base+int(a0[x1]), base+int(b0[x1])
+		for a > base && lower[a-1] <= theta {
 			a--
 		}
-		for b > 0 && upper[b-1] < theta {
+		for b > base && upper[b-1] < theta {
 			b--
 		}
-		ps.a0[x1], ps.b0[x1] = a, b
-		for k := k0 + 1; k < last; k++ {
-			st := t.cuts[k]
-			a, b := ps.ax[k], ps.bx[k]
+		a0[x1], b0[x1] = int32(a-base), int32(b-base)
+	}
+	for _, r := range t.multi {
+		x1 := int(r)
+		if x1 < lo || x1 > hi {
+			continue
+		}
+		base := x1 * t.stride
+		for k := t.rowCut[x1] + 1; k < t.rowCut[x1+1]-1; k++ {
+			st := base + int(t.cuts[k])
+			a, b := base+int(ps.ax[k]), base+int(ps.bx[k])
 			for a > st && lower[a-1] <= theta {
 				a--
 			}
 			for b > st && upper[b-1] < theta {
 				b--
 			}
-			ps.ax[k], ps.bx[k] = a, b
+			ps.ax[k], ps.bx[k] = int32(a-base), int32(b-base)
 		}
+	}
+}
+
+// startRow places the runs of row x1 for θ by bisection.
+func (t *Table) startRow(x1 int, theta float64, ps *pointers) {
+	ps.ready[x1] = true
+	base := x1 * t.stride
+	lower, upper := t.lower[base:base+t.stride], t.upper[base:base+t.stride]
+	k0, last := t.rowCut[x1], t.rowCut[x1+1]-1
+	e := t.cuts[k0+1]
+	ps.a0[x1] = firstAtMost(lower, 0, e, theta)
+	ps.b0[x1] = firstBelow(upper, 0, e, theta)
+	for k := k0 + 1; k < last; k++ {
+		st, e := t.cuts[k], t.cuts[k+1]
+		// Walked below in movePointers for rows already started, so set
+		// them for θ here and let that walk find nothing to do.
+		ps.ax[k] = firstAtMost(lower, st, e, theta)
+		ps.bx[k] = firstBelow(upper, st, e, theta)
 	}
 }
 
@@ -279,9 +300,9 @@ func (ev *evaluation) point(q *query, ps *pointers) result {
 	// Each row's mass splits into above, covered and below, and both
 	// binomials are normalised over their kept ranges.
 	r.below = max(0, 1-r.cov-r.above)
-	r.width = dot(b1.p[lo:hi], ev.wsum[q.second][lo:hi])
+	r.width = floats.Dot(b1.p[lo:hi], ev.wsum[q.second][lo:hi])
 	if t.family() != proportions.Difference {
-		r.unbounded = dot(b1.p[lo:hi], ev.usum[q.second][lo:hi])
+		r.unbounded = floats.Dot(b1.p[lo:hi], ev.usum[q.second][lo:hi])
 		r.width = amongBounded(r.width, r.unbounded)
 	}
 	return r
@@ -326,21 +347,4 @@ func firstBelow(v []float64, st, e int32, x float64) int32 {
 		}
 	}
 	return lo
-}
-
-// dot returns Σ a[i]·b[i] with four accumulators.
-func dot(a, b []float64) float64 {
-	b = b[:len(a)]
-	var s0, s1, s2, s3 float64
-	i := 0
-	for ; i+4 <= len(a); i += 4 {
-		s0 += a[i] * b[i]
-		s1 += a[i+1] * b[i+1]
-		s2 += a[i+2] * b[i+2]
-		s3 += a[i+3] * b[i+3]
-	}
-	for ; i < len(a); i++ {
-		s0 += a[i] * b[i]
-	}
-	return (s0 + s1) + (s2 + s3)
 }

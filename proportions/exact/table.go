@@ -69,18 +69,35 @@ func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts 
 	rowCuts := make([][]int32, d.N1+1)
 	rep := newReporter(cfg.progress, d.N1+1)
 	sym := t.symmetries()
-	// First the outcomes that stand for their mirror sets, then the rest.
-	err = parallel(ctx, cfg.workers, d.N1+1, func(x1 int) error {
+	// Rows [0, half] are computed (the part of each that stands for its
+	// mirror set), then completed from themselves; rows above half are the
+	// mirror images of rows below.
+	half := d.N1
+	if sym.complement {
+		half = d.N1 / 2
+	}
+	err = parallel(ctx, cfg.workers, half+1, func(x1 int) error {
 		return t.computeRow(x1, sym)
 	})
 	if err != nil {
 		return nil, err
 	}
-	err = parallel(ctx, cfg.workers, d.N1+1, func(x1 int) error {
-		t.mirrorRow(x1, sym)
+	finish := func(x1 int) error {
 		rowCuts[x1] = t.finishRow(x1)
 		rep.add(1)
 		return nil
+	}
+	err = parallel(ctx, cfg.workers, half+1, func(x1 int) error {
+		t.completeRow(x1, sym)
+		return finish(x1)
+	})
+	if err != nil {
+		return nil, err
+	}
+	err = parallel(ctx, cfg.workers, d.N1-half, func(i int) error {
+		x1 := half + 1 + i
+		t.complementRow(x1)
+		return finish(x1)
 	})
 	if err != nil {
 		return nil, err
@@ -131,67 +148,68 @@ func (t *Table) symmetries() symmetry {
 	return symmetry{swap: t.n1 == t.n2, complement: t.method.Family != proportions.Ratio}
 }
 
-// source returns the outcome whose limits give those of (x1, x2) — the
-// first of its mirror set in table order — and whether they are mirrored
-// (exchanging the groups and counting non-events each mirror the interval;
-// doing both gives it back unchanged).
-func (t *Table) source(x1, x2 int, sym symmetry) (s1, s2 int, mirrored bool) {
-	s1, s2 = x1, x2
-	better := func(y1, y2 int, m bool) {
-		if y1 < s1 || y1 == s1 && y2 < s2 {
-			s1, s2, mirrored = y1, y2, m
-		}
-	}
-	if sym.complement {
-		better(t.n1-x1, t.n2-x2, true)
-	}
+// computedRange returns the x2 of row x1 (x1 ≤ n1/2 when the complement
+// symmetry holds) whose limits are computed: with the groups exchangeable,
+// x2 < x1 is the mirror of (x2, x1) and, with the complement too,
+// x2 > n − x1 is (n − x2, n − x1) exchanged and complemented; both lie in
+// earlier rows' computed ranges.
+func (t *Table) computedRange(x1 int, sym symmetry) (lo, hi int) {
+	lo, hi = 0, t.n2
 	if sym.swap {
-		better(x2, x1, true)
+		lo = x1
 		if sym.complement {
-			better(t.n2-x2, t.n1-x1, false)
+			hi = t.n2 - x1
 		}
 	}
-	return s1, s2, mirrored
+	return lo, hi
 }
 
-// computeRow calls the method for the outcomes of row x1 that stand for
-// their mirror sets, and checks the limits.
+// computeRow calls the method for the computed range of row x1 and checks
+// the limits.
 func (t *Table) computeRow(x1 int, sym symmetry) error {
 	c := proportions.Counts{X1: int64(x1), N1: int64(t.n1), N2: int64(t.n2)}
 	base := x1 * t.stride
-	for x2 := 0; x2 <= t.n2; x2++ {
-		if s1, s2, _ := t.source(x1, x2, sym); s1 != x1 || s2 != x2 {
-			continue
-		}
+	lo, hi := t.computedRange(x1, sym)
+	for x2 := lo; x2 <= hi; x2++ {
 		c.X2 = int64(x2)
-		lo, hi := t.method.Limits(c, t.conf)
-		if !(lo <= hi) { // also catches NaN
+		l, u := t.method.Limits(c, t.conf)
+		if !(l <= u) { // also catches NaN
 			return fmt.Errorf("interval method %q gave limits (%v, %v) at %d/%d vs %d/%d; the engine needs numbers with lower ≤ upper",
-				t.method.Key, lo, hi, x1, t.n1, x2, t.n2)
+				t.method.Key, l, u, x1, t.n1, x2, t.n2)
 		}
-		t.lower[base+x2], t.upper[base+x2] = lo, hi
+		t.lower[base+x2], t.upper[base+x2] = l, u
 	}
 	return nil
 }
 
-// mirrorRow copies the limits of row x1's other outcomes from the outcomes
-// that stand for them.
-func (t *Table) mirrorRow(x1 int, sym symmetry) {
-	if sym == (symmetry{}) {
+// completeRow fills the rest of row x1 from the computed ranges.
+func (t *Table) completeRow(x1 int, sym symmetry) {
+	lo, hi := t.computedRange(x1, sym)
+	base := x1 * t.stride
+	for x2 := 0; x2 < lo; x2++ { // groups exchanged
+		k := x2*t.stride + x1
+		t.lower[base+x2], t.upper[base+x2] = t.mirror(t.lower[k], t.upper[k])
+	}
+	for x2 := hi + 1; x2 <= t.n2; x2++ { // exchanged and complemented
+		k := (t.n2-x2)*t.stride + t.n1 - x1
+		t.lower[base+x2], t.upper[base+x2] = t.lower[k], t.upper[k]
+	}
+}
+
+// complementRow fills row x1 > n1/2 with the mirror images of row n1 − x1
+// read backwards (counting non-events in both groups).
+func (t *Table) complementRow(x1 int) {
+	base, src := x1*t.stride, (t.n1-x1)*t.stride
+	lower, upper := t.lower[base:base+t.stride], t.upper[base:base+t.stride]
+	srcLower, srcUpper := t.lower[src:src+t.stride], t.upper[src:src+t.stride]
+	if t.method.Family == proportions.Difference {
+		for x2, k := 0, t.n2; k >= 0; x2, k = x2+1, k-1 {
+			lower[x2], upper[x2] = -srcUpper[k], -srcLower[k]
+		}
 		return
 	}
-	base := x1 * t.stride
-	for x2 := 0; x2 <= t.n2; x2++ {
-		s1, s2, mirrored := t.source(x1, x2, sym)
-		if s1 == x1 && s2 == x2 {
-			continue
-		}
-		k := s1*t.stride + s2
-		lo, hi := t.lower[k], t.upper[k]
-		if mirrored {
-			lo, hi = t.mirror(lo, hi)
-		}
-		t.lower[base+x2], t.upper[base+x2] = lo, hi
+	for x2, k := 0, t.n2; k >= 0; x2, k = x2+1, k-1 {
+		lower[x2], upper[x2] = t.mirror(srcLower[k], srcUpper[k])
 	}
 }
 
@@ -217,20 +235,31 @@ func (t *Table) mirror(lo, hi float64) (float64, float64) {
 // where either limit rises with x2.
 func (t *Table) finishRow(x1 int) []int32 {
 	base := x1 * t.stride
-	lower, upper, width := t.lower[base:base+t.stride], t.upper[base:base+t.stride], t.width[base:base+t.stride]
-	difference := t.method.Family == proportions.Difference
+	lower := t.lower[base : base+t.stride]
+	upper := t.upper[base : base+t.stride][:len(lower)]
+	width := t.width[base : base+t.stride][:len(lower)]
 	cuts := []int32{0}
-	for x2, lo := range lower {
-		hi := upper[x2]
-		if x2 > 0 && (lo > lower[x2-1] || hi > upper[x2-1]) {
+	for x2 := 1; x2 < len(lower); x2++ {
+		if lower[x2] > lower[x2-1] || upper[x2] > upper[x2-1] {
 			cuts = append(cuts, int32(x2))
 		}
-		if difference {
-			// The reported interval is clipped to [−1, 1].
-			width[x2] = min(hi, 1) - max(lo, -1)
-		} else {
-			width[x2] = t.reportedWidth(lo, hi)
+	}
+	if t.method.Family != proportions.Difference {
+		for x2, lo := range lower {
+			width[x2] = t.reportedWidth(lo, upper[x2])
 		}
+		return append(cuts, int32(t.stride))
+	}
+	for x2, lo := range lower {
+		// The reported interval is clipped to [−1, 1].
+		hi := upper[x2]
+		if lo < -1 {
+			lo = -1
+		}
+		if hi > 1 {
+			hi = 1
+		}
+		width[x2] = hi - lo
 	}
 	return append(cuts, int32(t.stride))
 }
