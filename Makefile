@@ -2,7 +2,7 @@
 SHELL := /bin/bash
 GO ?= go
 
-.PHONY: help notebook setup test go-test bench
+.PHONY: help notebook setup test go-test bench bench-coverage
 help:
 	@grep -E '^[a-z-]+:.*## ' $(MAKEFILE_LIST) | sed 's/:.*## /\t/'
 
@@ -20,3 +20,6 @@ go-test: ## Go unit tests, examples and fuzz seed corpora
 
 bench: ## benchmarks of the numerical core
 	$(GO) test -run '^$$' -bench . -benchmem ./proportions/...
+
+bench-coverage: ## exact coverage engine side by side with a NumPy enumeration (installs python3-numpy)
+	scripts/bench-coverage.sh
