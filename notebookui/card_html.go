@@ -73,7 +73,7 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 // themes alike. Selectors are specific enough to win over the notebook's
 // own .rendered_html table rules (striped rows, right-aligned cells).
 const cardCSS = `
-.ps-card{color:var(--jp-content-font-color1,inherit);background:transparent;font-family:var(--jp-ui-font-family,system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif);font-size:14px;line-height:1.45;max-width:52rem;margin:.25rem 0;padding:1rem 1.1rem;border:1px solid rgba(128,128,128,.45);border-radius:8px;box-sizing:border-box;overflow-wrap:anywhere}
+.ps-card{color:var(--jp-content-font-color1,inherit);background:transparent;font-family:var(--jp-ui-font-family,system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif);font-size:14px;line-height:1.45;max-width:52rem;margin:.25rem 0;padding:1rem 1.1rem;border:1px solid rgba(128,128,128,.45);border-radius:8px;box-sizing:border-box;overflow-wrap:break-word}
 .ps-card *{box-sizing:border-box}
 .ps-card .ps-title{font-size:1.2em;font-weight:650;margin:0 0 .6rem;padding:0;line-height:1.3}
 .ps-card .ps-headline{border-left:4px solid #2a8c7a;padding:.3rem 0 .3rem .85rem;margin:0 0 .9rem}

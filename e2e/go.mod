@@ -1,0 +1,23 @@
+module github.com/propscope/propscope/e2e
+
+go 1.25
+
+replace github.com/propscope/propscope => ../
+
+require (
+	github.com/chromedp/chromedp v0.23.1
+	github.com/propscope/propscope v0.0.0-00010101000000-000000000000
+)
+
+require (
+	github.com/chromedp/cdproto v0.160.1 // indirect
+	github.com/go-echarts/go-echarts/v2 v2.6.7 // indirect
+	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
+	github.com/go-logr/logr v1.4.2 // indirect
+	github.com/gofrs/uuid v4.4.0+incompatible // indirect
+	github.com/janpfeifer/gonb v0.11.1 // indirect
+	github.com/pkg/errors v0.9.1 // indirect
+	golang.org/x/exp v0.0.0-20250106191152-7588d65b2ba8 // indirect
+	gonum.org/v1/gonum v0.17.0 // indirect
+	k8s.io/klog/v2 v2.130.1 // indirect
+)

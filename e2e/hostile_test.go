@@ -1,0 +1,92 @@
+package e2e
+
+import (
+	"context"
+	"path/filepath"
+	"testing"
+
+	"github.com/propscope/propscope/notebookui"
+	"github.com/propscope/propscope/proportions"
+)
+
+// Hostile labels: each would run script if it reached the page unescaped,
+// by setting window.__pwned. The same strings are in
+// testdata/notebooks/hostile.ipynb.
+var hostile = proportions.Labels{
+	First:  `<script>window.__pwned=1</script>`,
+	Second: `<img src=x onerror="window.__pwned=2">`,
+	Event:  `"><svg onload=window.__pwned=3>'`,
+}
+
+// hostileAnalysis fills an analysis by hand from registered methods (Wald,
+// Fisher), with the hostile strings in every place a user string can reach
+// the card: labels, event name, conclusion and a warning.
+func hostileAnalysis(t *testing.T) proportions.Analysis {
+	t.Helper()
+	c, err := proportions.NewComparison(3, 10, 7, 10, hostile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	iv, err := proportions.Wald.Interval(c.Counts(), 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	test, err := proportions.Fisher.Test(c.Counts())
+	if err != nil {
+		t.Fatal(err)
+	}
+	return proportions.Analysis{
+		Comparison: c, Level: 0.95, Difference: c.Counts().P1() - c.Counts().P2(),
+		Groups:     [2]proportions.GroupEstimate{{Group: c.First, Proportion: 0.3}, {Group: c.Second, Proportion: 0.7}},
+		Interval:   iv, Intervals: []proportions.Interval{iv},
+		Test:       test, Tests: []proportions.TestResult{test},
+		Conclusion: "In " + hostile.First + " the rate of " + hostile.Event + " differs from " + hostile.Second,
+		Warnings:   []proportions.Warning{{Code: "test", Message: hostile.Second}},
+		Caution:    proportions.Caution,
+	}
+}
+
+// TestHostileLabelsInBrowser opens a standalone card page made from hostile
+// labels: no script may run, and each label must show as literal text.
+func TestHostileLabelsInBrowser(t *testing.T) {
+	page := filepath.Join(outDir, "hostile-card.html")
+	card := notebookui.NewResultCard(hostileAnalysis(t))
+	if err := card.WriteHTMLFile(page); err != nil {
+		t.Fatal(err)
+	}
+	ctx := browse(t)
+	open(t, ctx, page)
+	assertInert(t, ctx)
+	screenshot(t, ctx, "hostile-card")
+}
+
+// TestHostileLabelsInNotebook runs the hostile labels through the whole
+// notebook path: GoNB display output, nbconvert's HTML export, browser.
+func TestHostileLabelsInNotebook(t *testing.T) {
+	root := repoRoot(t)
+	r := execute(t, root, filepath.Join("testdata", "notebooks", "hostile.ipynb"))
+	ctx := browse(t)
+	open(t, ctx, r.HTML)
+	assertInert(t, ctx)
+	screenshot(t, ctx, "hostile-notebook")
+}
+
+// assertInert checks that nothing the hostile strings carry has run or
+// become an element, and that the strings show literally in the card.
+func assertInert(t *testing.T, ctx context.Context) {
+	t.Helper()
+	if pwned := eval[any](t, ctx, `window.__pwned === undefined ? null : window.__pwned`); pwned != nil {
+		t.Errorf("a hostile label ran script: window.__pwned = %v", pwned)
+	}
+	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"] :is(script, img, svg, iframe, object)').length
+		+ document.querySelectorAll('img[src="x"], [onerror], [onload]').length`)
+	if injected > 0 {
+		t.Errorf("%d elements were injected by hostile labels", injected)
+	}
+	n := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"]').length`)
+	if n == 0 {
+		t.Fatal("no result card on the page")
+	}
+	text := cardText(t, ctx, 0)
+	wantText(t, "the hostile card", text, hostile.First, hostile.Second, hostile.Event)
+}

@@ -1,0 +1,89 @@
+// Package e2e executes the example notebooks with the GoNB kernel and checks
+// what they show in a real browser (headless Chromium via chromedp). It is
+// its own module so that the library does not depend on chromedp.
+//
+// Every notebook in notebooks/ is executed and exported to HTML; a cell
+// error fails the test. To check what a notebook shows, add a function to
+// pageChecks under the notebook's base name (see germination_test.go).
+package e2e
+
+import (
+	"context"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/propscope/propscope/e2e/nbrun"
+)
+
+// pageChecks holds the browser assertions of each notebook, by base name.
+// They run on the exported HTML after the generic checks.
+var pageChecks = map[string]func(t *testing.T, ctx context.Context){}
+
+func repoRoot(t *testing.T) string {
+	t.Helper()
+	root, err := nbrun.Root("..")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := nbrun.CheckSetup(root); err != nil {
+		t.Fatal(err)
+	}
+	return root
+}
+
+// TestNotebooks executes every example notebook, fails on any cell error,
+// and opens the HTML export in Chromium.
+func TestNotebooks(t *testing.T) {
+	root := repoRoot(t)
+	notebooks, err := nbrun.Notebooks(filepath.Join(root, "notebooks"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(notebooks) == 0 {
+		t.Fatal("no notebooks in notebooks/")
+	}
+	for _, nb := range notebooks {
+		name := strings.TrimSuffix(filepath.Base(nb), ".ipynb")
+		t.Run(name, func(t *testing.T) {
+			r := execute(t, root, nb)
+			ctx := browse(t)
+			open(t, ctx, r.HTML)
+			genericChecks(t, ctx)
+			if check := pageChecks[name]; check != nil {
+				check(t, ctx)
+			}
+			screenshot(t, ctx, name)
+		})
+	}
+}
+
+// execute runs a notebook into outDir and fails the test on cell errors.
+func execute(t *testing.T, root, notebook string) nbrun.Result {
+	t.Helper()
+	r, err := nbrun.Run(context.Background(), root, notebook, outDir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range r.CellErrors {
+		t.Errorf("%s: %s", filepath.Base(notebook), e)
+	}
+	if t.Failed() {
+		t.Logf("nbconvert said:\n%s", r.Log)
+	}
+	return r
+}
+
+// genericChecks apply to every exported notebook: no GoNB error report,
+// and every result card drawn with its headline.
+func genericChecks(t *testing.T, ctx context.Context) {
+	t.Helper()
+	if n := eval[int](t, ctx, `document.querySelectorAll('[class^="gonb-err"]').length`); n > 0 {
+		t.Errorf("the page shows %d GoNB error elements", n)
+	}
+	empty := eval[int](t, ctx, `[...document.querySelectorAll('section[data-propscope="result-card"]')]
+		.filter(c => !c.querySelector('[data-role="difference"]') || c.querySelector('[data-role="difference"]').innerText.trim() === "").length`)
+	if empty > 0 {
+		t.Errorf("%d result cards have no headline difference", empty)
+	}
+}
