@@ -3,9 +3,22 @@ package e2e
 import (
 	"context"
 	"testing"
+
+	"github.com/propscope/propscope/e2e/nbrun"
 )
 
-func init() { pageChecks["germination"] = checkGermination }
+func init() {
+	pageChecks["germination"] = checkGermination
+	outputChecks["germination"] = func(t *testing.T, r nbrun.Result) {
+		outs, err := nbrun.Outputs(r.Executed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(outs) != 1 || outs[0].Kind != "result-card" {
+			t.Errorf("want one result-card output, got %+v", outs)
+		}
+	}
+}
 
 // checkGermination asserts what a reader of the germination notebook sees.
 //

@@ -37,9 +37,9 @@ func hostileAnalysis(t *testing.T) proportions.Analysis {
 	}
 	return proportions.Analysis{
 		Comparison: c, Level: 0.95, Difference: c.Counts().P1() - c.Counts().P2(),
-		Groups:     [2]proportions.GroupEstimate{{Group: c.First, Proportion: 0.3}, {Group: c.Second, Proportion: 0.7}},
-		Interval:   iv, Intervals: []proportions.Interval{iv},
-		Test:       test, Tests: []proportions.TestResult{test},
+		Groups:   [2]proportions.GroupEstimate{{Group: c.First, Proportion: 0.3}, {Group: c.Second, Proportion: 0.7}},
+		Interval: iv, Intervals: []proportions.Interval{iv},
+		Test: test, Tests: []proportions.TestResult{test},
 		Conclusion: "In " + hostile.First + " the rate of " + hostile.Event + " differs from " + hostile.Second,
 		Warnings:   []proportions.Warning{{Code: "test", Message: hostile.Second}},
 		Caution:    proportions.Caution,
@@ -78,7 +78,7 @@ func assertInert(t *testing.T, ctx context.Context) {
 	if pwned := eval[any](t, ctx, `window.__pwned === undefined ? null : window.__pwned`); pwned != nil {
 		t.Errorf("a hostile label ran script: window.__pwned = %v", pwned)
 	}
-	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"] :is(script, img, svg, iframe, object)').length
+	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"] :is(script, img, svg:not(.ps-strip), iframe, object)').length
 		+ document.querySelectorAll('img[src="x"], [onerror], [onload]').length`)
 	if injected > 0 {
 		t.Errorf("%d elements were injected by hostile labels", injected)

@@ -3,12 +3,15 @@
 // its own module so that the library does not depend on chromedp.
 //
 // Every notebook in notebooks/ is executed and exported to HTML; a cell
-// error fails the test. To check what a notebook shows, add a function to
-// pageChecks under the notebook's base name (see germination_test.go).
+// error fails the test. To check what a notebook shows, add functions to
+// pageChecks (browser) or outputChecks (executed .ipynb) under the
+// notebook's base name (see germination_test.go).
 package e2e
 
 import (
 	"context"
+	"encoding/json"
+	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -19,6 +22,17 @@ import (
 // pageChecks holds the browser assertions of each notebook, by base name.
 // They run on the exported HTML after the generic checks.
 var pageChecks = map[string]func(t *testing.T, ctx context.Context){}
+
+// outputChecks holds assertions on each executed notebook's outputs (the
+// .ipynb), by base name.
+var outputChecks = map[string]func(t *testing.T, r nbrun.Result){}
+
+func TestMain(m *testing.M) {
+	if err := os.MkdirAll(outDir, 0o755); err != nil {
+		panic(err)
+	}
+	os.Exit(m.Run())
+}
 
 func repoRoot(t *testing.T) string {
 	t.Helper()
@@ -47,6 +61,10 @@ func TestNotebooks(t *testing.T) {
 		name := strings.TrimSuffix(filepath.Base(nb), ".ipynb")
 		t.Run(name, func(t *testing.T) {
 			r := execute(t, root, nb)
+			checkOutputs(t, r)
+			if check := outputChecks[name]; check != nil {
+				check(t, r)
+			}
 			ctx := browse(t)
 			open(t, ctx, r.HTML)
 			genericChecks(t, ctx)
@@ -72,6 +90,30 @@ func execute(t *testing.T, root, notebook string) nbrun.Result {
 		t.Logf("nbconvert said:\n%s", r.Log)
 	}
 	return r
+}
+
+// checkOutputs checks every propscope display output in the executed
+// notebook: one output holding HTML, plain text and a JSON object that
+// names its kind.
+func checkOutputs(t *testing.T, r nbrun.Result) {
+	t.Helper()
+	outs, err := nbrun.Outputs(r.Executed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, o := range outs {
+		for _, mime := range []string{"text/html", "text/plain", "application/json"} {
+			if _, ok := o.Data[mime]; !ok {
+				t.Errorf("cell %d: %s output lacks %s", o.Cell, o.Kind, mime)
+			}
+		}
+		var obj struct {
+			Kind string `json:"kind"`
+		}
+		if err := json.Unmarshal(o.Data["application/json"], &obj); err != nil || obj.Kind != o.Kind {
+			t.Errorf("cell %d: application/json is not an object of kind %q: %s", o.Cell, o.Kind, o.Data["application/json"])
+		}
+	}
 }
 
 // genericChecks apply to every exported notebook: no GoNB error report,

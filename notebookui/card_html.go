@@ -30,6 +30,15 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 <p class="ps-lead">Difference in the share {{.Event}}, <span class="ps-label">{{.First}}</span> minus <span class="ps-label">{{.Second}}</span></p>
 <p class="ps-big"><span class="ps-diff" data-role="difference">{{.Difference}}</span> <span class="ps-unit">percentage points</span></p>
 <p class="ps-ci">{{.Level}} confidence interval: <strong data-role="interval">{{.Lower}} to {{.Upper}}</strong> points <span class="ps-muted">({{.Method}})</span></p>
+{{with .Strip}}<svg class="ps-strip" viewBox="0 0 400 58" role="img" aria-label="{{.Label}}">
+<line x1="16" y1="34" x2="384" y2="34" class="ps-axis"/>
+<line x1="{{.XNull}}" y1="6" x2="{{.XNull}}" y2="42" class="ps-null"/>
+<text x="{{.XNull}}" y="56" text-anchor="middle" class="ps-tick">{{.NullText}}</text>
+<line x1="{{.X1}}" y1="22" x2="{{.X2}}" y2="22" class="ps-bar"/>
+<circle cx="{{.XEst}}" cy="22" r="6" class="ps-dot"/>
+<text x="{{.X1}}" y="12" text-anchor="{{.LowerAnchor}}" class="ps-tick">{{.LowerText}}</text>
+<text x="{{.X2}}" y="12" text-anchor="{{.UpperAnchor}}" class="ps-tick">{{.UpperText}}</text>
+</svg>{{end}}
 {{if .Verdict}}<p class="ps-verdict">{{.Verdict}}</p>{{end}}
 </div>
 <h4 class="ps-h">Each group</h4>
@@ -84,6 +93,12 @@ const cardCSS = `
 .ps-card .ps-unit{font-size:.5em;font-weight:500}
 .ps-card .ps-ci{font-variant-numeric:tabular-nums}
 .ps-card .ps-verdict{margin-top:.35rem}
+.ps-card svg.ps-strip{display:block;width:100%;max-width:26rem;height:auto;margin:.35rem 0 .1rem;overflow:visible}
+.ps-card .ps-strip .ps-axis{stroke:currentColor;stroke-opacity:.35;stroke-width:1}
+.ps-card .ps-strip .ps-null{stroke:currentColor;stroke-opacity:.7;stroke-width:1.5;stroke-dasharray:4 3}
+.ps-card .ps-strip .ps-bar{stroke:#2a8c7a;stroke-width:8;stroke-linecap:round}
+.ps-card .ps-strip .ps-dot{fill:currentColor;stroke:none}
+.ps-card .ps-strip .ps-tick{fill:currentColor;font-size:12px;font-variant-numeric:tabular-nums}
 .ps-card .ps-muted{opacity:.8}
 .ps-card .ps-small{font-size:.9em;margin:.1rem 0 .35rem}
 .ps-card .ps-h{font-size:1em;font-weight:650;margin:1rem 0 .35rem;padding:0}

@@ -6,8 +6,10 @@ import (
 	"encoding/json"
 	"flag"
 	"html"
+	"math"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -123,7 +125,7 @@ func hostileCard() ResultCard {
 func TestHostileLabelsAreEscaped(t *testing.T) {
 	c := hostileCard()
 	h := c.HTML()
-	for _, raw := range []string{"<script>window", "<img", "<svg", "onerror=\"", "<b>"} {
+	for _, raw := range []string{"<script>window", "<img", "<svg onload", "onerror=\"", "<b>"} {
 		if strings.Contains(h, raw) {
 			t.Errorf("HTML contains the raw user string %q", raw)
 		}
@@ -268,5 +270,41 @@ func TestWriteHTMLFile(t *testing.T) {
 		if strings.Contains(page, external) {
 			t.Errorf("page loads something from outside or runs a script: %q", external)
 		}
+	}
+}
+
+func TestStripPlacesTheIntervalOnTheAxis(t *testing.T) {
+	s := stripOf(germinationAnalysis())
+	if s == nil {
+		t.Fatal("no picture for a finite interval")
+	}
+	num := func(v string) float64 {
+		f, err := strconv.ParseFloat(v, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return f
+	}
+	// Null 0 < lower 3.62 < estimate 15 < upper 26.06 (points), left to right.
+	xs := []float64{num(s.XNull), num(s.X1), num(s.XEst), num(s.X2)}
+	for i := 1; i < len(xs); i++ {
+		if !(xs[i-1] < xs[i]) {
+			t.Errorf("positions out of order: %v", xs)
+		}
+	}
+	if xs[0] < stripLeft || xs[3] > stripRight {
+		t.Errorf("positions leave the axis: %v", xs)
+	}
+	// Distances are proportional: (est − lower)/(upper − lower) = (15 − 3.62)/(26.06 − 3.62).
+	if got, want := (xs[2]-xs[1])/(xs[3]-xs[1]), (0.15-0.0362)/(0.2606-0.0362); math.Abs(got-want) > 0.01 {
+		t.Errorf("estimate sits at %.3f of the bar, want %.3f", got, want)
+	}
+	if !strings.Contains(s.Label, "+3.6 to +26.1") {
+		t.Errorf("aria-label %q does not spell out the interval", s.Label)
+	}
+	a := germinationAnalysis()
+	a.Interval.Name = ""
+	if stripOf(a) != nil {
+		t.Error("a picture was drawn without a headline interval")
 	}
 }

@@ -21,6 +21,7 @@ type cardView struct {
 	Upper      string
 	Method     string // headline interval's name
 	Verdict    string // one line: headline test, p, decision
+	Strip      *strip // nil when the interval cannot be drawn
 	Groups     groupTable
 	Hypothesis string
 	Tests      []testRow
@@ -102,6 +103,7 @@ func (c ResultCard) view() cardView {
 		Upper:      points(a.Interval.Upper, 1),
 		Method:     a.Interval.Name,
 		Verdict:    verdict(a),
+		Strip:      stripOf(a),
 		Groups:     groupsOf(a),
 		Hypothesis: hypothesis(a),
 		Tests:      testsOf(a),

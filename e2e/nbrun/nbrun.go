@@ -157,6 +157,7 @@ type notebook struct {
 			Ename      string                     `json:"ename"`
 			Evalue     string                     `json:"evalue"`
 			Data       map[string]json.RawMessage `json:"data"`
+			Metadata   map[string]any             `json:"metadata"`
 		} `json:"outputs"`
 	} `json:"cells"`
 }
@@ -212,6 +213,36 @@ func CellErrors(path string) ([]string, error) {
 		}
 	}
 	return errs, nil
+}
+
+// Output is one display output of propscope (a card, a chart) in an
+// executed notebook: the ones whose metadata carry a "propscope" kind.
+type Output struct {
+	Cell int    // 1-based cell number
+	Kind string // the metadata's "propscope" value
+	// Data maps each MIME type to its raw JSON value in the notebook.
+	Data map[string]json.RawMessage
+}
+
+// Outputs lists the propscope display outputs of an executed notebook.
+func Outputs(path string) ([]Output, error) {
+	raw, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	var nb notebook
+	if err := json.Unmarshal(raw, &nb); err != nil {
+		return nil, fmt.Errorf("%s is not a notebook: %w", path, err)
+	}
+	var out []Output
+	for i, c := range nb.Cells {
+		for _, o := range c.Outputs {
+			if kind, ok := o.Metadata["propscope"].(string); ok {
+				out = append(out, Output{Cell: i + 1, Kind: kind, Data: o.Data})
+			}
+		}
+	}
+	return out, nil
 }
 
 // multiline reads a notebook string field, stored either as one string or

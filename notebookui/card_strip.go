@@ -1,0 +1,59 @@
+package notebookui
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// strip is the small picture under the headline: the interval for the
+// difference as a bar, the estimate as a dot and the null value as a
+// dashed line, on one axis in percentage points. It repeats what the text
+// says (its aria-label spells it out), so nothing rests on the picture or
+// its colour.
+type strip struct {
+	Label                          string // accessible description
+	X1, X2, XEst, XNull            string // positions in the 400-wide viewBox
+	LowerText, UpperText, NullText string
+	// LowerAnchor and UpperAnchor keep limit labels apart when the
+	// interval is narrow.
+	LowerAnchor, UpperAnchor string
+}
+
+// stripLeft and stripRight are the ends of the axis in the viewBox.
+const stripLeft, stripRight = 24.0, 376.0
+
+func stripOf(a proportions.Analysis) *strip {
+	lo, hi, est, null := a.Interval.Lower, a.Interval.Upper, a.Difference, a.Null
+	if a.Interval.Name == "" || anyNaN(lo, hi, est, null) {
+		return nil
+	}
+	min, max := math.Min(lo, null), math.Max(hi, null)
+	pad := math.Max(0.08*(max-min), 0.01)
+	min, max = min-pad, max+pad
+	x := func(v float64) float64 { return stripLeft + (v-min)/(max-min)*(stripRight-stripLeft) }
+	s := &strip{
+		Label: fmt.Sprintf("Picture of the %s interval: from %s to %s percentage points, estimate %s, with the null value %s marked.",
+			levelText(a.Interval.Level), points(lo, 1), points(hi, 1), points(est, 1), points(null, 1)),
+		X1: coord(x(lo)), X2: coord(x(hi)), XEst: coord(x(est)), XNull: coord(x(null)),
+		LowerText: points(lo, 1), UpperText: points(hi, 1), NullText: points(null, 1),
+		LowerAnchor: "middle", UpperAnchor: "middle",
+	}
+	if x(hi)-x(lo) < 70 {
+		s.LowerAnchor, s.UpperAnchor = "end", "start"
+	}
+	return s
+}
+
+func coord(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) }
+
+func anyNaN(vs ...float64) bool {
+	for _, v := range vs {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return true
+		}
+	}
+	return false
+}
