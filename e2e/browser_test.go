@@ -84,6 +84,21 @@ func screenshot(t *testing.T, ctx context.Context, name string) {
 	t.Logf("screenshot: %s", abs)
 }
 
+// screenshotOf writes a PNG of the first element matching selector.
+func screenshotOf(t *testing.T, ctx context.Context, name, selector string) {
+	t.Helper()
+	png, err := chromedp.Run(ctx, chromedp.Screenshot(chromedp.CSS(selector)))
+	if err != nil {
+		t.Fatalf("screenshot %s: %v", name, err)
+	}
+	path := filepath.Join(outDir, name+".png")
+	if err := os.WriteFile(path, png, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	abs, _ := filepath.Abs(path)
+	t.Logf("screenshot: %s", abs)
+}
+
 // setWidth resizes the page's viewport (a narrow phone-sized notebook, say).
 func setWidth(t *testing.T, ctx context.Context, width int64) {
 	t.Helper()

@@ -63,6 +63,7 @@ func checkGermination(t *testing.T, ctx context.Context) {
 	opened := eval[string](t, ctx, `(() => { const d = document.querySelector('section[data-propscope="result-card"] details');
 		d.querySelector('summary').click(); return d.open ? d.innerText : ""; })()`)
 	wantText(t, "the opened method table", opened, "Wald", "Mee")
+	screenshotOf(t, ctx, "germination-card", `section[data-propscope="result-card"]`)
 	// At a phone's width the card fits; wide tables scroll inside it.
 	setWidth(t, ctx, 360)
 	overflow := eval[bool](t, ctx, `(() => { const c = document.querySelector('section[data-propscope="result-card"]');
@@ -70,6 +71,6 @@ func checkGermination(t *testing.T, ctx context.Context) {
 	if overflow {
 		t.Error("at 360 px the card is wider than the page")
 	}
-	screenshot(t, ctx, "germination-narrow")
+	screenshotOf(t, ctx, "germination-card-narrow", `section[data-propscope="result-card"]`)
 	setWidth(t, ctx, 1100)
 }

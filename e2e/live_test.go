@@ -120,16 +120,7 @@ func TestLiveNotebook(t *testing.T) {
 	// Classic Notebook scrolls inside #site, so bring the card into view
 	// and take the visible page.
 	eval[bool](t, ctx, `document.querySelector('section[data-propscope="result-card"]').scrollIntoView(); true`)
-	png, err := chromedp.Run(ctx, chromedp.Screenshot(chromedp.CSS(`section[data-propscope="result-card"]`)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	path := filepath.Join(outDir, "germination-live.png")
-	if err := os.WriteFile(path, png, 0o644); err != nil {
-		t.Fatal(err)
-	}
-	abs, _ := filepath.Abs(path)
-	t.Logf("screenshot: %s", abs)
+	screenshotOf(t, ctx, "germination-live", `section[data-propscope="result-card"]`)
 }
 
 // waitFor polls a JavaScript condition; the limit only stops a hung page.

@@ -62,17 +62,19 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 </ul>{{end}}
 {{if .Sections}}<details class="ps-more">
 <summary>Every interval method ({{.Level}})</summary>
-{{range .Sections}}<div class="ps-scroll"><table class="ps-t">
+{{range $s := .Sections}}<div class="ps-scroll"><table class="ps-t">
 <caption>{{.Title}} <span class="ps-muted">({{.Unit}})</span></caption>
-<thead><tr><th scope="col">Method</th><th scope="col" class="ps-n">Estimate</th><th scope="col" class="ps-n">Lower</th><th scope="col" class="ps-n">Upper</th><th scope="col">Note</th></tr></thead>
+<thead><tr><th scope="col">Method</th><th scope="col" class="ps-n">Estimate</th><th scope="col" class="ps-n">Lower</th><th scope="col" class="ps-n">Upper</th>{{if .HasNotes}}<th scope="col">Note</th>{{end}}</tr></thead>
 <tbody>{{range .Rows}}
-<tr><th scope="row">{{.Name}}{{if .Headline}} <span class="ps-tag">headline</span>{{end}}</th><td class="ps-n">{{.Estimate}}</td><td class="ps-n">{{.Lower}}</td><td class="ps-n">{{.Upper}}</td><td>{{.Note}}</td></tr>{{end}}
+<tr><th scope="row">{{.Name}}{{if .Headline}} <span class="ps-tag">headline</span>{{end}}</th><td class="ps-n">{{.Estimate}}</td><td class="ps-n">{{.Lower}}</td><td class="ps-n">{{.Upper}}</td>{{if $s.HasNotes}}<td>{{.Note}}</td>{{end}}</tr>{{end}}
 </tbody></table></div>
 {{end}}</details>{{end}}
-{{if .References}}<h4 class="ps-h">Methods and their sources</h4>
+{{if .References}}<details class="ps-more">
+<summary>Methods and their sources ({{len .References}})</summary>
 <ol class="ps-refs">{{range .References}}
 <li><strong>{{.Name}}</strong> — {{.Citation}}</li>{{end}}
-</ol>{{end}}
+</ol>
+</details>{{end}}
 <p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
 </section>`
 
@@ -102,7 +104,7 @@ const cardCSS = `
 .ps-card .ps-muted{opacity:.8}
 .ps-card .ps-small{font-size:.9em;margin:.1rem 0 .35rem}
 .ps-card .ps-h{font-size:1em;font-weight:650;margin:1rem 0 .35rem;padding:0}
-.ps-card .ps-scroll{overflow-x:auto;max-width:100%}
+.ps-card .ps-scroll{overflow-x:auto;width:0;min-width:100%}
 .ps-card table.ps-t{border-collapse:collapse;margin:0 0 .4rem;width:auto;min-width:60%;font-size:.95em;table-layout:auto;border:none}
 .ps-card table.ps-t caption{text-align:left;font-weight:600;padding:.5rem 0 .25rem;caption-side:top}
 .ps-card table.ps-t th,.ps-card table.ps-t td{text-align:left;padding:.3rem .7rem .3rem 0;border:none;border-bottom:1px solid rgba(128,128,128,.3);vertical-align:top;white-space:normal;max-width:none}

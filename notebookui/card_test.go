@@ -308,3 +308,21 @@ func TestStripPlacesTheIntervalOnTheAxis(t *testing.T) {
 		t.Error("a picture was drawn without a headline interval")
 	}
 }
+
+func TestClippedIntervalIsExplained(t *testing.T) {
+	a := germinationAnalysis()
+	// A Wald interval of 1.02 cut to 1 (the limit rule in proportions/interval.go).
+	a.Intervals[1].Upper, a.Intervals[1].RawUpper, a.Intervals[1].Clipped = 1, 1.02, true
+	c := ResultCard{Analysis: a, lookup: fixedReferences}
+	for form, s := range map[string]string{"html": html.UnescapeString(c.HTML()), "text": c.Text()} {
+		if !strings.Contains(s, "cut to the possible range; formula gave +3.80 to +102.00") {
+			t.Errorf("%s form does not explain the clipped limit", form)
+		}
+		if !strings.Contains(s, "Note") {
+			t.Errorf("%s form lacks the Note column", form)
+		}
+	}
+	if strings.Contains(fixtureCard().Text(), "Note") {
+		t.Error("the Note column shows although no interval has a note")
+	}
+}

@@ -127,13 +127,20 @@ func testCells(tests []testRow) cells {
 }
 
 func methodCells(s methodSection) cells {
-	c := cells{header: []string{"Method", "Estimate", "Lower", "Upper", "Note"}, numeric: []bool{false, true, true, true, false}}
+	c := cells{header: []string{"Method", "Estimate", "Lower", "Upper"}, numeric: []bool{false, true, true, true}}
+	if s.HasNotes() {
+		c.header, c.numeric = append(c.header, "Note"), append(c.numeric, false)
+	}
 	for _, r := range s.Rows {
 		name := r.Name
 		if r.Headline {
 			name += " [headline]"
 		}
-		c.rows = append(c.rows, []string{name, r.Estimate, r.Lower, r.Upper, r.Note})
+		row := []string{name, r.Estimate, r.Lower, r.Upper}
+		if s.HasNotes() {
+			row = append(row, r.Note)
+		}
+		c.rows = append(c.rows, row)
 	}
 	return c
 }

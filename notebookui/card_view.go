@@ -55,6 +55,17 @@ type methodSection struct {
 	Rows  []methodRow
 }
 
+// HasNotes reports whether any row has a note; the Note column is shown
+// only then.
+func (s methodSection) HasNotes() bool {
+	for _, r := range s.Rows {
+		if r.Note != "" {
+			return true
+		}
+	}
+	return false
+}
+
 type methodRow struct {
 	Name, Estimate, Lower, Upper, Note string
 	Headline                           bool
