@@ -567,3 +567,20 @@ func TestPlanningAgainstSciPy(t *testing.T) {
 		}
 	}
 }
+
+// Rare events, where golden-section search is too flat to be precise: the
+// roots of the likelihood equation computed with mpmath at 40 digits
+// (general-purpose arbitrary precision, findroot by bisection; Debian
+// python3-mpmath), status recomputed.
+func TestNullRatesRareEvents(t *testing.T) {
+	cases := []struct{ p1, p2, r, delta, want1 float64 }{
+		{0.001, 0.001, 1, 0.002, 0.002617585960807138793},
+		{1e-5, 1e-5, 1, 1e-5, 0.00001707105013396045869},
+	}
+	for _, c := range cases {
+		q1, q2 := nullRates(Difference, c.p1, c.p2, c.r, c.delta)
+		if math.Abs(q1-c.want1) > 1e-12*c.want1 || math.Abs(q2-(c.want1-c.delta)) > 1e-11*(c.want1-c.delta) {
+			t.Errorf("p = %v, δ = %v: π̃1 = %.17g, want %.17g", c.p1, c.delta, q1, c.want1)
+		}
+	}
+}

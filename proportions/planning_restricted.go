@@ -58,5 +58,20 @@ func differenceNullRate1(p1, p2, r, delta float64) float64 {
 	x := 2*u*math.Cos(w) - b/(3*a)
 	// Keep the root inside the parameter space (guards rounding at the edges).
 	lo, hi := math.Max(0, delta), math.Min(1, 1+delta)
-	return math.Max(lo, math.Min(hi, x))
+	x = math.Max(lo, math.Min(hi, x))
+	// The closed form loses relative precision for rare events (its terms
+	// are near 1/3 while the root is tiny); two Newton steps on the
+	// likelihood equation itself restore it.
+	for range 2 {
+		t, v := x, x-delta
+		if !(t > lo && t < hi) {
+			break
+		}
+		g := p1/t - (1-p1)/(1-t) + r*(p2/v-(1-p2)/(1-v))
+		dg := -p1/(t*t) - (1-p1)/((1-t)*(1-t)) - r*(p2/(v*v)+(1-p2)/((1-v)*(1-v)))
+		if next := t - g/dg; next > lo && next < hi {
+			x = next
+		}
+	}
+	return x
 }

@@ -41,3 +41,24 @@ func ExampleExactPower() {
 	// Output:
 	// exact 0.586, normal approximation 0.671
 }
+
+// The saw-tooth of exact power as data for a chart: Fisher's exact test,
+// 70% against 20%, for 17 to 22 plots per treatment.
+func ExampleExactPowerByN() {
+	d := proportions.NewDesign(proportions.Equality, 0.70, 0.20)
+	curve, err := planning.ExactPowerByN(context.Background(), d, proportions.Fisher, 17, 22)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, p := range curve.Points {
+		fmt.Printf("n = %d: %.4f\n", p.N1, p.Power)
+	}
+	// Output:
+	// n = 17: 0.7919
+	// n = 18: 0.8349
+	// n = 19: 0.8517
+	// n = 20: 0.8461
+	// n = 21: 0.8628
+	// n = 22: 0.8901
+}
