@@ -214,11 +214,11 @@ func (m model) bisectSize(power float64) float64 {
 	return findRoot(func(n float64) float64 { return m.power(n) - power }, 0, hi, 1e-10*hi)
 }
 
-// findRoot returns x in [a, b] with g(x) = 0 to within tol, for g
-// continuous with g(a), g(b) of opposite signs, by regula falsi with the
-// Illinois modification (Dowell & Jarratt 1971), which converges
-// superlinearly and never leaves the bracket. If the signs do not differ it
-// returns the end nearer a zero.
+// findRoot returns x in [a, b] with g(x) = 0 to within tol in x (or
+// |g(x)| ≤ 1e−15, all a power can resolve), for g continuous with g(a),
+// g(b) of opposite signs, by regula falsi with the Illinois modification
+// (Dowell & Jarratt 1971), which converges superlinearly and never leaves
+// the bracket. If the signs do not differ it returns b.
 func findRoot(g func(float64) float64, a, b, tol float64) float64 {
 	ga, gb := g(a), g(b)
 	if ga == 0 {
@@ -231,11 +231,16 @@ func findRoot(g func(float64) float64, a, b, tol float64) float64 {
 	for range 200 {
 		x := (a*gb - b*ga) / (gb - ga)
 		if !(x > math.Min(a, b) && x < math.Max(a, b)) {
-			x = (a + b) / 2
+			// The interpolation rounds onto an end: that end is the root
+			// to within rounding.
+			if math.Abs(ga) < math.Abs(gb) {
+				return a
+			}
+			return b
 		}
 		gx := g(x)
 		switch {
-		case gx == 0:
+		case math.Abs(gx) <= 1e-15:
 			return x
 		case (gx > 0) == (gb > 0):
 			b, gb = x, gx

@@ -40,8 +40,8 @@ type DetectableResult struct {
 
 // DetectableDifference returns the true rates of the first group that the
 // design detects with its target power given n1 and n2 units with an
-// outcome, by the asymptotic model of SampleSize (solved for π1 by
-// bisection, π2 = Design.Rate2 held fixed). Design.Rate1, Allocation and
+// outcome, by the asymptotic model of SampleSize (solved for π1 by root
+// finding, π2 = Design.Rate2 held fixed). Design.Rate1, Allocation and
 // Dropout are not used. It returns an error wrapping ErrUnreachable when
 // no rate on any side reaches the power, and the errors of PowerAt for
 // bad input.
@@ -55,11 +55,7 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return DetectableResult{}, err
 	}
-	r := float64(n2) / float64(n1)
-	z := d.critical()
-	power := func(p1 float64) float64 {
-		return newModelZ(d, p1, d.Rate2, r, z).power(float64(n1))
-	}
+	sr := rateSearch{d: d, r: float64(n2) / float64(n1), n1: float64(n1), z: d.critical(), zp: NormalQuantile(d.Power)}
 	method, cite, _ := describeMethod(d)
 	res := DetectableResult{Design: d, Method: method, Citation: cite, N1: n1, N2: n2, Caution: PlanningCaution}
 	const edge = 1e-9 // keep π1 inside (0, 1)
@@ -67,23 +63,23 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 	switch d.Goal {
 	case Equivalence:
 		centre := d.Rate2
-		if power(centre) < d.Power {
+		if p := sr.power(centre); p < d.Power {
 			return res, fmt.Errorf("with %d and %d units even equal rates (%v) show equivalence with power %.4f < %v: %w; enlarge the groups or widen the margin",
-				n1, n2, centre, power(centre), d.Power, ErrUnreachable)
+				n1, n2, centre, p, d.Power, ErrUnreachable)
 		}
 		lower, upper := d.equivalenceBounds()
-		res.Below = d.side(bisectRate(power, centre, math.Max(lo, d.rateAt(lower)), d.Power))
-		res.Above = d.side(bisectRate(power, centre, math.Min(hi, d.rateAt(upper)), d.Power))
+		res.Below = d.side(sr.find(0, centre, math.Max(lo, d.rateAt(lower))))
+		res.Above = d.side(sr.find(1, centre, math.Min(hi, d.rateAt(upper))))
 		return res, nil
 	case Equality:
-		res.Below = d.side(bisectRate(power, d.Rate2, lo, d.Power))
-		res.Above = d.side(bisectRate(power, d.Rate2, hi, d.Power))
+		res.Below = d.side(sr.find(1, d.Rate2, lo))
+		res.Above = d.side(sr.find(0, d.Rate2, hi))
 	default:
 		start := d.rateAt(d.Margin)
 		if d.Alternative == Greater {
-			res.Above = d.side(bisectRate(power, math.Max(lo, start), hi, d.Power))
+			res.Above = d.side(sr.find(0, math.Max(lo, start), hi))
 		} else {
-			res.Below = d.side(bisectRate(power, math.Min(hi, start), lo, d.Power))
+			res.Below = d.side(sr.find(0, math.Min(hi, start), lo))
 		}
 	}
 	if !res.Above.Found && !res.Below.Found {
@@ -91,6 +87,68 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 			n1, n2, d.Power, d.Rate2, ErrUnreachable)
 	}
 	return res, nil
+}
+
+// rateSearch solves the design's power for the first group's rate, π2 and
+// the group sizes fixed.
+type rateSearch struct {
+	d     Design
+	r, n1 float64
+	z, zp float64 // critical value and z_{power}
+}
+
+func (s rateSearch) model(p1 float64) model { return newModelZ(s.d, p1, s.d.Rate2, s.r, s.z) }
+
+func (s rateSearch) power(p1 float64) float64 { return s.model(p1).power(s.n1) }
+
+// find returns the rate between from and to where the power crosses the
+// target, assuming at most one crossing (power below the target at from,
+// or above it for equivalence); it reports false when the power does not
+// cross and returns to when the whole range reaches the target. Test k of
+// the model is the one that decides on this side: the rate where it alone
+// has the target power, E·√n1 = z·√V0 + z_{power}·√V1, found by a few
+// fixed-point steps (the variances change slowly with π1), is the starting
+// guess; regula falsi finishes on the full power.
+func (s rateSearch) find(k int, from, to float64) (float64, bool) {
+	target := s.d.Power
+	inside := s.power(from) >= target
+	if (s.power(to) >= target) == inside {
+		return to, inside
+	}
+	a, b := math.Min(from, to), math.Max(from, to)
+	p, sd1 := from, 0.0
+	for range 4 {
+		t := s.model(p).tests[k]
+		e := (t.z*t.sd0 + s.zp*t.sd1) / math.Sqrt(s.n1)
+		if !t.upper {
+			e = -e
+		}
+		p, sd1 = math.Max(a, math.Min(b, p-t.mean+e)), t.sd1
+	}
+	// Newton steps on the full power with the slope of the deciding test,
+	// φ(z_power)·√n1/√V1 per unit of π1, until the crossing is bracketed;
+	// then regula falsi on the small bracket.
+	g := func(x float64) float64 { return s.power(x) - target }
+	slope := math.Exp(-s.zp*s.zp/2) / math.Sqrt(2*math.Pi) * math.Sqrt(s.n1) / sd1
+	if (to > from) == inside {
+		slope = -slope // power falls as π1 moves toward to
+	}
+	gp := g(p)
+	for range 8 {
+		if gp == 0 {
+			return p, true
+		}
+		next := math.Max(a, math.Min(b, p-1.5*gp/slope)) // overshoot a little to bracket
+		gn := g(next)
+		if (gn > 0) != (gp > 0) || gn == 0 {
+			return findRoot(g, p, next, 1e-12), true
+		}
+		p, gp = next, gn
+	}
+	if (gp > 0) == inside {
+		return findRoot(g, p, to, 1e-12), true
+	}
+	return findRoot(g, from, p, 1e-12), true
 }
 
 // rateAt returns the first group's rate at which θ equals v, given π2.
@@ -107,18 +165,6 @@ func (d Design) side(p1 float64, ok bool) DetectableSide {
 		return DetectableSide{}
 	}
 	return DetectableSide{Found: true, Rate1: p1, Difference: p1 - d.Rate2, Ratio: p1 / d.Rate2}
-}
-
-// bisectRate finds where power(p) crosses the target between from and to,
-// assuming at most one crossing (power below the target at from, or above it
-// for equivalence). It reports false when power does not cross on the way
-// and returns to when the whole range reaches the target.
-func bisectRate(power func(float64) float64, from, to, target float64) (float64, bool) {
-	inside := power(from) >= target
-	if (power(to) >= target) == inside {
-		return to, inside
-	}
-	return findRoot(func(p float64) float64 { return power(p) - target }, from, to, 1e-10), true
 }
 
 // String prints what the design can detect.
