@@ -50,7 +50,8 @@ func ExampleTable_Surface() {
 
 // Which interval for the difference should a quality engineer comparing
 // 100 parts from each of two lines report? The answer depends on the
-// design only, so it can be fixed before the parts are inspected.
+// design only, so it can be fixed before the parts are inspected. Here is
+// what the ranking says about the textbook Wald interval.
 func ExampleRecommend() {
 	d, _ := exact.NewDesign(100, 100, 0.95)
 	rec, err := exact.Recommend(context.Background(), proportions.Difference, d)
@@ -58,10 +59,37 @@ func ExampleRecommend() {
 		fmt.Println(err)
 		return
 	}
-	best, _ := rec.Best()
-	fmt.Println(best.Name+":", best.Reason)
+	for _, r := range rec.Ranking {
+		if r.Method == "wald" {
+			fmt.Println(r.Name+":", r.Reason)
+		}
+	}
 	// Output:
-	// Mee score: holds the level, its lowest coverage being 93.29% at (π1 = 0.05, π2 = 0.01); average 94.97%, 0.033 points from 95.00%; mean width 0.2228.
+	// Wald: falls to 79.99% at (π1 = 0.02, π2 = 0.99), more than 2 points below 95.00%, so it ranks after the methods that hold the level; average 94.55%.
+}
+
+// Coverage along the line of a true difference of 10 points, where a
+// germination trial would be planned.
+func ExampleTable_AlongEffect() {
+	d, _ := exact.NewDesign(40, 40, 0.95)
+	tab, err := exact.NewTable(context.Background(), proportions.AgrestiCaffo, d)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s, err := tab.AlongEffect(context.Background(), 0.10, exact.WithSteps(5))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Print(s)
+	// Output:
+	// Agresti–Caffo, n1 = 40, n2 = 40, 95% level, difference fixed at 0.1:
+	//   π1 = 0.1, π2 = 0: coverage 98.37% (below 1.48%, above 0.15%), width 0.2127
+	//   π1 = 0.325, π2 = 0.225: coverage 95.26% (below 2.60%, above 2.14%), width 0.3795
+	//   π1 = 0.55, π2 = 0.45: coverage 94.46% (below 2.84%, above 2.71%), width 0.4209
+	//   π1 = 0.775, π2 = 0.675: coverage 95.26% (below 2.60%, above 2.14%), width 0.3795
+	//   π1 = 1, π2 = 0.9: coverage 98.37% (below 1.48%, above 0.15%), width 0.2127
 }
 
 // The exact power of a test for a planned study, and its actual size.

@@ -3,9 +3,7 @@ package exact
 import (
 	"context"
 	"fmt"
-	"runtime"
 	"slices"
-	"sync"
 
 	"github.com/propscope/propscope/proportions"
 )
@@ -71,6 +69,12 @@ func Power(t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, pi1, 
 
 // Power is the exact power of the decision (see the function [Power]).
 func (d Decision) Power(n1, n2 int, pi1, pi2 float64) (float64, error) {
+	return d.PowerContext(context.Background(), n1, n2, pi1, pi2)
+}
+
+// PowerContext is Power with cancellation, for tests slow enough to need
+// it (exact tests that search a nuisance parameter at every outcome).
+func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64) (float64, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return 0, err
 	}
@@ -85,32 +89,25 @@ func (d Decision) Power(n1, n2 int, pi1, pi2 float64) (float64, error) {
 	b2.fill(n2, pi2, make([]float64, n2+1))
 	rows := b1.hi - b1.lo + 1
 	sums := make([]float64, rows)
-	work := func(from, to int) {
-		c := proportions.Counts{N1: int64(n1), N2: int64(n2)}
-		for x1 := from; x1 < to; x1++ {
-			c.X1 = int64(x1)
-			var s float64
-			for x2 := b2.lo; x2 <= b2.hi; x2++ {
-				c.X2 = int64(x2)
-				if d.Rejects(c) {
-					s += b2.p[x2]
-				}
-			}
-			sums[x1-b1.lo] = s
-		}
-	}
-	// Split the rows between the cores when there is enough work.
-	workers := min(runtime.GOMAXPROCS(0), rows)
+	workers := 0 // every core
 	if rows*(b2.hi-b2.lo+1) < 4096 {
 		workers = 1
 	}
-	var wg sync.WaitGroup
-	for w := range workers {
-		from, to := b1.lo+w*rows/workers, b1.lo+(w+1)*rows/workers
-		wg.Add(1)
-		go func() { defer wg.Done(); work(from, to) }()
+	err := parallel(ctx, workers, rows, func(i int) error {
+		c := proportions.Counts{X1: int64(b1.lo + i), N1: int64(n1), N2: int64(n2)}
+		var s float64
+		for x2 := b2.lo; x2 <= b2.hi; x2++ {
+			c.X2 = int64(x2)
+			if d.Rejects(c) {
+				s += b2.p[x2]
+			}
+		}
+		sums[i] = s
+		return nil
+	})
+	if err != nil {
+		return 0, err
 	}
-	wg.Wait()
 	var power float64
 	for i, s := range sums {
 		power += b1.p[b1.lo+i] * s
