@@ -1,7 +1,6 @@
 package planning
 
 import (
-	"cmp"
 	"context"
 	"fmt"
 	"strings"
@@ -158,7 +157,7 @@ func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.Te
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
-	if maxN := cmp.Or(s.MaxN1, DefaultMaxN1); asym.Unrounded > 1.5*float64(maxN) {
+	if maxN := s.maxN1(d); asym.Unrounded > 1.5*float64(maxN) {
 		return ExactSampleSizeResult{}, fmt.Errorf("the normal approximation needs n1 = %d: %w; the exact search stops at n1 = %d (Search.MaxN1); at such sizes the approximation is close",
 			asym.N1, proportions.ErrTooLarge, maxN)
 	}

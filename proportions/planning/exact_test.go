@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"strings"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -386,5 +387,39 @@ func TestExactPowerFisherAgainstSciPy(t *testing.T) {
 		if math.Abs(res.Power-c.Power) > 1e-10 {
 			t.Errorf("%s: exact power %.12f, SciPy %.12f", c.ID, res.Power, c.Power)
 		}
+	}
+}
+
+func TestExactResultsPrintAndMarshal(t *testing.T) {
+	d := proportions.NewDesign(proportions.Equality, 0.7, 0.2)
+	d.Power, d.Dropout, d.Allocation = 0.85, 0.1, 2
+	res, err := ExactSampleSize(context.Background(), d, proportions.Fisher, Search{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.Stable.N2 != d.SecondGroupSize(res.Stable.N1) || res.Stable.Enrolled1 != d.Enrolled(res.Stable.N1) {
+		t.Errorf("sizes %+v", res.Stable)
+	}
+	b, err := json.Marshal(res)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{`"test":"fisher"`, `"first":{"n1":`, `"stable_found":true`, `"axis":"n1"`} {
+		if !strings.Contains(string(b), want) {
+			t.Errorf("JSON lacks %s", want)
+		}
+	}
+	if s := res.String(); !strings.Contains(s, "Fisher") || !strings.Contains(s, "enrol") {
+		t.Errorf("String: %s", s)
+	}
+	p, err := ExactPower(context.Background(), d, proportions.Fisher, 20, 40)
+	if err != nil || !strings.Contains(p.String(), "Exact power") {
+		t.Errorf("ExactPower String: %v %v", p, err)
+	}
+	// A large allocation keeps group 2 within the engine's limit.
+	wide := proportions.NewDesign(proportions.Equality, 0.5, 0.7)
+	wide.Allocation = 30
+	if _, err := ExactSampleSize(context.Background(), wide, proportions.PearsonChiSquare, Search{}); err != nil {
+		t.Errorf("allocation 50: %v", err)
 	}
 }

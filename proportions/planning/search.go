@@ -9,8 +9,9 @@ import (
 )
 
 // DefaultMaxN1 is the largest group-1 size the exact search visits unless
-// Search.MaxN1 says otherwise.
-const DefaultMaxN1 = 2000
+// Search.MaxN1 says otherwise; the search also keeps group 2 within
+// MaxExactGroup.
+const DefaultMaxN1 = MaxExactGroup
 
 // Search bounds the exact sample-size search. The zero value scans from
 // n1 = 1 with the default horizon and DefaultMaxN1.
@@ -25,8 +26,22 @@ type Search struct {
 	// target, widened by a quarter at a time (up to MaxN1) until the power
 	// at the horizon itself reaches the target.
 	Horizon int64 `json:"horizon"`
-	// MaxN1 caps the scan (default DefaultMaxN1).
+	// MaxN1 caps the scan (default DefaultMaxN1, lowered when needed so
+	// that group 2, ⌈r·n1⌉, stays within MaxExactGroup).
 	MaxN1 int64 `json:"max_n1"`
+}
+
+// maxN1 is the cap of the scan: MaxN1 (default DefaultMaxN1), lowered so
+// that group 2 stays within MaxExactGroup.
+func (s Search) maxN1(d proportions.Design) int64 {
+	maxN := s.MaxN1
+	if maxN == 0 {
+		maxN = DefaultMaxN1
+	}
+	for maxN > 1 && d.SecondGroupSize(maxN) > MaxExactGroup {
+		maxN--
+	}
+	return maxN
 }
 
 // powerFunc is exact power at group sizes (n1, n2).
@@ -46,12 +61,9 @@ type scanResult struct {
 // on to the horizon, and finds the smallest size from which every size up
 // to the horizon reaches the target.
 func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) (scanResult, error) {
-	from, maxN := s.From, s.MaxN1
+	from, maxN := s.From, s.maxN1(d)
 	if from == 0 {
 		from = 1
-	}
-	if maxN == 0 {
-		maxN = DefaultMaxN1
 	}
 	if from < 1 || maxN < from || maxN > proportions.MaxTrials || s.Horizon < 0 || (s.Horizon > 0 && s.Horizon < from) {
 		return scanResult{}, fmt.Errorf("search from %d, horizon %d, cap %d: %w; give 1 ≤ From ≤ MaxN1 and a horizon of 0 (default) or at least From",
@@ -71,8 +83,8 @@ func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) 
 	n := from
 	for ; ; n++ {
 		if n > maxN {
-			return res, fmt.Errorf("exact power stays below %v for every n1 from %d to %d: %w; raise Search.MaxN1 or check the design with the asymptotic SampleSize",
-				d.Power, from, maxN, proportions.ErrUnreachable)
+			return res, fmt.Errorf("exact power stays below %v for every n1 from %d to %d (n2 up to %d): %w; raise Search.MaxN1 (at most %d units per group) or check the design with the asymptotic SampleSize",
+				d.Power, from, maxN, d.SecondGroupSize(maxN), proportions.ErrUnreachable, MaxExactGroup)
 		}
 		p, err := at(n)
 		if err != nil {
