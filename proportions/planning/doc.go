@@ -18,7 +18,6 @@
 // that reaches the target, and the smallest size from which every size up
 // to a stated horizon reaches it.
 //
-// Functions that enumerate take a context.Context (checked between group
-// sizes, and within the rejection region of ExactPowerByDifference) and use
-// every core.
+// Functions that enumerate take a context.Context, stop when it is
+// cancelled, and use every core.
 package planning

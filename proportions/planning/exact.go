@@ -81,13 +81,9 @@ func newDecision(d proportions.Design, m proportions.TestMethod) (exact.Decision
 	return exact.Decision{Test: m, Hypotheses: hs}, nil
 }
 
-// exactPower is the engine's exact power, after a check of the context (the
-// engine's single evaluations are short; searches check between sizes).
+// exactPower is the engine's exact power, cancelled with ctx.
 func exactPower(ctx context.Context, dc exact.Decision, n1, n2 int64, p1, p2 float64) (float64, error) {
-	if err := ctx.Err(); err != nil {
-		return 0, err
-	}
-	return dc.Power(int(n1), int(n2), p1, p2)
+	return dc.PowerContext(ctx, int(n1), int(n2), p1, p2)
 }
 
 func checkSizes(n1, n2 int64) error {
