@@ -7,6 +7,7 @@ import (
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
 )
 
 // ChartOption adjusts a chart. Each chart function documents which options
@@ -37,6 +38,24 @@ func newChartSettings(options []ChartOption) chartSettings {
 // design).
 func WithRecommended(methodKey, reason string) ChartOption {
 	return func(s *chartSettings) { s.recommended, s.reason = methodKey, reason }
+}
+
+// WithRecommendation marks the best-ranked method of a coverage-based
+// recommendation (see exact.Recommend) with its one-sentence reason. A nil
+// or empty recommendation leaves the default.
+func WithRecommendation(r *exact.Recommendation) ChartOption {
+	return func(s *chartSettings) {
+		if r == nil {
+			return
+		}
+		best, ok := r.Best()
+		if !ok {
+			return
+		}
+		s.recommended = best.Method
+		s.reason = fmt.Sprintf("%s is recommended for a design of %d and %d units at %s: %s",
+			best.Name, r.Design.N1, r.Design.N2, fmtLevel(r.Design.Level), best.Reason)
+	}
 }
 
 // WithHeight sets the chart's height in pixels (the width follows the page).
@@ -89,8 +108,8 @@ func (s chartSettings) heightOr(px int) int {
 // mark. Limits that a method put outside [−1, 1] end in an arrow: they were
 // clipped to the parameter space.
 //
-// Options read: WithRecommended (default: the analysis's headline interval,
-// the one that matches its test), WithHeight.
+// Options read: WithRecommended or WithRecommendation (default: the
+// analysis's headline interval, the one that matches its test), WithHeight.
 func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) {
 	if len(a.Intervals) == 0 {
 		return nil, fmt.Errorf("difference intervals chart: %w: the analysis has no interval for the difference", errNoIntervals)

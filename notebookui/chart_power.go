@@ -103,7 +103,18 @@ func powerBySize(curves []proportions.PowerCurve, s chartSettings) (*Chart, erro
 			}
 		}
 		if len(marks) > 0 {
-			line["markPoint"] = map[string]any{"symbol": "pin", "symbolSize": 34, "data": marks}
+			mp := map[string]any{"symbol": "pin", "symbolSize": 34, "data": marks}
+			if i%2 == 1 {
+				// Every other curve's pins point up from below the line, so
+				// the marks of curves that reach the target at nearby sizes
+				// do not cover each other.
+				mp["symbolRotate"] = 180
+				mp["symbolOffset"] = []int{0, 17}
+				for _, m := range marks {
+					m.(map[string]any)["label"].(map[string]any)["position"] = "bottom"
+				}
+			}
+			line["markPoint"] = mp
 		}
 		if i == 0 {
 			line["markLine"] = targetLine(target, d.Alpha, false)

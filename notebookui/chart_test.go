@@ -1,6 +1,7 @@
 package notebookui
 
 import (
+	"context"
 	"crypto/sha256"
 	"encoding/hex"
 	"encoding/json"
@@ -10,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/exact"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -422,5 +424,36 @@ func TestConfidenceCurveOfAnalysis(t *testing.T) {
 		if _, err := ConfidenceCurveChart(a); err != nil {
 			t.Error(err)
 		}
+	}
+}
+
+func TestDifferenceChartWithRecommendation(t *testing.T) {
+	c, err := proportions.NewComparison(7, 20, 2, 20, proportions.Labels{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := proportions.Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	d, _ := exact.NewDesign(20, 20, 0.95)
+	grid := []float64{0.05, 0.2, 0.35, 0.5, 0.65, 0.8, 0.95}
+	rec, err := exact.Recommend(context.Background(), proportions.Difference, d, exact.WithGrid(grid, grid))
+	if err != nil {
+		t.Fatal(err)
+	}
+	best, _ := rec.Best()
+	ch, err := DifferenceIntervalsChart(a, WithRecommendation(rec))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, item := range seriesList(t, optionOfChart(t, ch))[0]["data"].([]any) {
+		it := item.(map[string]any)
+		if (it["mark"] == "recommended") != (it["name"] == best.Name) {
+			t.Errorf("%v marked %v; the recommendation's best is %s", it["name"], it["mark"], best.Name)
+		}
+	}
+	if !strings.Contains(ch.Text(), best.Reason) {
+		t.Errorf("the chart does not give the recommendation's reason %q", best.Reason)
 	}
 }
