@@ -4,7 +4,6 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
-	"math"
 	"slices"
 
 	"github.com/propscope/propscope/proportions"
@@ -86,7 +85,8 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 // The work is shared by all points: each interval was computed once by
 // NewTable, and the points are visited in order of their truth so that each
 // row's run of covered outcomes moves a few steps between points (see the
-// package documentation). Progress counts points done.
+// package documentation). Progress counts the points computed (about half
+// the grid when mirror images are copied, see below).
 func (t *Table) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
 	cfg := newConfig(opts)
 	pi1, pi2 := cfg.pi1, cfg.pi2
@@ -106,10 +106,17 @@ func (t *Table) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
 		Coverage: make([]float64, g1*g2), Below: make([]float64, g1*g2), Above: make([]float64, g1*g2),
 		Width: make([]float64, g1*g2), Unbounded: make([]float64, g1*g2), Defined: make([]bool, g1*g2),
 	}
+	// A Symmetric difference method with n1 = n2 has the same coverage at
+	// (π2, π1) as at (π1, π2), with the two sides exchanged (exchange the
+	// groups: the truth and every interval change sign, exactly). On a
+	// square grid only the points with i ≤ j are computed.
+	mirrored := t.method.Symmetric && t.family() == proportions.Difference && t.n1 == t.n2 && slices.Equal(pi1, pi2)
 	pairs := make([]pair, 0, g1*g2)
 	for i := range pi1 {
 		for j := range pi2 {
-			pairs = append(pairs, pair{int32(i), int32(j)})
+			if !mirrored || i <= j {
+				pairs = append(pairs, pair{int32(i), int32(j)})
+			}
 		}
 	}
 	points, err := t.evaluate(ctx, s.Pi1, s.Pi2, pairs, cfg)
@@ -117,15 +124,18 @@ func (t *Table) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
 		return nil, err
 	}
 	for k, p := range points {
-		s.Coverage[k], s.Below[k], s.Above[k], s.Width[k], s.Unbounded[k] = p.Coverage, p.Below, p.Above, p.Width, p.Unbounded
-		s.Defined[k] = p.Defined
+		i, j := int(pairs[k].i), int(pairs[k].j)
+		s.set(i*g2+j, p.Defined, p.Coverage, p.Below, p.Above, p.Width, p.Unbounded)
+		if mirrored {
+			s.set(j*g2+i, p.Defined, p.Coverage, p.Above, p.Below, p.Width, p.Unbounded)
+		}
 	}
 	return s, nil
 }
 
-func (s *Surface) setUndefined(k int) {
-	nan := math.NaN()
-	s.Coverage[k], s.Below[k], s.Above[k], s.Width[k], s.Unbounded[k] = nan, nan, nan, nan, nan
+func (s *Surface) set(k int, defined bool, cov, below, above, width, unbounded float64) {
+	s.Defined[k] = defined
+	s.Coverage[k], s.Below[k], s.Above[k], s.Width[k], s.Unbounded[k] = cov, below, above, width, unbounded
 }
 
 func validateGrid(name string, v []float64) error {
