@@ -69,3 +69,23 @@ func ExampleRestrictedMLE() {
 	// Output:
 	// 0.6028 0.6528
 }
+
+// A non-inferiority reading with the paired score test and interval: is
+// coated seed at most 10 points worse than uncoated? The one-sided test at
+// α = 2.5% rejects H0: π1 − π2 = −0.10 exactly when the lower limit of the
+// 95% interval lies above −0.10.
+func ExampleFarringtonManningPair() {
+	test, interval := proportions.FarringtonManningPair()
+	c := proportions.Counts{X1: 84, N1: 120, X2: 66, N2: 118}
+	r, err := test.Test(c, proportions.WithNull(-0.10), proportions.WithAlternative(proportions.Greater), proportions.WithLevel(0.975))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	iv, _ := interval.Interval(c, 0.95)
+	fmt.Println(r)
+	fmt.Printf("lower limit %.4f\n", iv.Lower)
+	// Output:
+	// Farrington–Manning score test: z = 3.855, p = 5.798e-05 (greater, null -0.1): reject at 2.5%
+	// lower limit 0.0181
+}
