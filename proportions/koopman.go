@@ -34,9 +34,9 @@ func koopmanLimits(c Counts, conf Confidence) (lower, upper float64) {
 // below the estimate), so that it falls as θ grows. The sign is not taken
 // from x1 − n1p̃1, which is 0 when p̃1 = 1 while the second term is not.
 func koopmanSigned(c Counts, theta float64) float64 {
-	p1, p2 := restrictedUnderRatio(c, theta)
+	f := fitUnderRatio(c, theta)
 	n1, n2 := float64(c.N1), float64(c.N2)
-	u := pearsonTerm(float64(c.X1), n1*p1, n1*p1*(1-p1)) + pearsonTerm(float64(c.X2), n2*p2, n2*p2*(1-p2))
+	u := pearsonTerm(f.residual1(c), n1*f.p1*f.q1) + pearsonTerm(f.residual2(c), n2*f.p2*f.q2)
 	s := math.Max(theta, 1)
 	return math.Copysign(math.Sqrt(u), c.P1()/s-(theta/s)*c.P2())
 }

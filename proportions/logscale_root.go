@@ -24,7 +24,12 @@ const rootTolerance = 1e-11
 // parameter scale) and +Inf when g is still positive at +maxLogScale (the
 // limit is ∞).
 func decreasingCrossing(g func(t float64) float64, t0, step float64) float64 {
-	g0 := g(t0)
+	return decreasingCrossingFrom(g, t0, g(t0), step)
+}
+
+// decreasingCrossingFrom is decreasingCrossing when g(t0) = g0 is already
+// known (a score statistic is 0 at the estimate), saving one evaluation.
+func decreasingCrossingFrom(g func(t float64) float64, t0, g0, step float64) float64 {
 	if g0 == 0 {
 		return t0
 	}

@@ -12,10 +12,10 @@ import "math"
 // Pearson chi-square of the table against the fitted counts. z falls as ψ
 // grows.
 func oddsRatioScore(c Counts, psi, f float64) float64 {
-	p1, p2 := restrictedUnderOddsRatio(c, psi)
+	fit := fitUnderOddsRatio(c, psi)
 	n1, n2 := float64(c.N1), float64(c.N2)
-	num := float64(c.X1) - n1*p1
-	v1, v2 := n1*p1*(1-p1), n2*p2*(1-p2)
+	num := fit.residual1(c)
+	v1, v2 := n1*fit.p1*fit.q1, n2*fit.p2*fit.q2
 	if num == 0 {
 		return 0
 	}
@@ -65,11 +65,22 @@ func oddsRatioLimitsFrom(c Counts, conf Confidence, z func(t float64) float64) (
 	}
 	t0, se := adjustedLogOddsRatio(c)
 	step := conf.Z * se
-	if c.X1 > 0 && c.X2 < c.N2 {
-		lower = math.Exp(decreasingCrossing(func(t float64) float64 { return z(t) - conf.Z }, t0, step))
+	lowerFn := func(t float64) float64 { return z(t) - conf.Z }
+	upperFn := func(t float64) float64 { return z(t) + conf.Z }
+	hasLower, hasUpper := c.X1 > 0 && c.X2 < c.N2, c.X2 > 0 && c.X1 < c.N1
+	if hasLower && hasUpper {
+		// Start at the estimate, where the statistic is 0.
+		a, b := float64(c.X1), float64(c.N1-c.X1)
+		cc, d := float64(c.X2), float64(c.N2-c.X2)
+		t0 = math.Log(a) + math.Log(d) - math.Log(b) - math.Log(cc)
+		return math.Exp(decreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
+			math.Exp(decreasingCrossingFrom(upperFn, t0, conf.Z, step))
 	}
-	if c.X2 > 0 && c.X1 < c.N1 {
-		upper = math.Exp(decreasingCrossing(func(t float64) float64 { return z(t) + conf.Z }, t0, step))
+	if hasLower {
+		lower = math.Exp(decreasingCrossing(lowerFn, t0, step))
+	}
+	if hasUpper {
+		upper = math.Exp(decreasingCrossing(upperFn, t0, step))
 	}
 	return lower, upper
 }

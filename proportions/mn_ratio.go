@@ -43,11 +43,19 @@ func ratioLimitsFrom(c Counts, conf Confidence, z func(t float64) float64) (lowe
 	}
 	t0, se := adjustedLogRatio(c)
 	step := conf.Z * se
+	lowerFn := func(t float64) float64 { return z(t) - conf.Z }
+	upperFn := func(t float64) float64 { return z(t) + conf.Z }
+	if c.X1 > 0 && c.X2 > 0 {
+		// Start at the estimate, where the statistic is 0.
+		t0 = math.Log(c.P1()) - math.Log(c.P2())
+		return math.Exp(decreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
+			math.Exp(decreasingCrossingFrom(upperFn, t0, conf.Z, step))
+	}
 	if c.X1 > 0 {
-		lower = math.Exp(decreasingCrossing(func(t float64) float64 { return z(t) - conf.Z }, t0, step))
+		lower = math.Exp(decreasingCrossing(lowerFn, t0, step))
 	}
 	if c.X2 > 0 {
-		upper = math.Exp(decreasingCrossing(func(t float64) float64 { return z(t) + conf.Z }, t0, step))
+		upper = math.Exp(decreasingCrossing(upperFn, t0, step))
 	}
 	return lower, upper
 }

@@ -11,11 +11,11 @@ import "math"
 // grows. Numerator and standard deviation are both divided by max(θ, 1), so
 // huge θ cannot overflow θ².
 func ratioScore(c Counts, theta, f float64) float64 {
-	p1t, p2t := restrictedUnderRatio(c, theta)
+	fit := fitUnderRatio(c, theta)
 	s := math.Max(theta, 1)
 	ts := theta / s
 	num := c.P1()/s - ts*c.P2()
-	v := f * (p1t*(1-p1t)/(float64(c.N1)*s*s) + ts*ts*p2t*(1-p2t)/float64(c.N2))
+	v := f * (fit.p1*fit.q1/(float64(c.N1)*s*s) + ts*ts*fit.p2*fit.q2/float64(c.N2))
 	return signedScore(num, v)
 }
 

@@ -79,3 +79,97 @@ func oddsShift(p, psi float64) float64 {
 	}
 	return psi * p / (1 - p + psi*p)
 }
+
+// ratioScaleFit is a restricted maximum-likelihood fit of both groups'
+// proportions with each complement 1 − p̃ computed in its own right, so that
+// p̃ and 1 − p̃ both keep full relative precision near 0 and near 1. (When a
+// fitted proportion is within about 1e−8 of 1 — a handful of non-events in
+// 10⁹ trials — the roots of the quadratics for p̃ nearly coincide and
+// 1 − p̃ taken from p̃ would keep only a few correct digits.)
+type ratioScaleFit struct {
+	p1, q1, p2, q2 float64
+}
+
+// residual1 returns x1 − n1p̃1, computed from whichever of p̃1 and 1 − p̃1 is
+// the smaller, so that it is accurate when it is tiny.
+func (f ratioScaleFit) residual1(c Counts) float64 {
+	return residual(float64(c.X1), float64(c.N1), f.p1, f.q1)
+}
+
+// residual2 returns x2 − n2p̃2 (see residual1).
+func (f ratioScaleFit) residual2(c Counts) float64 {
+	return residual(float64(c.X2), float64(c.N2), f.p2, f.q2)
+}
+
+func residual(x, n, p, q float64) float64 {
+	if p <= 0.5 {
+		return x - n*p
+	}
+	return n*q - (n - x)
+}
+
+// fitUnderRatio returns the fit under π1 = θ·π2 (see restrictedUnderRatio).
+// A group whose p̃ exceeds ½ takes its complement from the quadratic for
+// q̃ = 1 − p̃, obtained by substituting p = 1 − q:
+//
+//	N·q̃1² − ((N − m) + (1 − θ)(n1 + x2))·q̃1 + (n1 − x1)(1 − θ) = 0,
+//	N·q̃2² − ((N − m) + (1 − 1/θ)(n2 + x1))·q̃2 + (n2 − x2)(1 − 1/θ) = 0,
+//
+// m = x1 + x2, each taking its larger root. Their coefficients are built
+// from the non-event counts, so they carry no large cancelling terms.
+func fitUnderRatio(c Counts, theta float64) ratioScaleFit {
+	p1, p2 := restrictedUnderRatio(c, theta)
+	f := ratioScaleFit{p1: p1, q1: 1 - p1, p2: p2, q2: 1 - p2}
+	n := float64(c.N1 + c.N2)
+	nonEvents := float64(c.N1 + c.N2 - c.X1 - c.X2)
+	// The factors 1 − θ and 1 − 1/θ = (θ − 1)/θ are formed from θ − 1,
+	// which is exact near θ = 1, and the equations are divided by s ≥ 1
+	// against overflow at extreme θ.
+	if p1 > 0.5 {
+		s := math.Max(theta, 1)
+		k := (1 - theta) / s
+		f.q1 = largerRoot(n/s, nonEvents/s+k*float64(c.N1+c.X2), float64(c.N1-c.X1)*k)
+		f.p1 = 1 - f.q1
+	}
+	if p2 > 0.5 {
+		s := math.Max(1/theta, 1)
+		k := (theta - 1) / (theta * s)
+		f.q2 = largerRoot(n/s, nonEvents/s+k*float64(c.N2+c.X1), float64(c.N2-c.X2)*k)
+		f.p2 = 1 - f.q2
+	}
+	return f
+}
+
+// fitUnderOddsRatio returns the fit under odds ratio ψ (see
+// restrictedUnderOddsRatio). Counting non-events turns the odds ratio into
+// 1/ψ, so the complements are the same fit for the table with events and
+// non-events exchanged; it is used for a group whose p̃ exceeds ½.
+func fitUnderOddsRatio(c Counts, psi float64) ratioScaleFit {
+	p1, p2 := restrictedUnderOddsRatio(c, psi)
+	f := ratioScaleFit{p1: p1, q1: 1 - p1, p2: p2, q2: 1 - p2}
+	if p1 > 0.5 || p2 > 0.5 {
+		flip := Counts{X1: c.N1 - c.X1, N1: c.N1, X2: c.N2 - c.X2, N2: c.N2}
+		q1, q2 := restrictedUnderOddsRatio(flip, 1/psi)
+		if p1 > 0.5 {
+			f.p1, f.q1 = 1-q1, q1
+		}
+		if p2 > 0.5 {
+			f.p2, f.q2 = 1-q2, q2
+		}
+	}
+	return f
+}
+
+// largerRoot returns the larger root of a·q² − b·q + c = 0 (a > 0), clamped
+// to [0, 1], in the form that avoids cancellation.
+func largerRoot(a, b, c float64) float64 {
+	root := math.Sqrt(math.Max(b*b-4*a*c, 0))
+	var q float64
+	switch {
+	case b >= 0:
+		q = (b + root) / (2 * a)
+	case b-root != 0:
+		q = 2 * c / (b - root)
+	}
+	return math.Min(math.Max(q, 0), 1)
+}

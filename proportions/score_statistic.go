@@ -15,11 +15,10 @@ func signedScore(num, v float64) float64 {
 	return num / math.Sqrt(v)
 }
 
-// pearsonTerm returns (o − e)² / v for one group of a Pearson chi-square,
-// with 0/0 read as 0 (observed equals a degenerate expectation) and
-// (non-zero)/0 as +Inf.
-func pearsonTerm(o, e, v float64) float64 {
-	d := o - e
+// pearsonTerm returns d² / v for one group of a Pearson chi-square, d the
+// observed minus the fitted count, with 0/0 read as 0 (observed equals a
+// degenerate expectation) and (non-zero)/0 as +Inf.
+func pearsonTerm(d, v float64) float64 {
 	switch {
 	case d == 0:
 		return 0
