@@ -192,6 +192,19 @@ func TestPiecesAndRuns(t *testing.T) {
 	if p := wald.Pieces(); p > d.N1+1+10 {
 		t.Errorf("Wald at %v: %d pieces for %d rows; expected nearly one per row", d, p, d.N1+1)
 	}
+	// What the registered methods look like (logged with -v): the rows
+	// of the usual methods are single pieces but for a few near zero counts.
+	small := Design{N1: 60, N2: 60, Level: 0.95}
+	for _, m := range proportions.AllIntervalMethods() {
+		if m.SizeLimit > 0 && int64(small.N1+small.N2) > m.SizeLimit {
+			continue
+		}
+		tab, err := NewTable(context.Background(), m, small)
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%-22s %v: %d pieces in %d rows", m.Key, small, tab.Pieces(), small.N1+1)
+	}
 	zz, err := NewTable(context.Background(), zigzag, d)
 	if err != nil {
 		t.Fatal(err)
