@@ -47,6 +47,7 @@ type evaluation struct {
 	// wsum[j][x1] = Σ_x2 b(x2; n2, π2_j)·width(x1, x2) (bounded intervals
 	// only) and usum[j][x1] the same sum of 1{unbounded} (ratio families).
 	wsum, usum [][]float64
+	rows       [][2]int // rows [lo, hi] whose sums are needed, per π2
 	out        []result // by query
 }
 
@@ -114,6 +115,16 @@ func (t *Table) newEvaluation(pi1, pi2 []float64, pairs []pair) *evaluation {
 	slices.SortFunc(ev.queries, func(a, b query) int { return cmpFloat(a.theta, b.theta) })
 	ev.wsum = make([][]float64, len(pi2))
 	ev.usum = make([][]float64, len(pi2))
+	// The rows each second rate needs: the union of its points' first
+	// binomials' ranges.
+	ev.rows = make([][2]int, len(pi2))
+	for j := range ev.rows {
+		ev.rows[j] = [2]int{t.n1 + 1, -1}
+	}
+	for _, q := range ev.queries {
+		b, r := &ev.firsts[q.first], &ev.rows[q.second]
+		r[0], r[1] = min(r[0], b.lo), max(r[1], b.hi)
+	}
 	ev.out = make([]result, len(ev.queries))
 	return ev
 }
@@ -141,17 +152,21 @@ func (ev *evaluation) widthSums(j int) {
 	t := ev.t
 	b := &ev.seconds[j]
 	lo, hi := b.lo, b.hi+1
-	// w = W[:, lo:hi] · p[lo:hi], with W the table of widths.
+	r0, r1 := ev.rows[j][0], ev.rows[j][1]+1
 	w := make([]float64, t.n1+1)
+	u := make([]float64, t.n1+1)
+	ev.wsum[j], ev.usum[j] = w, u
+	if r0 >= r1 {
+		return
+	}
+	// w[r0:r1] = W[r0:r1, lo:hi] · p[lo:hi], with W the table of widths.
 	blas64.Gemv(blas.NoTrans, 1,
-		blas64.General{Rows: t.n1 + 1, Cols: hi - lo, Stride: t.stride, Data: t.width[lo : t.n1*t.stride+hi]},
-		blas64.Vector{N: hi - lo, Inc: 1, Data: b.p[lo:hi]}, 0, blas64.Vector{N: t.n1 + 1, Inc: 1, Data: w})
-	ev.wsum[j] = w
+		blas64.General{Rows: r1 - r0, Cols: hi - lo, Stride: t.stride, Data: t.width[r0*t.stride+lo : (r1-1)*t.stride+hi]},
+		blas64.Vector{N: hi - lo, Inc: 1, Data: b.p[lo:hi]}, 0, blas64.Vector{N: r1 - r0, Inc: 1, Data: w[r0:r1]})
 	if t.family() == proportions.Difference {
 		return
 	}
-	u := make([]float64, t.n1+1)
-	for x1 := range u {
+	for x1 := r0; x1 < r1; x1++ {
 		base := x1 * t.stride
 		for x2 := lo; x2 < hi; x2++ {
 			if t.unbounded(base + x2) {
