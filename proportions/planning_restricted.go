@@ -61,7 +61,10 @@ func differenceNullRate1(p1, p2, r, delta float64) float64 {
 	x = math.Max(lo, math.Min(hi, x))
 	// The closed form loses relative precision for rare events (its terms
 	// are near 1/3 while the root is tiny); two Newton steps on the
-	// likelihood equation itself restore it.
+	// likelihood equation itself restore it there.
+	if math.Min(math.Min(x, 1-x), math.Min(x-delta, 1-x+delta)) > 0.01 {
+		return x
+	}
 	for range 2 {
 		t, v := x, x-delta
 		if !(t > lo && t < hi) {
