@@ -15,7 +15,7 @@ import "math"
 // at ψ = 1). Baptista J, Pike MC (1977), "Exact two-sided confidence limits
 // for the odds ratio in a 2×2 table", Journal of the Royal Statistical
 // Society C (Applied Statistics) 26:214–220. Its coverage is at least the
-// nominal level and it is shorter than the Cornfield interval, which
+// nominal level and it is usually shorter than the Cornfield interval, which
 // doubles the smaller one-sided tail.
 //
 // The set of such ψ is nearly always an interval; when it is not (rare,
