@@ -37,7 +37,11 @@ fi
 
 # gonb --install writes kernels/gonb/kernel.json under JUPYTER_DATA_DIR and
 # points it at .bin/gonb (it copies the binary only from temporary folders).
-JUPYTER_DATA_DIR="$KERNELS" PATH="$BIN:$PATH" "$BIN/gonb" --install --logtostderr=false >/dev/null 2>&1 ||
+# Without gopls (PROPSCOPE_SKIP_GOPLS=1) gonb refuses to install unless told
+# that the missing editing helper is expected.
+force=()
+if [ "${PROPSCOPE_SKIP_GOPLS:-}" = 1 ]; then force=(--force_deps); fi
+JUPYTER_DATA_DIR="$KERNELS" PATH="$BIN:$PATH" "$BIN/gonb" --install "${force[@]}" --logtostderr=false >/dev/null 2>&1 ||
   { echo "setup: gonb --install failed; rerun: JUPYTER_DATA_DIR=$KERNELS $BIN/gonb --install" >&2; exit 1; }
 # The kernel finds goimports and gopls only through PATH: put .bin first.
 /usr/bin/python3 - "$KERNELS/kernels/gonb/kernel.json" "$BIN" <<'PY'
