@@ -60,15 +60,23 @@ func (f restrictedFit) variance(c Counts) float64 {
 // fitRestricted computes the restricted MLE on the side where events are
 // the minority (see RestrictedMLE).
 func fitRestricted(c Counts, delta float64) restrictedFit {
+	return fitRestrictedFrom(c, delta, math.NaN())
+}
+
+// fitRestrictedFrom is fitRestricted with a starting value for π̃1 (NaN for
+// none: the closed form is used), which the score intervals take from the
+// previous fit of their search extrapolated along its slope; it saves the
+// closed form's arccos and cos.
+func fitRestrictedFrom(c Counts, delta, start float64) restrictedFit {
 	if 2*(c.X1+c.X2) <= c.N1+c.N2 {
-		return fitMinority(c, delta)
+		return fitMinority(c, delta, start)
 	}
-	f := fitMinority(Counts{X1: c.N1 - c.X1, N1: c.N1, X2: c.N2 - c.X2, N2: c.N2}, -delta)
+	f := fitMinority(Counts{X1: c.N1 - c.X1, N1: c.N1, X2: c.N2 - c.X2, N2: c.N2}, -delta, 1-start)
 	// π1 = 1 − π1′ with δ′ = −δ, so dπ1/dδ = dπ1′/dδ′.
 	return restrictedFit{p1: f.q1, q1: f.p1, p2: f.q2, q2: f.p2, slope: f.slope}
 }
 
-func fitMinority(c Counts, delta float64) restrictedFit {
+func fitMinority(c Counts, delta, start float64) restrictedFit {
 	switch {
 	case delta >= 1:
 		return restrictedFit{p1: 1, q1: 0, p2: 0, q2: 1}
@@ -84,11 +92,14 @@ func fitMinority(c Counts, delta float64) restrictedFit {
 	if delta < 0 {
 		hi, uHi = 1+delta, 1
 	}
-	start := cubicRoot(c, delta)
 	// Far from the edges the closed form is accurate to about √ε at worst,
-	// so its root inside the range is the maximum; near an edge the sign
-	// of the likelihood equation there decides.
-	if !(start-lo >= edgeMargin && hi-start >= edgeMargin) { // also when NaN
+	// so its root inside the range is the maximum; near an edge, or from a
+	// given start, the sign of the likelihood equation at the edges decides.
+	given := !math.IsNaN(start)
+	if !given {
+		start = cubicRoot(c, delta)
+	}
+	if given || !(start-lo >= edgeMargin && hi-start >= edgeMargin) { // also when NaN
 		if likelihoodSlope(c, lo, uLo) <= 0 {
 			return edgeFit(lo, uLo, delta > 0)
 		}

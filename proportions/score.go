@@ -70,8 +70,16 @@ func scoreLower(c Counts, z2k, zk float64) float64 {
 	// event in 2^45 trials), so the tolerance is relative to it, but no
 	// finer than a few units in the last place of x (coarser near ±1).
 	tol := math.Max(scoreTolerance*(d-x), 4e-16*math.Abs(x))
+	// Each fit starts from the previous one extrapolated along its slope.
+	prevX, prev := math.NaN(), restrictedFit{}
 	for range maxScoreSteps {
-		g, dg := scoreEquation(c, d, x, z2k)
+		start := math.NaN()
+		if !math.IsNaN(prevX) {
+			start = prev.p1 + prev.slope*(x-prevX)
+		}
+		f := fitRestrictedFrom(c, x, start)
+		g, dg := scoreEquation(c, f, d, x, z2k)
+		prevX, prev = x, f
 		switch {
 		case g > 0:
 			a = x
@@ -117,10 +125,9 @@ func hybridLower(c Counts, z float64) float64 {
 	return p1 - p2 - math.Sqrt(sq(p1-l1)+sq(u2-p2))
 }
 
-// scoreEquation returns G(δ) and G′(δ) = −2(d − δ) − z²k·V′(δ), with V′
-// from the slope of the restricted MLE.
-func scoreEquation(c Counts, d, delta, z2k float64) (g, dg float64) {
-	f := fitRestricted(c, delta)
+// scoreEquation returns G(δ) and G′(δ) = −2(d − δ) − z²k·V′(δ) from the
+// restricted MLE f at δ, with V′ from its slope.
+func scoreEquation(c Counts, f restrictedFit, d, delta, z2k float64) (g, dg float64) {
 	v := f.variance(c)
 	// d/dδ of π(1−π) is (1 − 2π)·dπ/dδ; dπ̃2/dδ = dπ̃1/dδ − 1.
 	dv := (f.q1-f.p1)*f.slope/float64(c.N1) + (f.q2-f.p2)*(f.slope-1)/float64(c.N2)
