@@ -86,3 +86,16 @@ func ExampleNumberNeededToTreat() {
 	fmt.Println(n)
 	// Output: NNTB 5.0 (95% interval NNTB 2.9 to 17.4, from the Wald interval for the difference): treating about 5.0 with coated instead of plain gives one more lot meeting the standard (benefit).
 }
+
+// The conditional maximum-likelihood odds ratio for a germination trial
+// (20 of 25 against 6 of 15), the estimate the exact conditional intervals
+// report. It is a little nearer 1 than the sample odds ratio of 6.
+func ExampleConditionalMLE() {
+	est, err := proportions.ConditionalMLE(proportions.Counts{X1: 20, N1: 25, X2: 6, N2: 15})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("%.4f\n", est)
+	// Output: 5.6922
+}
