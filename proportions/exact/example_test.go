@@ -117,3 +117,28 @@ func ExamplePower() {
 	// exact power 0.7908
 	// largest actual size 0.0353 (nominal 0.05)
 }
+
+// A rejection region built once gives the power at any pair of rates, for
+// a power curve: here Fisher's exact test, 40 patients per arm.
+func ExampleNewRejectionRegion() {
+	fisher, err := proportions.LookupTest("fisher")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	s, _ := proportions.NewSettings()
+	h, _ := fisher.Hypothesis(s)
+	region, err := exact.NewRejectionRegion(context.Background(), exact.Decision{Test: fisher, Hypotheses: []proportions.Hypothesis{h}}, 40, 40)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, pi1 := range []float64{0.3, 0.5, 0.7} {
+		p, _ := region.Power(pi1, 0.3)
+		fmt.Printf("π1 = %.1f, π2 = 0.3: power %.4f\n", pi1, p)
+	}
+	// Output:
+	// π1 = 0.3, π2 = 0.3: power 0.0282
+	// π1 = 0.5, π2 = 0.3: power 0.3683
+	// π1 = 0.7, π2 = 0.3: power 0.9413
+}
