@@ -457,3 +457,24 @@ func TestDifferenceChartWithRecommendation(t *testing.T) {
 		t.Errorf("the chart does not give the recommendation's reason %q", best.Reason)
 	}
 }
+
+// TestDisplayablesNameTheirKind checks the display convention: the JSON
+// form is an object whose "kind" is Kind().
+func TestDisplayablesNameTheirKind(t *testing.T) {
+	rates, err := RatesChart(sampleAnalysis("a", "b"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range []Displayable{ChartEngine(), rates} {
+		raw, err := d.JSON()
+		if err != nil {
+			t.Fatal(err)
+		}
+		var obj struct {
+			Kind string `json:"kind"`
+		}
+		if err := json.Unmarshal(raw, &obj); err != nil || obj.Kind != d.Kind() {
+			t.Errorf("%s: JSON kind %q (%v)", d.Kind(), obj.Kind, err)
+		}
+	}
+}

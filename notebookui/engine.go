@@ -71,5 +71,5 @@ func (engineDisplay) Markdown() string { return "_" + engineNote + "_\n" }
 func (engineDisplay) Text() string     { return engineNote }
 func (engineDisplay) Kind() string     { return "chart-engine" }
 func (engineDisplay) JSON() ([]byte, error) {
-	return []byte(`{"engine":"echarts","version":"` + EngineVersion + `","sha256":"` + EngineSHA256 + `"}`), nil
+	return []byte(`{"kind":"chart-engine","engine":"echarts","version":"` + EngineVersion + `","sha256":"` + EngineSHA256 + `"}`), nil
 }
