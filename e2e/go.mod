@@ -5,12 +5,12 @@ go 1.25
 replace github.com/propscope/propscope => ../
 
 require (
+	github.com/chromedp/cdproto v0.160.1
 	github.com/chromedp/chromedp v0.23.1
 	github.com/propscope/propscope v0.0.0-00010101000000-000000000000
 )
 
 require (
-	github.com/chromedp/cdproto v0.160.1 // indirect
 	github.com/go-echarts/go-echarts/v2 v2.6.7 // indirect
 	github.com/go-json-experiment/json v0.0.0-20260213210345-44df1a37e875 // indirect
 	github.com/go-logr/logr v1.4.2 // indirect
