@@ -104,6 +104,11 @@ type Frame struct {
 	Redraw time.Duration
 	// Sequence counts the redraws of a live explorer (0 for the first).
 	Sequence int
+	// arrived is when the change that led to this frame reached the
+	// kernel (zero for the first frame); it goes into data-arrived-ms as
+	// Unix milliseconds, so a browser test can split a redraw's delay into
+	// the trip to the kernel, the work and the trip back.
+	arrived time.Time
 	// viewHTML caches View.HTML() (rendering is part of the timed work).
 	viewHTML string
 }
@@ -150,17 +155,21 @@ func (f Frame) settingsText(sep string) string {
 
 // HTML returns the frame as a fragment: a heading, the settings, the note,
 // the view, and the redraw time. The outer element carries
-// data-explorer, data-sequence, data-redraw-ms and data-settings (JSON of
-// the keys and positions).
+// data-explorer, data-sequence, data-redraw-ms, data-settings (JSON of
+// the keys and positions) and, on a live redraw, data-arrived-ms.
 func (f Frame) HTML() string {
 	state := map[string]int{}
 	for _, s := range f.Settings {
 		state[s.Key] = s.Position
 	}
 	js, _ := json.Marshal(state)
+	arrived := ""
+	if !f.arrived.IsZero() {
+		arrived = fmt.Sprintf(` data-arrived-ms="%.1f"`, float64(f.arrived.UnixMicro())/1000)
+	}
 	var b strings.Builder
-	fmt.Fprintf(&b, `<div class="propscope-explorer" data-explorer="%s" data-sequence="%d" data-redraw-ms="%.1f" data-settings="%s" style="max-width:860px;margin:.25rem 0;">`,
-		html.EscapeString(f.Explorer), f.Sequence, msOf(f.Redraw), html.EscapeString(string(js)))
+	fmt.Fprintf(&b, `<div class="propscope-explorer" data-explorer="%s" data-sequence="%d" data-redraw-ms="%.1f" data-settings="%s"%s style="max-width:860px;margin:.25rem 0;">`,
+		html.EscapeString(f.Explorer), f.Sequence, msOf(f.Redraw), html.EscapeString(string(js)), arrived)
 	fmt.Fprintf(&b, `<div style="font-weight:650;font-size:1.05em;margin:.2rem 0;">%s</div>`, html.EscapeString(f.Title))
 	b.WriteString(`<div class="propscope-settings" style="font-size:.9em;opacity:.85;margin:.1rem 0 .4rem;">`)
 	for i, s := range f.Settings {

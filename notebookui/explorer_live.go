@@ -127,6 +127,7 @@ loop:
 	for {
 		select {
 		case c := <-changes:
+			arrived := time.Now()
 			pos[c.control] = cs[c.control].clamp(c.pos)
 			// A slider sends a stream of positions while it is dragged:
 			// take every pending one and draw only the last state.
@@ -140,7 +141,7 @@ loop:
 			}
 			seq++
 			f = frameOf(m, pos)
-			f.Sequence = seq
+			f.Sequence, f.arrived = seq, arrived
 			gonbui.UpdateHTML(viewOut, f.HTML())
 			idle.Reset(s.idle)
 		case <-w.done.C:
@@ -156,8 +157,7 @@ loop:
 	w.done.Close()
 	gonbui.UpdateHTML(controlsOut, "")
 	gonbui.UpdateHTML(viewOut, "")
-	f.Note = stopped
-	f.Sequence = seq
+	f.Note, f.Sequence, f.arrived = stopped, seq, time.Time{}
 	return Display(f)
 }
 

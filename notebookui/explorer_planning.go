@@ -227,7 +227,8 @@ func (p planFigures) HTML() string {
 	for _, n := range r.Notes {
 		fmt.Fprintf(&b, `<p style="margin:.2rem 0;font-size:.9em;">Note: %s</p>`, html.EscapeString(n))
 	}
-	fmt.Fprintf(&b, `<p style="margin:.3rem 0;font-size:.85em;opacity:.85;">%s</p></div>`, html.EscapeString(r.Caution))
+	// The planning caution is under the power chart that follows.
+	b.WriteString(`</div>`)
 	return b.String()
 }
 
@@ -240,7 +241,6 @@ func (p planFigures) Markdown() string {
 	for _, n := range p.r.Notes {
 		b.WriteString("\nNote: " + mdEscape(n) + "\n")
 	}
-	b.WriteString("\n" + mdEscape(p.r.Caution) + "\n")
 	return b.String()
 }
 
