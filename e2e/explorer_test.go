@@ -86,6 +86,30 @@ func planN1(t *testing.T, ctx context.Context) int {
 	return n
 }
 
+// liveBrowser is browse with room for the whole live run: the kernel
+// compiles each explorer cell before it runs (seconds each, longer on a
+// busy machine). The deadline only stops a hung run.
+func liveBrowser(t *testing.T) context.Context {
+	t.Helper()
+	if _, err := os.Stat(chromium); err != nil {
+		t.Fatalf("%s not found: run scripts/setup-notebooks.sh (make setup)", chromium)
+	}
+	opts := append(chromedp.DefaultExecAllocatorOptions[:],
+		chromedp.ExecPath(chromium),
+		chromedp.NoSandbox,
+		chromedp.DisableGPU,
+		chromedp.UserDataDir(t.TempDir()),
+		chromedp.Flag("disable-quic", true),
+		chromedp.Flag("disable-dev-shm-usage", true),
+		chromedp.WindowSize(1100, 1400),
+	)
+	alloc, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
+	ctx, cancelCtx := chromedp.NewContext(alloc)
+	ctx, cancelTimeout := context.WithTimeout(ctx, 12*time.Minute)
+	t.Cleanup(func() { cancelTimeout(); cancelCtx(); cancelAlloc() })
+	return ctx
+}
+
 // liveCopy copies the explorers notebook into a fresh folder under
 // notebooks/ (so the notebook's setup cell finds the repository), which the
 // test removes (gitignored; Jupyter refuses hidden folders); the live run
@@ -188,7 +212,14 @@ func TestLiveExplorers(t *testing.T) {
 	root := repoRoot(t)
 	dir, rel := liveCopy(t, root)
 	s := serveNotebooks(t, root)
-	ctx := browse(t)
+	ctx := liveBrowser(t)
+	t.Cleanup(func() {
+		if t.Failed() { // show what the page looked like
+			if png, err := chromedp.Run(ctx, chromedp.CaptureScreenshot()); err == nil {
+				_ = os.WriteFile(filepath.Join(outDir, "explorers-live-failed.png"), png, 0o644)
+			}
+		}
+	})
 	if err := chromedp.Do(ctx, chromedp.Navigate(s.URL+"/notebooks/"+rel+"?token="+s.Token)); err != nil {
 		t.Fatal(err)
 	}

@@ -5,6 +5,7 @@ import (
 	"html"
 	"os"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/janpfeifer/gonb/gonbui"
@@ -27,7 +28,7 @@ const (
 	DefaultIdleTimeout = 15 * time.Minute
 	// DefaultSetupTimeout is how long it waits for the front end to
 	// answer when the controls are created.
-	DefaultSetupTimeout = 20 * time.Second
+	DefaultSetupTimeout = time.Minute
 )
 
 // WithIdleTimeout stops the explorer after d without any change (default
@@ -105,7 +106,8 @@ func live(m model, s liveSettings) error {
 	case <-time.After(s.setup):
 		gonbui.UpdateHTML(controlsOut, "")
 		f := staticFrame(m)
-		f.Note = "The notebook front end did not answer, so the controls could not be set up. " + staticNote
+		f.Note = fmt.Sprintf("The notebook front end did not answer within %s, so the controls could not be set up: "+
+			"this is a static view of the starting settings. Run the cell again to retry.", s.setup)
 		return Display(f)
 	}
 
@@ -162,25 +164,34 @@ loop:
 }
 
 // buildWidgets creates the controls in their cells of the controls table
-// and a Done button; it returns once the front end has answered.
+// and a Done button; it returns once the front end has answered for all of
+// them. Creating a widget waits for one round trip to the front end, so
+// they are created together (each has its own cell, so order does not
+// matter).
 func buildWidgets(root string, cs []control, pos []int) widgetSet {
-	var w widgetSet
+	w := widgetSet{changes: make([]*comms.AddressChan[int], len(cs))}
+	var wg sync.WaitGroup
 	for i, c := range cs {
-		cell, id := root+"-cell-"+c.key, root+"-"+c.key
-		if c.isChoice() {
-			opts := make([]string, len(c.options))
-			for k, o := range c.options {
-				opts[k] = html.EscapeString(o)
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			cell, id := root+"-cell-"+c.key, root+"-"+c.key
+			if c.isChoice() {
+				opts := make([]string, len(c.options))
+				for k, o := range c.options {
+					opts[k] = html.EscapeString(o)
+				}
+				sel := widgets.Select(opts).WithHtmlId(id).SetDefault(pos[i]).AppendTo(cell).Done()
+				w.changes[i] = sel.Listen().LatestOnly()
+				return
 			}
-			sel := widgets.Select(opts).WithHtmlId(id).SetDefault(pos[i]).AppendTo(cell).Done()
-			w.changes = append(w.changes, sel.Listen().LatestOnly())
-			continue
-		}
-		sl := widgets.Slider(c.min, c.max, pos[i]).WithHtmlId(id).AppendTo(cell).Done()
-		w.changes = append(w.changes, sl.Listen().LatestOnly())
+			sl := widgets.Slider(c.min, c.max, pos[i]).WithHtmlId(id).AppendTo(cell).Done()
+			w.changes[i] = sl.Listen().LatestOnly()
+		}()
 	}
 	done := widgets.Button("Done").WithHtmlId(root + "-done").AppendTo(root + "-cell-done").Done()
 	w.done = done.Listen()
+	wg.Wait()
 	return w
 }
 
