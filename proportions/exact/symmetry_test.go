@@ -1,6 +1,8 @@
 package exact
 
 import (
+	"context"
+	"errors"
 	"math"
 	"testing"
 
@@ -47,6 +49,36 @@ func TestSymmetricClaims(t *testing.T) {
 						}
 					}
 				}
+			}
+		}
+	}
+}
+
+// TestTableLimitsMatchMethod: the stored limits (computed or mirrored)
+// agree with a direct call of the method, and outcomes outside the design
+// are errors, not panics.
+func TestTableLimitsMatchMethod(t *testing.T) {
+	conf, _ := proportions.NewConfidence(0.9)
+	for _, d := range []Design{{N1: 9, N2: 9, Level: 0.9}, {N1: 8, N2: 13, Level: 0.9}} {
+		for _, m := range proportions.IntervalMethods(proportions.Difference) {
+			tab, err := NewTable(context.Background(), m, d)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for x1 := 0; x1 <= d.N1; x1++ {
+				for x2 := 0; x2 <= d.N2; x2++ {
+					lo, hi, err := tab.Limits(x1, x2)
+					if err != nil {
+						t.Fatal(err)
+					}
+					wlo, whi := m.Limits(proportions.Counts{X1: int64(x1), N1: int64(d.N1), X2: int64(x2), N2: int64(d.N2)}, conf)
+					if math.Abs(lo-wlo) > 1e-8 || math.Abs(hi-whi) > 1e-8 {
+						t.Errorf("%s %v at (%d, %d): table (%v, %v), method (%v, %v)", m.Key, d, x1, x2, lo, hi, wlo, whi)
+					}
+				}
+			}
+			if _, _, err := tab.Limits(d.N1+1, 0); !errors.Is(err, proportions.ErrEventsExceedTrials) {
+				t.Errorf("outcome outside the design: %v", err)
 			}
 		}
 	}

@@ -42,8 +42,9 @@ type Table struct {
 // lower ≤ upper. For a method declared Symmetric it computes one outcome
 // of each mirror set and copies the mirror images (see
 // proportions.IntervalMethod.Symmetric): half of the outcomes, a quarter
-// when n1 = n2 on the difference and odds-ratio scales. It reads the options WithProgress (rows done out of n1+1)
-// and WithWorkers, and stops early with ctx's error when ctx is cancelled.
+// when n1 = n2 on the difference and odds-ratio scales. It reads the
+// options WithProgress (rows done out of n1+1) and WithWorkers, and stops
+// early with ctx's error when ctx is cancelled.
 // Memory: 24·(n1+1)·(n2+1) bytes, 24 MB at 1000 per group.
 func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...Option) (*Table, error) {
 	if err := d.Validate(); err != nil {
@@ -120,14 +121,16 @@ func (t *Table) Method() proportions.IntervalMethod { return t.method }
 // Design returns the table's design.
 func (t *Table) Design() Design { return t.design }
 
-// Limits returns the raw limits at outcome (x1, x2); it panics outside the
-// design like a slice index would.
-func (t *Table) Limits(x1, x2 int) (lower, upper float64) {
-	if x2 < 0 || x2 > t.n2 {
-		panic(fmt.Sprintf("exact: x2 = %d outside 0..%d", x2, t.n2))
+// Limits returns the raw limits stored for outcome (x1, x2), the mirror
+// image of a computed outcome for a Symmetric method. Outcomes outside the
+// design are an error wrapping proportions.ErrNegativeCount or
+// proportions.ErrEventsExceedTrials.
+func (t *Table) Limits(x1, x2 int) (lower, upper float64, err error) {
+	if err := (proportions.Counts{X1: int64(x1), N1: int64(t.n1), X2: int64(x2), N2: int64(t.n2)}).Validate(); err != nil {
+		return 0, 0, err
 	}
 	k := x1*t.stride + x2
-	return t.lower[k], t.upper[k]
+	return t.lower[k], t.upper[k], nil
 }
 
 // Pieces returns the number of monotone pieces the rows were cut into
