@@ -215,7 +215,7 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 		}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: "two-sided p-value (probability)",
 			NameLocation: "middle", NameGap: 40}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "92", Bottom: "84", ContainLabel: opts.Bool(true)}),
+		charts.WithGridOpts(opts.Grid{Left: "44", Right: "40", Top: "92", Bottom: "84", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
 	viewLo, viewHi, _ := niceRange(cc.ViewLower, cc.ViewUpper, -1, 1)
@@ -237,13 +237,10 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 			"data": []any{
 				map[string]any{"yAxis": alpha, "name": "α", "lineStyle": map[string]any{"color": ColorVermillion, "type": "dashed", "width": 1.5},
 					"label": map[string]any{"formatter": "α = " + fmtP(alpha), "position": "insideEndTop", "color": ColorVermillion}},
-				map[string]any{"xAxis": cc.Lower, "name": "lower", "lineStyle": map[string]any{"color": ColorBlue, "type": "dotted", "width": 1.5},
-					"label": map[string]any{"formatter": "lower " + fmtPP(cc.Lower), "position": "insideMiddleBottom", "color": ColorBlue}},
-				map[string]any{"xAxis": cc.Upper, "name": "upper", "lineStyle": map[string]any{"color": ColorBlue, "type": "dotted", "width": 1.5},
-					"label": map[string]any{"formatter": "upper " + fmtPP(cc.Upper), "position": "insideMiddleTop", "color": ColorBlue}},
-				map[string]any{"xAxis": cc.Null, "name": "null", "lineStyle": map[string]any{"color": ColorGrey, "type": "dashed", "width": 1.5},
-					"label": map[string]any{"formatter": nullName(cc.Null) + ": p = " + proportions.FormatP(cc.NullPValue, cc.NullLogPValue),
-						"position": "insideEndTop", "color": ColorGrey}},
+				verticalLine(cc.Lower, "lower", ColorBlue, "dotted", "lower "+fmtPP(cc.Lower), "insideMiddleBottom"),
+				verticalLine(cc.Upper, "upper", ColorBlue, "dotted", "upper "+fmtPP(cc.Upper), "insideMiddleTop"),
+				verticalLine(cc.Null, "null", ColorGrey, "dashed",
+					nullName(cc.Null)+": p = "+proportions.FormatP(cc.NullPValue, cc.NullLogPValue), "insideEndTop"),
 			},
 		},
 	}
@@ -278,4 +275,16 @@ func nullName(null float64) string {
 		return "no difference"
 	}
 	return "margin"
+}
+
+// verticalLine is a mark line from the bottom to the top of a p-value axis
+// at x, given by its two end points: echarts placed lines given only as
+// {xAxis: x} on this dense series a little off their value.
+func verticalLine(x float64, name, color, dash, label, position string) []any {
+	style := map[string]any{"color": color, "type": dash, "width": 1.5}
+	return []any{
+		map[string]any{"coord": []float64{x, 0}, "name": name, "lineStyle": style,
+			"label": map[string]any{"formatter": label, "position": position, "color": color}},
+		map[string]any{"coord": []float64{x, 1}},
+	}
 }

@@ -162,13 +162,11 @@ func powerByDifference(curves []proportions.PowerCurve, s chartSettings) (*Chart
 		line := powerSeries(i, c, data)
 		if i == 0 {
 			ml := targetLine(d.Power, d.Alpha, true)
-			ml["data"] = append(ml["data"].([]any), map[string]any{"xAxis": d.Rate1 - d.Rate2, "name": "anticipated",
-				"lineStyle": map[string]any{"color": ColorGrey, "type": "dashed", "width": 1.5},
-				"label":     map[string]any{"formatter": "anticipated " + fmtPP(d.Rate1-d.Rate2), "position": "end", "color": ColorGrey}})
+			ml["data"] = append(ml["data"].([]any), verticalLine(d.Rate1-d.Rate2, "anticipated", ColorGrey, "dashed",
+				"anticipated "+fmtPP(d.Rate1-d.Rate2), "end"))
 			if d.Goal != proportions.Equality && d.Scale == proportions.Difference && d.Margin != 0 {
-				ml["data"] = append(ml["data"].([]any), map[string]any{"xAxis": d.Margin, "name": "margin",
-					"lineStyle": map[string]any{"color": ColorPurple, "type": "dotted", "width": 1.5},
-					"label":     map[string]any{"formatter": "margin " + fmtPP(d.Margin), "position": "end", "color": ColorPurple}})
+				ml["data"] = append(ml["data"].([]any), verticalLine(d.Margin, "margin", ColorPurple, "dotted",
+					"margin "+fmtPP(d.Margin), "end"))
 			}
 			line["markLine"] = ml
 		}

@@ -93,10 +93,16 @@ func TestPowerByDifferenceChartOption(t *testing.T) {
 	}
 	found := map[string]float64{}
 	for _, l := range s["markLine"].(map[string]any)["data"].([]any) {
-		lm := l.(map[string]any)
-		if x, ok := lm["xAxis"].(float64); ok {
-			found[lm["name"].(string)] = x
+		pair, ok := l.([]any) // a vertical line: from (x, 0) to (x, 1)
+		if !ok {
+			continue
 		}
+		from, to := pair[0].(map[string]any), pair[1].(map[string]any)
+		x0, x1 := values(t, from["coord"]), values(t, to["coord"])
+		if x0[0] != x1[0] || x0[1] != 0 || x1[1] != 1 {
+			t.Errorf("line %v is not vertical across the power axis", pair)
+		}
+		found[from["name"].(string)] = x0[0]
 	}
 	if found["margin"] != -0.1 || found["anticipated"] != 0 {
 		t.Errorf("vertical lines %v, want the margin -0.1 and the anticipated difference 0", found)

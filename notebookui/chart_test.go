@@ -387,6 +387,13 @@ func TestCurveChartOption(t *testing.T) {
 	if math.Abs(lines[0].(map[string]any)["yAxis"].(float64)-0.05) > 1e-15 {
 		t.Errorf("alpha line at %v", lines[0])
 	}
+	for k, want := range []float64{cc.Lower, cc.Upper, 0} {
+		pair := lines[k+1].([]any)
+		from, to := values(t, pair[0].(map[string]any)["coord"]), values(t, pair[1].(map[string]any)["coord"])
+		if from[0] != want || to[0] != want || from[1] != 0 || to[1] != 1 {
+			t.Errorf("vertical line %d from %v to %v, want at %v across the axis", k, from, to, want)
+		}
+	}
 }
 
 // TestConfidenceCurveOfAnalysis checks the chart of a real analysis: the
