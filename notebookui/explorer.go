@@ -104,6 +104,9 @@ type Frame struct {
 	Redraw time.Duration
 	// Sequence counts the redraws of a live explorer (0 for the first).
 	Sequence int
+	// Partial marks a live frame that shows only the parts ready in time;
+	// the complete frame follows with the same Sequence.
+	Partial bool
 	// arrived is when the change that led to this frame reached the
 	// kernel (zero for the first frame); it goes into data-arrived-ms as
 	// Unix milliseconds, so a browser test can split a redraw's delay into
@@ -125,7 +128,11 @@ type Setting struct {
 // timing the work.
 func frameOf(m model, pos []int) Frame {
 	start := time.Now()
-	v := m.render(pos)
+	return newFrame(m, pos, m.render(pos), start)
+}
+
+// newFrame wraps a view computed since start.
+func newFrame(m model, pos []int, v Displayable, start time.Time) Frame {
 	cs := m.controls()
 	settings := make([]Setting, len(cs))
 	for i, c := range cs {
@@ -136,6 +143,37 @@ func frameOf(m model, pos []int) Frame {
 	f.viewHTML = v.HTML()
 	f.Redraw = time.Since(start)
 	return f
+}
+
+// progressive is a model whose view can take longer than a redraw should
+// (new exact tables after a change of n): renderWithin returns within
+// about the budget what is ready, and, when that is not the whole view, a
+// function that waits for the rest and returns the complete view (safe to
+// call more than once).
+type progressive interface {
+	renderWithin(pos []int, budget time.Duration) (v Displayable, rest func() Displayable)
+}
+
+// quickBudget is how long a live redraw waits for slow parts before it
+// shows what is ready.
+const quickBudget = 150 * time.Millisecond
+
+// frameWithin is frameOf for a live redraw: a progressive model's frame
+// may be partial (Partial set), with a function that completes it.
+func frameWithin(m model, pos []int, budget time.Duration) (Frame, func() Frame) {
+	p, ok := m.(progressive)
+	if !ok {
+		return frameOf(m, pos), nil
+	}
+	start := time.Now()
+	v, rest := p.renderWithin(pos, budget)
+	f := newFrame(m, pos, v, start)
+	if rest == nil {
+		return f, nil
+	}
+	f.Partial = true
+	at := append([]int(nil), pos...)
+	return f, func() Frame { return newFrame(m, at, rest(), start) }
 }
 
 // Kind is "explorer".
@@ -156,7 +194,8 @@ func (f Frame) settingsText(sep string) string {
 // HTML returns the frame as a fragment: a heading, the settings, the note,
 // the view, and the redraw time. The outer element carries
 // data-explorer, data-sequence, data-redraw-ms, data-settings (JSON of
-// the keys and positions) and, on a live redraw, data-arrived-ms.
+// the keys and positions) and, on a live redraw, data-arrived-ms (and
+// data-partial on a partial frame).
 func (f Frame) HTML() string {
 	state := map[string]int{}
 	for _, s := range f.Settings {
@@ -166,6 +205,9 @@ func (f Frame) HTML() string {
 	arrived := ""
 	if !f.arrived.IsZero() {
 		arrived = fmt.Sprintf(` data-arrived-ms="%.1f"`, float64(f.arrived.UnixMicro())/1000)
+	}
+	if f.Partial {
+		arrived += ` data-partial="true"`
 	}
 	var b strings.Builder
 	fmt.Fprintf(&b, `<div class="propscope-explorer" data-explorer="%s" data-sequence="%d" data-redraw-ms="%.1f" data-settings="%s"%s style="max-width:860px;margin:.25rem 0;">`,

@@ -104,3 +104,25 @@ func BenchmarkWhatIfExplorerRedraw(b *testing.B) {
 		frameOf(m, pos)
 	}
 }
+
+// BenchmarkIntervalExplorerSizeChangeAllFirstFrame: the first (partial)
+// frame a live explorer shows after a change of n1 near 200 with every
+// difference method: the methods whose tables are ready within the
+// budget, the others said to be computing.
+func BenchmarkIntervalExplorerSizeChangeAllFirstFrame(b *testing.B) {
+	e := IntervalExplorer{N1: 200, N2: 200, Rate1: 0.3, Rate2: 0.2}
+	m, err := e.model()
+	if err != nil {
+		b.Fatal(err)
+	}
+	pos := startPositions(m)
+	for i := 0; b.Loop(); i++ {
+		pos[0] = 150 + i%51
+		_, complete := frameWithin(m, pos, quickBudget)
+		b.StopTimer()
+		if complete != nil {
+			complete() // let the tables finish outside the timing
+		}
+		b.StartTimer()
+	}
+}

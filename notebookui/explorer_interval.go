@@ -5,7 +5,10 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"sync"
+	"sync/atomic"
+	"time"
 
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/exact"
@@ -275,28 +278,67 @@ func (m *intervalModel) shown(s sliceSettings) []proportions.IntervalMethod {
 
 // slices computes every shown method's slice, the methods in parallel.
 func (m *intervalModel) slices(s sliceSettings) ([]CoverageSlice, error) {
+	r, err := m.start(s)
+	if err != nil {
+		return nil, err
+	}
+	<-r.all
+	return r.results()
+}
+
+// running is the computation of the shown methods' slices, one goroutine
+// per method.
+type running struct {
+	shown []proportions.IntervalMethod
+	out   []CoverageSlice
+	errs  []error
+	ready []atomic.Bool
+	all   chan struct{} // closed when every method is done
+}
+
+func (m *intervalModel) start(s sliceSettings) (*running, error) {
 	d, err := exact.NewDesign(s.n1, s.n2, s.level)
 	if err != nil {
 		return nil, err
 	}
 	shown := m.shown(s)
-	out := make([]CoverageSlice, len(shown))
-	errs := make([]error, len(shown))
+	r := &running{shown: shown, out: make([]CoverageSlice, len(shown)), errs: make([]error, len(shown)),
+		ready: make([]atomic.Bool, len(shown)), all: make(chan struct{})}
 	var wg sync.WaitGroup
 	for i, me := range shown {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			out[i], errs[i] = m.slice(me, d, s)
+			r.out[i], r.errs[i] = m.slice(me, d, s)
+			r.ready[i].Store(true)
 		}()
 	}
-	wg.Wait()
-	for _, err := range errs {
+	go func() { wg.Wait(); close(r.all) }()
+	return r, nil
+}
+
+// results returns every slice once all are done, or the first error.
+func (r *running) results() ([]CoverageSlice, error) {
+	for _, err := range r.errs {
 		if err != nil {
 			return nil, err
 		}
 	}
-	return out, nil
+	return r.out, nil
+}
+
+// soFar returns the slices ready now and the names of the methods still
+// being computed.
+func (r *running) soFar() (done []CoverageSlice, pending []string) {
+	for i := range r.shown {
+		switch {
+		case !r.ready[i].Load():
+			pending = append(pending, r.shown[i].Name)
+		case r.errs[i] == nil:
+			done = append(done, r.out[i])
+		}
+	}
+	return done, pending
 }
 
 func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s sliceSettings) (CoverageSlice, error) {
@@ -349,6 +391,43 @@ func samePoint(p exact.Point, pi1, pi2 float64) bool {
 func (m *intervalModel) render(pos []int) Displayable {
 	s := m.settings(pos)
 	sl, err := m.slices(s)
+	return m.view(s, sl, err)
+}
+
+// renderWithin shows what is ready within the budget: after a change of n
+// or of the level the score methods' tables take a few hundred
+// milliseconds at 200 per group, so the others are drawn first.
+func (m *intervalModel) renderWithin(pos []int, budget time.Duration) (Displayable, func() Displayable) {
+	s := m.settings(pos)
+	r, err := m.start(s)
+	if err != nil {
+		return m.view(s, nil, err), nil
+	}
+	full := func() Displayable {
+		<-r.all
+		sl, err := r.results()
+		return m.view(s, sl, err)
+	}
+	select {
+	case <-r.all:
+		return full(), nil
+	case <-time.After(budget):
+	}
+	done, pending := r.soFar()
+	if len(pending) == 0 {
+		return full(), nil
+	}
+	note := message{kind: "interval", text: fmt.Sprintf("Computing the exact tables of %s for n1 = %d, n2 = %d at %s; they appear in a moment.",
+		strings.Join(pending, ", "), s.n1, s.n2, trimPct(s.level))}
+	if len(done) == 0 {
+		return note, full
+	}
+	v := m.view(s, done, nil)
+	return views{note, v}, full
+}
+
+// view shows the chart and the summary table, or why there are none.
+func (m *intervalModel) view(s sliceSettings, sl []CoverageSlice, err error) Displayable {
 	if err != nil {
 		return message{kind: "interval", text: "No coverage for these settings: " + err.Error()}
 	}

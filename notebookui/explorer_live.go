@@ -125,11 +125,26 @@ func live(m model, s liveSettings) error {
 	defer idle.Stop()
 	seq := 0
 	stopped := finalNote
+	// A partial frame's completion arrives here; one for an earlier
+	// change than the latest is dropped.
+	type completed struct {
+		seq int
+		f   Frame
+	}
+	completions := make(chan completed, 16)
+	var complete func() Frame // completes the frame on show, if partial
+	var arrived time.Time
 loop:
 	for {
 		select {
+		case done := <-completions:
+			if done.seq == seq {
+				f, complete = done.f, nil
+				f.Sequence, f.arrived = seq, arrived
+				gonbui.UpdateHTML(viewOut, f.HTML())
+			}
 		case c := <-changes:
-			arrived := time.Now()
+			arrived = time.Now()
 			pos[c.control] = cs[c.control].clamp(c.pos)
 			// A slider sends a stream of positions while it is dragged:
 			// take every pending one and draw only the last state.
@@ -142,9 +157,12 @@ loop:
 				}
 			}
 			seq++
-			f = frameOf(m, pos)
+			f, complete = frameWithin(m, pos, quickBudget)
 			f.Sequence, f.arrived = seq, arrived
 			gonbui.UpdateHTML(viewOut, f.HTML())
+			if complete != nil {
+				go func(seq int, complete func() Frame) { completions <- completed{seq, complete()} }(seq, complete)
+			}
 			idle.Reset(s.idle)
 		case <-w.done.C:
 			break loop
@@ -157,6 +175,9 @@ loop:
 		ch.Close()
 	}
 	w.done.Close()
+	if complete != nil { // the saved notebook keeps a complete frame
+		f = complete()
+	}
 	gonbui.UpdateHTML(controlsOut, "")
 	gonbui.UpdateHTML(viewOut, "")
 	f.Note, f.Sequence, f.arrived = stopped, seq, time.Time{}

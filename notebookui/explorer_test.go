@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/propscope/propscope/proportions"
 	"gonum.org/v1/gonum/stat/distuv"
@@ -338,5 +339,40 @@ func TestStaticFrameOutsideANotebook(t *testing.T) {
 	}
 	if err := e.Run(); err != nil {
 		t.Fatal(err)
+	}
+}
+
+func TestIntervalExplorerDrawsReadyMethodsFirst(t *testing.T) {
+	e := IntervalExplorer{N1: 150, N2: 150, Rate1: 0.3, Rate2: 0.2}
+	m, err := e.model()
+	if err != nil {
+		t.Fatal(err)
+	}
+	pos := startPositions(m)
+	// A zero budget: the score methods' new tables cannot be ready.
+	f, complete := frameWithin(m, pos, 0)
+	if complete == nil || !f.Partial || !strings.Contains(f.HTML(), `data-partial="true"`) {
+		t.Fatalf("a change that needs new tables should first show a partial frame")
+	}
+	if !strings.Contains(f.Text(), "Computing the exact tables of") {
+		t.Errorf("the partial frame should say what is being computed:\n%s", f.Text())
+	}
+	full := complete()
+	if full.Partial || strings.Contains(full.HTML(), "data-partial") {
+		t.Fatal("the completed frame is still partial")
+	}
+	again := complete() // safe to call twice
+	want := frameOf(m, pos)
+	rows := regexp.MustCompile(`<tr data-method="[^"]+" data-coverage="[^"]*"`)
+	got := rows.FindAllString(full.HTML(), -1)
+	if len(got) != len(proportions.IntervalMethods(proportions.Difference)) ||
+		strings.Join(got, "|") != strings.Join(rows.FindAllString(want.HTML(), -1), "|") ||
+		strings.Join(rows.FindAllString(again.HTML(), -1), "|") != strings.Join(got, "|") {
+		t.Errorf("completed frame rows differ from a direct computation:\n%v\n%v", got, rows.FindAllString(want.HTML(), -1))
+	}
+	// With the tables cached, the whole frame is ready at once.
+	pos[3] = 40
+	if f, complete := frameWithin(m, pos, time.Minute); complete != nil || f.Partial {
+		t.Error("a change of π1 reuses the tables and should not be partial")
 	}
 }
