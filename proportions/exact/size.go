@@ -60,7 +60,9 @@ func Size(ctx context.Context, t proportions.TestMethod, n1, n2 int, h proportio
 }
 
 // Size is the actual size of the decision along the null line of its
-// first hypothesis (see the function [Size]).
+// first hypothesis (see the function [Size]). For an equivalence decision
+// (two one-sided hypotheses) the null has two boundary lines; list the
+// hypothesis whose line you want first, or call Size once per order.
 func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*SizeCurve, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
