@@ -2,7 +2,7 @@
 SHELL := /bin/bash
 GO ?= go
 
-.PHONY: help notebook reports setup test go-test notebook-test bench bench-coverage
+.PHONY: help notebook reports setup test go-test notebook-test bench bench-coverage bench-charts
 help:
 	@grep -E '^[a-z-]+:.*## ' $(MAKEFILE_LIST) | sed 's/:.*## /\t/'
 
@@ -34,3 +34,6 @@ bench: ## benchmarks of the numerical core
 
 bench-coverage: ## exact coverage engine side by side with a NumPy enumeration (installs python3-numpy)
 	scripts/bench-coverage.sh
+
+bench-charts: ## time building and rendering the charts (the confidence curve includes its ~450 test evaluations)
+	$(GO) test -run '^$$' -bench 'Chart' -benchmem ./notebookui/
