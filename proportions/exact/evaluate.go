@@ -154,8 +154,12 @@ func (ev *evaluation) widthSums(j int) {
 	lo, hi := b.lo, b.hi+1
 	r0, r1 := ev.rows[j][0], ev.rows[j][1]+1
 	w := make([]float64, t.n1+1)
-	u := make([]float64, t.n1+1)
-	ev.wsum[j], ev.usum[j] = w, u
+	ev.wsum[j] = w
+	var u []float64
+	if t.family() != proportions.Difference {
+		u = make([]float64, t.n1+1)
+		ev.usum[j] = u
+	}
 	if r0 >= r1 {
 		return
 	}
