@@ -222,11 +222,15 @@ func sizeMark(p proportions.PowerPoint, label, color string) map[string]any {
 		"label":     map[string]any{"formatter": label, "position": "top", "distance": 2, "color": color, "fontSize": 11}}
 }
 
+// targetColor draws reference lines in near-black, so they never share a
+// colour with a curve.
+const targetColor = "#222222"
+
 // targetLine marks the target power and, on a difference chart, α.
 func targetLine(target, alpha float64, withAlpha bool) map[string]any {
 	data := []any{map[string]any{"yAxis": target, "name": "target",
-		"lineStyle": map[string]any{"color": ColorVermillion, "type": "dashed", "width": 1.5},
-		"label":     map[string]any{"formatter": "target " + fmtPct(target), "position": "insideEndTop", "color": ColorVermillion}}}
+		"lineStyle": map[string]any{"color": targetColor, "type": "dashed", "width": 1.5},
+		"label":     map[string]any{"formatter": "target " + fmtPct(target), "position": "insideEndTop", "color": targetColor}}}
 	if withAlpha {
 		data = append(data, map[string]any{"yAxis": alpha, "name": "α",
 			"lineStyle": map[string]any{"color": ColorGrey, "type": "dotted", "width": 1.5},
