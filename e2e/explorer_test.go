@@ -183,7 +183,8 @@ func (e explorer) done() {
 
 func (e explorer) shot(name string) {
 	e.t.Helper()
-	eval[bool](e.t, e.ctx, e.frame()+`.scrollIntoView(); true`)
+	// The controls sit just above the frame: show both.
+	eval[bool](e.t, e.ctx, `(`+e.controls()+` || `+e.frame()+`).scrollIntoView(); true`)
 	// Classic Notebook scrolls inside #site: take the visible page.
 	png, err := chromedp.Run(e.ctx, chromedp.CaptureScreenshot())
 	if err != nil {
