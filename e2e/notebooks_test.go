@@ -72,6 +72,17 @@ func TestNotebooks(t *testing.T) {
 				check(t, ctx)
 			}
 			screenshot(t, ctx, name)
+			checkContrast(t, ctx)
+			// The same notebook in JupyterLab's dark theme.
+			dark, _, err := nbrun.ExportHTML(context.Background(), root, r.Executed, name+"-dark", "--template", "lab", "--HTMLExporter.theme=dark")
+			if err != nil {
+				t.Fatal(err)
+			}
+			open(t, ctx, dark)
+			checkContrast(t, ctx)
+			if eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"]').length`) > 0 {
+				screenshotOf(t, ctx, name+"-card-dark", `section[data-propscope="result-card"]`)
+			}
 		})
 	}
 }
@@ -93,8 +104,8 @@ func execute(t *testing.T, root, notebook string) nbrun.Result {
 }
 
 // checkOutputs checks every propscope display output in the executed
-// notebook: one output holding HTML, plain text and a JSON object that
-// names its kind.
+// notebook: one output holding HTML, plain text and a JSON object (the
+// Displayable contract in notebookui/display.go).
 func checkOutputs(t *testing.T, r nbrun.Result) {
 	t.Helper()
 	outs, err := nbrun.Outputs(r.Executed)
@@ -107,11 +118,38 @@ func checkOutputs(t *testing.T, r nbrun.Result) {
 				t.Errorf("cell %d: %s output lacks %s", o.Cell, o.Kind, mime)
 			}
 		}
-		var obj struct {
-			Kind string `json:"kind"`
+		var obj map[string]any
+		if err := json.Unmarshal(o.Data["application/json"], &obj); err != nil {
+			t.Errorf("cell %d: %s output's application/json is not a JSON object: %v", o.Cell, o.Kind, err)
 		}
-		if err := json.Unmarshal(o.Data["application/json"], &obj); err != nil || obj.Kind != o.Kind {
-			t.Errorf("cell %d: application/json is not an object of kind %q: %s", o.Cell, o.Kind, o.Data["application/json"])
+	}
+}
+
+// checkContrast requires every propscope element's text colour to stand
+// out from the background behind it by the WCAG 2 contrast ratio for body
+// text, 4.5:1 (W3C Web Content Accessibility Guidelines 2.1, success
+// criterion 1.4.3), with the relative luminance formula defined there.
+func checkContrast(t *testing.T, ctx context.Context) {
+	t.Helper()
+	ratios := eval[[]float64](t, ctx, `(() => {
+		const rgb = c => c.match(/[\d.]+/g).map(Number);
+		const lin = v => { v /= 255; return v <= 0.03928 ? v / 12.92 : Math.pow((v + 0.055) / 1.055, 2.4); };
+		const lum = c => { const [r, g, b] = rgb(c); return 0.2126 * lin(r) + 0.7152 * lin(g) + 0.0722 * lin(b); };
+		const background = el => {
+			for (let e = el; e; e = e.parentElement) {
+				const m = rgb(getComputedStyle(e).backgroundColor);
+				if (m.length < 4 || m[3] > 0.5) return getComputedStyle(e).backgroundColor;
+			}
+			return "rgb(255, 255, 255)";
+		};
+		return [...document.querySelectorAll('[data-propscope]')].map(el => {
+			const a = lum(getComputedStyle(el).color), b = lum(background(el));
+			return (Math.max(a, b) + 0.05) / (Math.min(a, b) + 0.05);
+		});
+	})()`)
+	for i, r := range ratios {
+		if r < 4.5 {
+			t.Errorf("propscope element %d: text contrast %.2f:1 is below 4.5:1", i, r)
 		}
 	}
 }

@@ -103,7 +103,6 @@ func Run(ctx context.Context, root, notebook, outDir string) (Result, error) {
 	}
 	name := strings.TrimSuffix(filepath.Base(notebook), ".ipynb")
 	r.Executed = filepath.Join(absOut, name+".ipynb")
-	r.HTML = filepath.Join(absOut, name+".html")
 	// --allow-errors: keep executing so that every failing cell is reported,
 	// not just the first; the outputs are checked below.
 	log, err := nbconvert(ctx, root, filepath.Dir(notebook), "--to", "notebook", "--execute", "--allow-errors",
@@ -115,12 +114,24 @@ func Run(ctx context.Context, root, notebook, outDir string) (Result, error) {
 	if r.CellErrors, err = CellErrors(r.Executed); err != nil {
 		return r, err
 	}
-	log, err = nbconvert(ctx, root, absOut, "--to", "html", "--output-dir", absOut, name+".ipynb")
+	html, log, err := ExportHTML(ctx, root, r.Executed, name)
+	r.HTML = html
 	r.Log += "\n" + log
+	return r, err
+}
+
+// ExportHTML exports an executed notebook to NAME.html beside it, with
+// extra nbconvert arguments (for example "--template", "lab",
+// "--HTMLExporter.theme=dark" for JupyterLab's dark theme). It returns the
+// HTML's path and nbconvert's output.
+func ExportHTML(ctx context.Context, root, executed, name string, args ...string) (path, log string, err error) {
+	dir := filepath.Dir(executed)
+	all := append([]string{"--to", "html", "--output-dir", dir, "--output", name}, args...)
+	log, err = nbconvert(ctx, root, dir, append(all, filepath.Base(executed))...)
 	if err != nil {
-		return r, fmt.Errorf("exporting %s to HTML: %w\n%s", r.Executed, err, log)
+		return "", log, fmt.Errorf("exporting %s to HTML: %w\n%s", executed, err, log)
 	}
-	return r, nil
+	return filepath.Join(dir, name+".html"), log, nil
 }
 
 func nbconvert(ctx context.Context, root, dir string, args ...string) (string, error) {
