@@ -93,7 +93,76 @@ func fisherWalk(n1, n2, m, from, to, step int64, logThr float64) (last int64, lo
 // tables are taken from both ends, least probable first, a group of tables
 // tied within FisherTieTolerance at a time (they share one two-sided
 // p-value), while the running total stays at most exp(logThr).
+//
+// The merge runs in linear scale relative to the larger end probability.
+// Tables at an end more than e⁻⁷⁰⁰ below it are skipped by bisection (they
+// are in the region, and their mass is nil at double precision) unless the
+// threshold itself is that small, in which case the merge runs in log space.
 func fisherTwoSidedCut(n1, n2, m int64, logThr float64) (left, right int64) {
+	lo, hi := hypergeomSupport(n1, n2, m)
+	ref := max(logHypergeomPMF(lo, n1, n2, m), logHypergeomPMF(hi, n1, n2, m))
+	if logThr-ref < -600 {
+		return fisherTwoSidedCutLog(n1, n2, m, logThr)
+	}
+	const floor, big = -700.0, 1e280
+	mode := hypergeomMode(n1, n2, m)
+	i, j := lo, hi
+	if logHypergeomPMF(lo, n1, n2, m)-ref < floor {
+		i = firstAbove(lo, mode, func(k int64) bool { return logHypergeomPMF(k, n1, n2, m)-ref >= floor })
+	}
+	if logHypergeomPMF(hi, n1, n2, m)-ref < floor {
+		j = -firstAbove(-hi, -mode, func(k int64) bool { return logHypergeomPMF(-k, n1, n2, m)-ref >= floor })
+	}
+	vi, vj := math.Exp(logHypergeomPMF(i, n1, n2, m)-ref), math.Exp(logHypergeomPMF(j, n1, n2, m)-ref)
+	limit, cum := math.Exp(min(logThr-ref, 700)), 0.0
+	tie := 1 + FisherTieTolerance
+	for i <= j {
+		t := min(vi, vj) * tie
+		group := 0.0
+		ni, nj, nvi, nvj := i, j, vi, vj
+		for ni <= nj && nvi <= t {
+			group += nvi
+			ni++
+			if ni <= hi {
+				nvi *= hypergeomRatio(ni-1, n1, n2, m)
+			}
+		}
+		for nj >= ni && nvj <= t {
+			group += nvj
+			nj--
+			if nj >= lo {
+				nvj /= hypergeomRatio(nj, n1, n2, m)
+			}
+		}
+		if cum+group > limit {
+			break
+		}
+		cum, i, j, vi, vj = cum+group, ni, nj, nvi, nvj
+		if cum > big {
+			cum, vi, vj, ref = cum/big, vi/big, vj/big, ref+math.Log(big)
+			limit = math.Exp(min(logThr-ref, 700))
+		}
+	}
+	return i - 1, j + 1
+}
+
+// firstAbove returns the smallest k in [a, b] with ok(k) true, for ok
+// monotone (false then true) on [a, b] and ok(b) true.
+func firstAbove(a, b int64, ok func(int64) bool) int64 {
+	for a < b {
+		mid := a + (b-a)/2
+		if ok(mid) {
+			b = mid
+		} else {
+			a = mid + 1
+		}
+	}
+	return a
+}
+
+// fisherTwoSidedCutLog is fisherTwoSidedCut in log space, for thresholds
+// far below the slice's largest end probability.
+func fisherTwoSidedCutLog(n1, n2, m int64, logThr float64) (left, right int64) {
 	lo, hi := hypergeomSupport(n1, n2, m)
 	tieTol := math.Log1p(FisherTieTolerance)
 	i, j := lo, hi

@@ -123,6 +123,8 @@ var (
 		NewcombeCC,
 		Mee,
 		MiettinenNurminen,
+		ChanZhang,
+		AgrestiMin,
 	}
 	ratioMethods = []IntervalMethod{
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,

@@ -7,7 +7,7 @@
 // disturbed than wall time on a shared machine, plus the wall time; each
 // case runs for at least -mintime.
 //
-//	go run ./tools/benchexact [-mintime 1s] [-case fisher-10000]
+//	go run ./cmd/benchexact [-mintime 1s] [-case fisher-10000]
 package main
 
 import (
@@ -60,7 +60,8 @@ func main() {
 		testCase("barnard-800", proportions.Barnard, 800),
 		testCase("boschloo-doubled-400", proportions.BoschlooDoubled, 400),
 		testCase("boschloo-400", proportions.Boschloo, 400),
-		// CHANZHANG
+		intervalCase("chan-zhang-100", proportions.ChanZhang, 100),
+		intervalCase("agresti-min-100", proportions.AgrestiMin, 100),
 	}
 	enc := json.NewEncoder(os.Stdout)
 	for _, bc := range cases {
