@@ -59,7 +59,7 @@ func TestExactRestricted(t *testing.T) {
 
 // bruteScoreP is the exact unconditional score-test p-value at δ computed
 // the slow way: restricted estimates by likelihood maximisation for every
-// table, the tail summed table by table, the supremum over 2000 grid values
+// table, the tail summed table by table, the supremum over 1000 grid values
 // of π2 plus golden refinement around the best.
 func bruteScoreP(c Counts, delta float64, side regionSide) float64 {
 	z := func(x1, x2 int64) float64 {
@@ -84,12 +84,12 @@ func bruteScoreP(c Counts, delta float64, side regionSide) float64 {
 		}
 	}
 	tail := func(p2 float64) float64 {
-		p1 := min(max(p2+delta, 0), 1)
+		b1, b2 := binomTable(c.N1, min(max(p2+delta, 0), 1)), binomTable(c.N2, p2)
 		s := 0.0
 		for x1 := range in {
 			for x2 := range in[x1] {
 				if in[x1][x2] {
-					s += binomDirect(int64(x1), c.N1, p1) * binomDirect(int64(x2), c.N2, p2)
+					s += b1[x1] * b2[x2]
 				}
 			}
 		}
@@ -97,13 +97,13 @@ func bruteScoreP(c Counts, delta float64, side regionSide) float64 {
 	}
 	a, b := max(0, -delta), min(1, 1-delta)
 	best, at := 0.0, a
-	for i := 0; i <= 2000; i++ {
-		p := a + (b-a)*float64(i)/2000
+	for i := 0; i <= 1000; i++ {
+		p := a + (b-a)*float64(i)/1000
 		if v := tail(p); v > best {
 			best, at = v, p
 		}
 	}
-	lo, hi := max(a, at-(b-a)/2000), min(b, at+(b-a)/2000)
+	lo, hi := max(a, at-(b-a)/1000), min(b, at+(b-a)/1000)
 	for range 60 {
 		m1, m2 := hi-0.618*(hi-lo), lo+0.618*(hi-lo)
 		if tail(m1) < tail(m2) {
