@@ -2,7 +2,7 @@
 SHELL := /bin/bash
 GO ?= go
 
-.PHONY: help notebook reports setup test go-test notebook-test bench bench-coverage bench-charts
+.PHONY: help notebook reports setup test go-test notebook-test bench bench-coverage bench-charts bench-exact
 help:
 	@grep -E '^[a-z-]+:.*## ' $(MAKEFILE_LIST) | sed 's/:.*## /\t/'
 
@@ -37,3 +37,6 @@ bench-coverage: ## exact coverage engine side by side with a NumPy enumeration (
 
 bench-charts: ## time building and rendering the charts (the confidence curve includes its ~450 test evaluations)
 	$(GO) test -run '^$$' -bench 'Chart' -benchmem ./notebookui/
+
+bench-exact: ## Fisher, Barnard, Boschloo and the exact interval side by side with SciPy (installs python3-scipy)
+	scripts/bench-exact.sh
