@@ -22,6 +22,12 @@ import "math"
 // already fallen below α/5 would be missed. Each test costs O(n1·n2) for
 // the region plus the nuisance search, and a limit takes about 30 tests
 // (about 0.1 s of CPU for the interval at n1 = n2 = 100).
+//
+// ChanZhang and AgrestiMin are not (yet) in the registry's difference list:
+// the registry-wide property and coverage-engine tests call every listed
+// method for thousands of tables, which takes minutes with an exact
+// unconditional interval. Use them directly (IntervalAt, Interval) or add
+// them to the list once those tests skip methods above their SizeLimit.
 
 // ChanZhang is the exact unconditional interval of Chan ISF, Zhang Z (1999),
 // "Test-based exact confidence intervals for the difference of two binomial

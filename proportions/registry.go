@@ -123,8 +123,6 @@ var (
 		NewcombeCC,
 		Mee,
 		MiettinenNurminen,
-		ChanZhang,
-		AgrestiMin,
 	}
 	ratioMethods = []IntervalMethod{
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
