@@ -154,14 +154,14 @@ func (e explorer) waitLive() {
 		fmt.Sprintf(`(() => { const c = %s, f = %s; return !!(c && c.querySelector('[data-control="done"] button') && f && f.dataset.sequence === "0"); })()`, e.controls(), e.frame()))
 }
 
-// move sets a slider the way a reader's drag ends (GoNB's slider sends its
+// move sets a slider (or a drop-down) the way a reader's drag ends (GoNB's slider sends its
 // value on "change"), waits for the redrawn complete frame (a partial one
 // may come first) and returns the time from the event to that frame in the
 // page, in milliseconds.
 func (e explorer) move(control string, value int) float64 {
 	e.t.Helper()
 	seq := eval[string](e.t, e.ctx, e.frame()+`.dataset.sequence`)
-	eval[bool](e.t, e.ctx, fmt.Sprintf(`(() => { const s = %s.querySelector('[data-control=%q] input');
+	eval[bool](e.t, e.ctx, fmt.Sprintf(`(() => { const s = %s.querySelector('[data-control=%q] :is(input, select)');
 		window.propscopeMoved = Date.now(); window.propscopeFirst = 0; window.propscopeRedrawn = 0;
 		s.value = %d; s.dispatchEvent(new Event("change")); return true; })()`, e.controls(), control, value))
 	waitFor(e.t, e.ctx, fmt.Sprintf("%s explorer to redraw after %s = %d", e.kind, control, value),
@@ -290,6 +290,10 @@ func TestLiveExplorers(t *testing.T) {
 	ms = iv.move("n1", 120)
 	iv.checkCoverage(120, 150, 0.08, 0.04)
 	logRedraw(t, iv, ms)
+	// Hold the difference (0 points) instead of π2: the point becomes
+	// (8%, 8%) on the line π1 = π2.
+	iv.move("hold", 1)
+	iv.checkCoverage(120, 150, 0.08, 0.08)
 	iv.shot("explorer-interval-live")
 	iv.done()
 

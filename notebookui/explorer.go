@@ -135,8 +135,12 @@ func frameOf(m model, pos []int) Frame {
 func newFrame(m model, pos []int, v Displayable, start time.Time) Frame {
 	cs := m.controls()
 	settings := make([]Setting, len(cs))
+	idle, _ := m.(interface{ unused(pos []int, i int) bool })
 	for i, c := range cs {
 		settings[i] = Setting{Key: c.key, Label: c.label, Position: pos[i], Value: c.shown(pos[i])}
+		if idle != nil && idle.unused(pos, i) {
+			settings[i].Value += " (not used)"
+		}
 	}
 	f := Frame{Explorer: m.name(), Title: m.title(), Settings: settings, View: v}
 	// Rendering the view's HTML is part of a redraw's cost.

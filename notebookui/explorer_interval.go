@@ -256,6 +256,12 @@ func (m *intervalModel) controls() []control {
 	}
 }
 
+// unused marks the rate slider that the slice does not read: π2 when the
+// difference is held, the difference when π2 is.
+func (m *intervalModel) unused(pos []int, i int) bool {
+	return (i == 5 && pos[4] == 1) || (i == 6 && pos[4] == 0)
+}
+
 func (m *intervalModel) settings(pos []int) sliceSettings {
 	s := sliceSettings{n1: pos[0], n2: pos[1], level: float64(pos[2]) / 200,
 		pi1: float64(pos[3]) / 100, holdDiff: pos[4] == 1, methodChoice: pos[7]}

@@ -139,6 +139,11 @@ func (m planningModel) controls() []control {
 	}
 }
 
+// unused marks the margin of a test of equality, which has none.
+func (m planningModel) unused(pos []int, i int) bool {
+	return i == 3 && planGoals[pos[0]] == proportions.Equality
+}
+
 // design builds the plan at the positions. The starting goal keeps the
 // starting α and direction; another goal takes NewDesign's α for it, and
 // a one-sided goal keeps a one-sided starting direction (Less for defect

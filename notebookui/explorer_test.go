@@ -133,6 +133,13 @@ func TestIntervalExplorerHoldDifference(t *testing.T) {
 	if !s.AtValid || math.Abs(s.At.Pi1-0.5) > 1e-9 || math.Abs(s.At.Pi2-0.4) > 1e-9 {
 		t.Errorf("chosen point %+v, want (0.5, 0.4)", s.At)
 	}
+	f, err := e.Frame()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(f.Text(), "true rate π2: 0% (not used)") || strings.Contains(f.Text(), "+10 pp (not used)") {
+		t.Errorf("with the difference held the π2 slider is the unused one:\n%s", f.Text())
+	}
 }
 
 func TestIntervalExplorerFrameShowsTheNumbers(t *testing.T) {
