@@ -293,8 +293,9 @@ func designCharts(t *testing.T) []namedChart {
 }
 
 // TestChartsDrawOffline writes each chart as a standalone page, opens it in
-// Chromium with the network blocked, checks that the canvas has ink and the
-// tooltip shows the numbers, and saves a screenshot.
+// Chromium with the network blocked, checks that the canvas has ink and
+// that hovering the middle data item shows a tooltip with numbers, and
+// saves a screenshot.
 func TestChartsDrawOffline(t *testing.T) {
 	a := seedTrial(t, "coated", "uncoated")
 	dir := chartsDir(t)
@@ -307,6 +308,9 @@ func TestChartsDrawOffline(t *testing.T) {
 		b.open(t, "file://"+path, 1)
 		if ink := b.ink(t); len(ink) != 1 || ink[0] < 2000 {
 			t.Errorf("%s: %v drawn pixels, want a drawn chart (over 2000)", nc.name, ink)
+		}
+		if tip := b.tooltip(t, 0, 0, -1); !strings.ContainsAny(tip, "0123456789") || !strings.ContainsAny(tip, "%p") {
+			t.Errorf("%s: tooltip %q shows no numbers", nc.name, tip)
 		}
 		shot := filepath.Join(dir, nc.name+".png")
 		b.screenshot(t, 0, shot)
