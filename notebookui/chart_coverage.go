@@ -101,7 +101,6 @@ func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) 
 			}
 		}
 	}
-	labelEvery := max(1, len(s.Pi1)/10)
 	ch := charts.NewHeatMap()
 	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
 	ch.SetGlobalOptions(
@@ -112,10 +111,10 @@ func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) 
 		charts.WithGridOpts(opts.Grid{Left: "24", Right: "200", Top: "84", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
-	// Label about ten grid values per axis (go-echarts types the interval
-	// as a string, which echarts does not read as a number).
-	axisLabels(option, "xAxis", labelEvery-1)
-	axisLabels(option, "yAxis", max(1, len(s.Pi2)/10)-1)
+	// Label the grid values that are round multiples of a step chosen for
+	// about eight labels per axis.
+	axisLabels(option, "xAxis", gridLabelStep(s.Pi1))
+	axisLabels(option, "yAxis", gridLabelStep(s.Pi2))
 	series := map[string]any{
 		"type": "heatmap", "name": "coverage", "data": data, "progressive": 0,
 		"emphasis": map[string]any{"itemStyle": map[string]any{"borderColor": "#000", "borderWidth": 1}},
@@ -149,21 +148,35 @@ func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) 
 	return newChart("coverage-map", title, subtitle, set.heightOr(560), option, table, notes)
 }
 
-// axisLabels sets the label interval of the first axis of the given kind
-// in a go-echarts option map.
-func axisLabels(option map[string]any, axis string, interval int) {
+// gridLabelStep is a round step, in percent, for about eight labels over
+// the span of a grid of rates.
+func gridLabelStep(grid []float64) float64 {
+	return niceStep(100 * (grid[len(grid)-1] - grid[0]) / 8)
+}
+
+// roundLabels shows a category label (a rate in percent) only when it is a
+// multiple of the step; %v is the step.
+const roundLabels = `function (index, value) {
+  var x = parseFloat(value) / %v;
+  return Math.abs(x - Math.round(x)) < 1e-6;
+}`
+
+// axisLabels shows only the round grid values on the first axis of the
+// given kind in a go-echarts option map.
+func axisLabels(option map[string]any, axis string, step float64) {
+	label := map[string]any{"interval": jsFunc(fmt.Sprintf(roundLabels, step))}
 	switch v := option[axis].(type) {
 	case []opts.XAxis:
 		m := map[string]any{}
 		b, _ := json.Marshal(v[0])
 		_ = json.Unmarshal(b, &m)
-		m["axisLabel"] = map[string]any{"interval": interval}
+		m["axisLabel"] = label
 		option[axis] = []any{m}
 	case []opts.YAxis:
 		m := map[string]any{}
 		b, _ := json.Marshal(v[0])
 		_ = json.Unmarshal(b, &m)
-		m["axisLabel"] = map[string]any{"interval": interval}
+		m["axisLabel"] = label
 		option[axis] = []any{m}
 	}
 }
