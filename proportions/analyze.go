@@ -32,8 +32,9 @@ const smallExpected = 5
 // standing caution.
 //
 // It reads the settings Level (default 0.95), Null (δ, default 0),
-// Alternative (default two-sided) and ContinuityCorrection (adds Yates'
-// test). Tests use α = 1 − Level. For a one-sided alternative the headline
+// Alternative (default two-sided), ContinuityCorrection (adds Yates' test)
+// and SkipSlowIntervals (WithExactIntervals(false) leaves out the exact
+// unconditional intervals). Tests use α = 1 − Level. For a one-sided alternative the headline
 // interval is the two-sided interval at level 1 − 2α, whose limit on the
 // alternative's side is the one-sided 1 − α confidence bound; so with a
 // one-sided test at 2.5% (Level 0.975) the familiar 95% interval is
@@ -64,9 +65,12 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	a.Groups[0] = groupEstimate(c.First, ivConf)
 	a.Groups[1] = groupEstimate(c.Second, ivConf)
 	total := counts.N1 + counts.N2
-	a.Intervals = a.intervalsOf(Difference, counts, ivConf, total)
-	a.Ratios = a.intervalsOf(Ratio, counts, ivConf, total)
-	a.OddsRatios = a.intervalsOf(OddsRatio, counts, ivConf, total)
+	a.Intervals = a.intervalsOf(IntervalMethods(Difference), counts, ivConf, total)
+	if !s.SkipSlowIntervals {
+		a.Intervals = append(a.Intervals, a.intervalsOf(SlowIntervalMethods(Difference), counts, ivConf, total)...)
+	}
+	a.Ratios = a.intervalsOf(IntervalMethods(Ratio), counts, ivConf, total)
+	a.OddsRatios = a.intervalsOf(IntervalMethods(OddsRatio), counts, ivConf, total)
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf}
 	a.Tests = a.testsOf(counts, h, s.ContinuityCorrection, total)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
@@ -102,9 +106,9 @@ func groupEstimate(g Group, conf Confidence) GroupEstimate {
 	return ge
 }
 
-func (a *Analysis) intervalsOf(f Family, c Counts, conf Confidence, total int64) []Interval {
+func (a *Analysis) intervalsOf(methods []IntervalMethod, c Counts, conf Confidence, total int64) []Interval {
 	var out []Interval
-	for _, m := range IntervalMethods(f) {
+	for _, m := range methods {
 		if m.SizeLimit > 0 && total > m.SizeLimit {
 			a.skip(m.Name, m.SizeLimit, total)
 			continue

@@ -46,7 +46,7 @@ func TestAnalyzeHeadlinePair(t *testing.T) {
 	if math.Abs(chi.Statistic-7.02341137124) > 1e-9 || math.Abs(a.Test.Statistic*a.Test.Statistic-chi.Statistic) > 1e-9 {
 		t.Errorf("z² = %v, X² = %v", a.Test.Statistic*a.Test.Statistic, chi.Statistic)
 	}
-	if len(a.Intervals) != len(IntervalMethods(Difference))-countSkipped(a) {
+	if len(a.Intervals) != len(IntervalMethods(Difference))+len(SlowIntervalMethods(Difference))-countSkipped(a) {
 		t.Errorf("%d difference intervals for %d methods", len(a.Intervals), len(IntervalMethods(Difference)))
 	}
 	if len(a.Groups[0].Intervals) == 0 || a.Groups[0].Intervals[0].Method != "wilson" {
@@ -80,7 +80,7 @@ func TestAnalyzeAgreement(t *testing.T) {
 		for _, null := range nulls {
 			for _, alt := range []Alternative{TwoSided, Greater, Less} {
 				for _, level := range []float64{0.9, 0.95, 0.99} {
-					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt))
+					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithExactIntervals(false))
 					if err != nil {
 						t.Fatal(err)
 					}
@@ -224,5 +224,24 @@ func TestAnalysisJSONFields(t *testing.T) {
 	}
 	if back.Interval != a.Interval {
 		t.Errorf("interval round trip: %+v vs %+v", back.Interval, a.Interval)
+	}
+}
+
+func TestAnalyzeSlowIntervals(t *testing.T) {
+	has := func(a Analysis, key string) bool {
+		return slices.ContainsFunc(a.Intervals, func(iv Interval) bool { return iv.Method == key })
+	}
+	small := mustComparison(t, 3, 12, 8, 11)
+	a, _ := Analyze(small)
+	if !has(a, "chan-zhang") || !has(a, "agresti-min") {
+		t.Error("exact unconditional intervals missing from a small analysis")
+	}
+	a, _ = Analyze(small, WithExactIntervals(false))
+	if has(a, "chan-zhang") {
+		t.Error("WithExactIntervals(false) should leave them out")
+	}
+	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000))
+	if has(big, "chan-zhang") || countSkipped(big) == 0 {
+		t.Errorf("above the size limit the slow intervals are skipped with a warning: %v", big.Warnings)
 	}
 }

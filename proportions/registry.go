@@ -124,7 +124,13 @@ var (
 		Mee,
 		MiettinenNurminen,
 	}
-	ratioMethods = []IntervalMethod{
+	// slowDifferenceMethods are exact intervals that cost milliseconds to
+	// seconds each: Analyze, result cards and lookups include them (up to
+	// their SizeLimit), but the coverage engine, which calls a method for
+	// every outcome of a design, does not offer them (it can still take one
+	// directly for a tiny design).
+	slowDifferenceMethods = []IntervalMethod{ChanZhang, AgrestiMin}
+	ratioMethods          = []IntervalMethod{
 		Katz, KatzZeroAdjusted, Koopman, MiettinenNurminenRatio,
 	}
 	oddsRatioMethods = []IntervalMethod{
@@ -144,8 +150,9 @@ var (
 	}
 )
 
-// IntervalMethods returns the registered interval methods of a family, in
-// display order. The slice is a fresh copy.
+// IntervalMethods returns the registered interval methods of a family that
+// are fast enough to be computed for every outcome of a design, in display
+// order. The slice is a fresh copy. SlowIntervalMethods lists the others.
 func IntervalMethods(f Family) []IntervalMethod {
 	switch f {
 	case Difference:
@@ -158,7 +165,19 @@ func IntervalMethods(f Family) []IntervalMethod {
 	return nil
 }
 
-// AllIntervalMethods returns every registered two-group interval method.
+// SlowIntervalMethods returns the registered exact interval methods of a
+// family that take milliseconds to seconds per table (the exact
+// unconditional intervals for the difference). Analyze includes them up to
+// their SizeLimit; the coverage engine does not enumerate them.
+func SlowIntervalMethods(f Family) []IntervalMethod {
+	if f == Difference {
+		return slices.Clone(slowDifferenceMethods)
+	}
+	return nil
+}
+
+// AllIntervalMethods returns every registered two-group interval method
+// that is fast enough for enumeration (see SlowIntervalMethods for the rest).
 func AllIntervalMethods() []IntervalMethod {
 	return slices.Concat(differenceMethods, ratioMethods, oddsRatioMethods)
 }
@@ -171,7 +190,7 @@ func Tests() []TestMethod { return slices.Concat(asymptoticTests, exactTests, ra
 
 // LookupInterval finds a two-group interval method by key.
 func LookupInterval(key string) (IntervalMethod, error) {
-	for _, m := range AllIntervalMethods() {
+	for _, m := range slices.Concat(AllIntervalMethods(), slowDifferenceMethods) {
 		if m.Key == key {
 			return m, nil
 		}
@@ -209,7 +228,7 @@ func LookupTest(key string) (TestMethod, error) {
 }
 
 func intervalKeys() []string {
-	all := AllIntervalMethods()
+	all := slices.Concat(AllIntervalMethods(), slowDifferenceMethods)
 	keys := make([]string, 0, len(all))
 	for _, m := range all {
 		keys = append(keys, m.Key)
