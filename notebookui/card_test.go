@@ -326,3 +326,22 @@ func TestClippedIntervalIsExplained(t *testing.T) {
 		t.Error("the Note column shows although no interval has a note")
 	}
 }
+
+func TestOneSidedNullIsWordedAsASide(t *testing.T) {
+	a := germinationAnalysis()
+	a.Alternative, a.Null = proportions.Greater, -0.05
+	a.Test.Alternative, a.Test.Null = proportions.Greater, -0.05
+	c := ResultCard{Analysis: a, lookup: fixedReferences}
+	text := html.UnescapeString(c.HTML())
+	for _, want := range []string{
+		"rejects a difference of −5.0 points or less",
+		"Null hypothesis: primed − untreated ≤ −5.0 points; alternative: primed − untreated > −5.0 (greater)",
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("one-sided card lacks %q", want)
+		}
+	}
+	if got := capitalize("état"); got != "État" {
+		t.Errorf("capitalize(état) = %q", got)
+	}
+}

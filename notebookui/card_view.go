@@ -2,6 +2,8 @@ package notebookui
 
 import (
 	"fmt"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/propscope/propscope/proportions"
 )
@@ -162,9 +164,15 @@ func decision(a proportions.Analysis, t proportions.TestResult) string {
 	return "does not reject " + null
 }
 
-// nullWords names the null hypothesis in plain words.
+// nullWords names the null hypothesis in plain words: for a one-sided
+// alternative the null is the whole other side.
 func nullWords(a proportions.Analysis) string {
-	if a.Null == 0 {
+	switch {
+	case a.Alternative == proportions.Greater:
+		return "a difference of " + points(a.Null, 1) + " points or less"
+	case a.Alternative == proportions.Less:
+		return "a difference of " + points(a.Null, 1) + " points or more"
+	case a.Null == 0:
 		return "equal rates"
 	}
 	return "a difference of " + points(a.Null, 1) + " points"
@@ -174,11 +182,16 @@ func hypothesis(a proportions.Analysis) string {
 	cmp := a.Comparison
 	diff := fmt.Sprintf("%s − %s", cmp.First.Label, cmp.Second.Label)
 	null := points(a.Null, 1)
-	alt := map[proportions.Alternative]string{
-		proportions.TwoSided: "≠", proportions.Greater: ">", proportions.Less: "<",
-	}[a.Alternative]
-	return fmt.Sprintf("Null hypothesis: %s = %s points; alternative: %s %s %s (%s). Level of each test: %s.",
-		diff, null, diff, alt, null, a.Alternative, levelText(1-a.Level))
+	// The null and the alternative split the line between them.
+	nullRel, altRel := "=", "≠"
+	switch a.Alternative {
+	case proportions.Greater:
+		nullRel, altRel = "≤", ">"
+	case proportions.Less:
+		nullRel, altRel = "≥", "<"
+	}
+	return fmt.Sprintf("Null hypothesis: %s %s %s points; alternative: %s %s %s (%s). Level of each test: %s.",
+		diff, nullRel, null, diff, altRel, null, a.Alternative, levelText(1-a.Level))
 }
 
 func groupsOf(a proportions.Analysis) groupTable {
@@ -302,12 +315,11 @@ func dedupeCitations(refs []Reference) []Reference {
 	return out
 }
 
+// capitalize upper-cases the first letter ("germinated" → "Germinated").
 func capitalize(s string) string {
-	for i, r := range s {
-		if r >= 'a' && r <= 'z' {
-			return string(r-'a'+'A') + s[i+1:]
-		}
+	r, size := utf8.DecodeRuneInString(s)
+	if r == utf8.RuneError {
 		return s
 	}
-	return s
+	return string(unicode.ToUpper(r)) + s[size:]
 }
