@@ -117,6 +117,17 @@ func TestLiveNotebook(t *testing.T) {
 	}
 	text := cardText(t, ctx, 0)
 	wantText(t, "the live card", text, "primed", "untreated", "+11.9", "81.9%", "70.0%", "+2.5 to +21.1")
+	// The card uses the output's width (up to its own maximum of 60em):
+	// classic Notebook's 10px root font would shrink rem-based sizes.
+	if !eval[bool](t, ctx, `(() => { const c = document.querySelector('section[data-propscope="result-card"]');
+		const room = Math.min(c.parentElement.getBoundingClientRect().width, 60 * parseFloat(getComputedStyle(c).fontSize));
+		return c.getBoundingClientRect().width >= 0.95 * room; })()`) {
+		t.Error("the card does not use the width of the notebook's output area")
+	}
+	// The folds show their triangle (summary as a list item).
+	if n := eval[int](t, ctx, `[...document.querySelectorAll('section[data-propscope="result-card"] summary')].filter(s => getComputedStyle(s).display !== "list-item").length`); n > 0 {
+		t.Errorf("%d folds lack their disclosure triangle", n)
+	}
 	// Classic Notebook scrolls inside #site, so bring the card into view
 	// and take the visible page.
 	eval[bool](t, ctx, `document.querySelector('section[data-propscope="result-card"]').scrollIntoView(); true`)

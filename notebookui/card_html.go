@@ -78,49 +78,51 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 <p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
 </section>`
 
-// cardCSS is scoped to .ps-card. Text takes the notebook's own colour
+// cardCSS is scoped to .ps-card. Sizes are in em, not rem: classic
+// Notebook sets the root font size to 10px. Summaries are list items again
+// so that the fold's triangle shows where the page's CSS hides it. Text takes the notebook's own colour
 // (JupyterLab's --jp-content-font-color1 when set, else inherited), and
 // tints and rules are translucent grey, so the card reads in light and dark
 // themes alike. Selectors are specific enough to win over the notebook's
 // own .rendered_html table rules (striped rows, right-aligned cells).
 const cardCSS = `
-.ps-card{color:var(--jp-content-font-color1,inherit);background:transparent;font-family:var(--jp-ui-font-family,system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif);font-size:14px;line-height:1.45;max-width:52rem;margin:.25rem 0;padding:1rem 1.1rem;border:1px solid rgba(128,128,128,.45);border-radius:8px;box-sizing:border-box;overflow-wrap:break-word}
+.ps-card{color:var(--jp-content-font-color1,inherit);background:transparent;font-family:var(--jp-ui-font-family,system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans","DejaVu Sans",sans-serif);font-size:14px;line-height:1.45;max-width:60em;margin:.25em 0;padding:1em 1.1em;border:1px solid rgba(128,128,128,.45);border-radius:8px;box-sizing:border-box;overflow-wrap:break-word}
 .ps-card *{box-sizing:border-box}
-.ps-card .ps-title{font-size:1.2em;font-weight:650;margin:0 0 .6rem;padding:0;line-height:1.3}
-.ps-card .ps-headline{border-left:4px solid #2a8c7a;padding:.3rem 0 .3rem .85rem;margin:0 0 .9rem}
-.ps-card .ps-headline p{margin:.15rem 0}
+.ps-card .ps-title{font-size:1.2em;font-weight:650;margin:0 0 .6em;padding:0;line-height:1.3}
+.ps-card .ps-headline{border-left:4px solid #2a8c7a;padding:.3em 0 .3em .85em;margin:0 0 .9em}
+.ps-card .ps-headline p{margin:.15em 0}
 .ps-card .ps-lead{font-size:.95em}
 .ps-card .ps-label{font-weight:600}
 .ps-card .ps-big{font-size:1.9em;font-weight:700;line-height:1.15;font-variant-numeric:tabular-nums}
 .ps-card .ps-unit{font-size:.5em;font-weight:500}
 .ps-card .ps-ci{font-variant-numeric:tabular-nums}
-.ps-card .ps-verdict{margin-top:.35rem}
-.ps-card svg.ps-strip{display:block;width:100%;max-width:26rem;height:auto;margin:.35rem 0 .1rem;overflow:visible}
+.ps-card .ps-verdict{margin-top:.35em}
+.ps-card svg.ps-strip{display:block;width:100%;max-width:30em;height:auto;margin:.35em 0 .1em;overflow:visible}
 .ps-card .ps-strip .ps-axis{stroke:currentColor;stroke-opacity:.35;stroke-width:1}
 .ps-card .ps-strip .ps-null{stroke:currentColor;stroke-opacity:.7;stroke-width:1.5;stroke-dasharray:4 3}
 .ps-card .ps-strip .ps-bar{stroke:#2a8c7a;stroke-width:8;stroke-linecap:round}
 .ps-card .ps-strip .ps-dot{fill:currentColor;stroke:none}
 .ps-card .ps-strip .ps-tick{fill:currentColor;font-size:12px;font-variant-numeric:tabular-nums}
 .ps-card .ps-muted{opacity:.8}
-.ps-card .ps-small{font-size:.9em;margin:.1rem 0 .35rem}
-.ps-card .ps-h{font-size:1em;font-weight:650;margin:1rem 0 .35rem;padding:0}
+.ps-card .ps-small{font-size:.9em;margin:.1em 0 .35em}
+.ps-card .ps-h{font-size:1em;font-weight:650;margin:1em 0 .35em;padding:0}
 .ps-card .ps-scroll{overflow-x:auto;width:0;min-width:100%}
-.ps-card table.ps-t{border-collapse:collapse;margin:0 0 .4rem;width:auto;min-width:60%;font-size:.95em;table-layout:auto;border:none}
-.ps-card table.ps-t caption{text-align:left;font-weight:600;padding:.5rem 0 .25rem;caption-side:top}
-.ps-card table.ps-t th,.ps-card table.ps-t td{text-align:left;padding:.3rem .7rem .3rem 0;border:none;border-bottom:1px solid rgba(128,128,128,.3);vertical-align:top;white-space:normal;max-width:none}
-.ps-card table.ps-t thead th{font-weight:600;border-bottom:1.5px solid rgba(128,128,128,.6);background:rgba(128,128,128,.1);padding-left:.4rem}
-.ps-card table.ps-t tbody th{font-weight:600;padding-left:.4rem}
+.ps-card table.ps-t{border-collapse:collapse;margin:0 0 .4em;width:auto;min-width:60%;font-size:.95em;table-layout:auto;border:none}
+.ps-card table.ps-t caption{text-align:left;font-weight:600;padding:.5em 0 .25em;caption-side:top}
+.ps-card table.ps-t th,.ps-card table.ps-t td{text-align:left;padding:.3em .7em .3em 0;border:none;border-bottom:1px solid rgba(128,128,128,.3);vertical-align:top;white-space:normal;max-width:none}
+.ps-card table.ps-t thead th{font-weight:600;border-bottom:1.5px solid rgba(128,128,128,.6);background:rgba(128,128,128,.1);padding-left:.4em}
+.ps-card table.ps-t tbody th{font-weight:600;padding-left:.4em}
 .ps-card table.ps-t tbody tr,.ps-card table.ps-t tbody tr:nth-child(odd),.ps-card table.ps-t tbody tr:nth-child(even){background:transparent}
 .ps-card table.ps-t tbody tr:hover{background:rgba(128,128,128,.08)}
 .ps-card table.ps-t .ps-n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
 .ps-card .ps-tag{display:inline-block;font-size:.75em;font-weight:600;padding:0 .35em;border:1px solid rgba(128,128,128,.6);border-radius:3px;vertical-align:1px}
-.ps-card .ps-conclusion{margin:.2rem 0 .4rem}
-.ps-card .ps-warnings{margin:.2rem 0 .4rem;padding:0;list-style:none}
-.ps-card .ps-warnings li{margin:.3rem 0;padding:.35rem .6rem;border-left:4px solid #c98a12;background:rgba(201,138,18,.1)}
-.ps-card details.ps-more{margin:.9rem 0 .2rem}
-.ps-card details.ps-more summary{cursor:pointer;font-weight:650}
-.ps-card .ps-refs{margin:.2rem 0 .4rem;padding-left:1.4rem;font-size:.9em}
-.ps-card .ps-refs li{margin:.15rem 0}
-.ps-card .ps-caution{margin:.9rem 0 0;padding-top:.5rem;border-top:1px solid rgba(128,128,128,.35);font-size:.9em}
-@media (max-width:480px){.ps-card{padding:.7rem .6rem}.ps-card .ps-big{font-size:1.5em}}
+.ps-card .ps-conclusion{margin:.2em 0 .4em}
+.ps-card .ps-warnings{margin:.2em 0 .4em;padding:0;list-style:none}
+.ps-card .ps-warnings li{margin:.3em 0;padding:.35em .6em;border-left:4px solid #c98a12;background:rgba(201,138,18,.1)}
+.ps-card details.ps-more{margin:.9em 0 .2em}
+.ps-card details.ps-more summary{display:list-item;cursor:pointer;font-weight:650}
+.ps-card .ps-refs{margin:.2em 0 .4em;padding-left:1.4em;font-size:.9em}
+.ps-card .ps-refs li{margin:.15em 0}
+.ps-card .ps-caution{margin:.9em 0 0;padding-top:.5em;border-top:1px solid rgba(128,128,128,.35);font-size:.9em}
+@media (max-width:480px){.ps-card{padding:.7em .6em}.ps-card .ps-big{font-size:1.5em}}
 `
