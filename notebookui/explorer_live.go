@@ -5,7 +5,6 @@ import (
 	"html"
 	"os"
 	"strings"
-	"sync"
 	"time"
 
 	"github.com/janpfeifer/gonb/gonbui"
@@ -27,8 +26,8 @@ const (
 	// change before it stops by itself and keeps its last state.
 	DefaultIdleTimeout = 15 * time.Minute
 	// DefaultSetupTimeout is how long it waits for the front end to
-	// answer when the controls are created.
-	DefaultSetupTimeout = time.Minute
+	// answer for each control it creates.
+	DefaultSetupTimeout = 30 * time.Second
 )
 
 // WithIdleTimeout stops the explorer after d without any change (default
@@ -42,9 +41,9 @@ func WithIdleTimeout(d time.Duration) LiveOption {
 	}
 }
 
-// WithSetupTimeout sets how long to wait for the front end to answer when
-// the controls are created (default DefaultSetupTimeout); without an
-// answer the explorer shows its static view and returns.
+// WithSetupTimeout sets how long to wait for the front end to answer for
+// each control created (default DefaultSetupTimeout); without an answer
+// the explorer shows its static view and returns.
 func WithSetupTimeout(d time.Duration) LiveOption {
 	return func(s *liveSettings) {
 		if d > 0 {
@@ -97,18 +96,29 @@ func live(m model, s liveSettings) error {
 	gonbui.UpdateHTML(controlsOut, controlsHTML(root, m.name(), cs))
 
 	// Creating a widget waits for the front end's first message; a front
-	// end that never answers must not hang the cell.
+	// end that never answers must not hang the cell. Each widget that
+	// answers restarts the wait, so a slow but working front end (a busy
+	// machine) is not mistaken for a missing one.
 	ready := make(chan widgetSet, 1)
-	go func() { ready <- buildWidgets(root, cs, pos) }()
+	progress := make(chan struct{}, len(cs)+1)
+	go func() { ready <- buildWidgets(root, cs, pos, progress) }()
 	var w widgetSet
-	select {
-	case w = <-ready:
-	case <-time.After(s.setup):
-		gonbui.UpdateHTML(controlsOut, "")
-		f := staticFrame(m)
-		f.Note = fmt.Sprintf("The notebook front end did not answer within %s, so the controls could not be set up: "+
-			"this is a static view of the starting settings. Run the cell again to retry.", s.setup)
-		return Display(f)
+	wait := time.NewTimer(s.setup)
+	defer wait.Stop()
+setup:
+	for {
+		select {
+		case w = <-ready:
+			break setup
+		case <-progress:
+			wait.Reset(s.setup)
+		case <-wait.C:
+			gonbui.UpdateHTML(controlsOut, "")
+			f := staticFrame(m)
+			f.Note = fmt.Sprintf("The notebook front end did not answer within %s, so the controls could not be set up: "+
+				"this is a static view of the starting settings. Run the cell again to retry.", s.setup)
+			return Display(f)
+		}
 	}
 
 	changes := make(chan change, 64)
@@ -185,34 +195,29 @@ loop:
 }
 
 // buildWidgets creates the controls in their cells of the controls table
-// and a Done button; it returns once the front end has answered for all of
-// them. Creating a widget waits for one round trip to the front end, so
-// they are created together (each has its own cell, so order does not
-// matter).
-func buildWidgets(root string, cs []control, pos []int) widgetSet {
-	w := widgetSet{changes: make([]*comms.AddressChan[int], len(cs))}
-	var wg sync.WaitGroup
+// and a Done button, one after the other (GoNB runs each widget's script
+// through one shared transient output, so they are not created
+// concurrently), and signals progress after each; it returns once the
+// front end has answered for all of them.
+func buildWidgets(root string, cs []control, pos []int, progress chan<- struct{}) widgetSet {
+	var w widgetSet
 	for i, c := range cs {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			cell, id := root+"-cell-"+c.key, root+"-"+c.key
-			if c.isChoice() {
-				opts := make([]string, len(c.options))
-				for k, o := range c.options {
-					opts[k] = html.EscapeString(o)
-				}
-				sel := widgets.Select(opts).WithHtmlId(id).SetDefault(pos[i]).AppendTo(cell).Done()
-				w.changes[i] = sel.Listen().LatestOnly()
-				return
+		cell, id := root+"-cell-"+c.key, root+"-"+c.key
+		if c.isChoice() {
+			opts := make([]string, len(c.options))
+			for k, o := range c.options {
+				opts[k] = html.EscapeString(o)
 			}
+			sel := widgets.Select(opts).WithHtmlId(id).SetDefault(pos[i]).AppendTo(cell).Done()
+			w.changes = append(w.changes, sel.Listen().LatestOnly())
+		} else {
 			sl := widgets.Slider(c.min, c.max, pos[i]).WithHtmlId(id).AppendTo(cell).Done()
-			w.changes[i] = sl.Listen().LatestOnly()
-		}()
+			w.changes = append(w.changes, sl.Listen().LatestOnly())
+		}
+		progress <- struct{}{}
 	}
 	done := widgets.Button("Done").WithHtmlId(root + "-done").AppendTo(root + "-cell-done").Done()
 	w.done = done.Listen()
-	wg.Wait()
 	return w
 }
 
