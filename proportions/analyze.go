@@ -33,8 +33,7 @@ const smallExpected = 5
 //
 // It reads the settings Level (default 0.95), Null (δ, default 0),
 // Alternative (default two-sided), ContinuityCorrection (adds Yates' test)
-// and SkipSlowIntervals (WithExactIntervals(false) leaves out the exact
-// unconditional intervals). Tests use α = 1 − Level. For a one-sided alternative the headline
+// and SkipExact (WithExactMethods(false) leaves out the exact methods). Tests use α = 1 − Level. For a one-sided alternative the headline
 // interval is the two-sided interval at level 1 − 2α, whose limit on the
 // alternative's side is the one-sided 1 − α confidence bound; so with a
 // one-sided test at 2.5% (Level 0.975) the familiar 95% interval is
@@ -65,14 +64,14 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	a.Groups[0] = groupEstimate(c.First, ivConf)
 	a.Groups[1] = groupEstimate(c.Second, ivConf)
 	total := counts.N1 + counts.N2
-	a.Intervals = a.intervalsOf(IntervalMethods(Difference), counts, ivConf, total)
-	if !s.SkipSlowIntervals {
-		a.Intervals = append(a.Intervals, a.intervalsOf(SlowIntervalMethods(Difference), counts, ivConf, total)...)
+	a.Intervals = a.intervalsOf(IntervalMethods(Difference), counts, ivConf, total, s.SkipExact)
+	if !s.SkipExact {
+		a.Intervals = append(a.Intervals, a.intervalsOf(SlowIntervalMethods(Difference), counts, ivConf, total, false)...)
 	}
-	a.Ratios = a.intervalsOf(IntervalMethods(Ratio), counts, ivConf, total)
-	a.OddsRatios = a.intervalsOf(IntervalMethods(OddsRatio), counts, ivConf, total)
+	a.Ratios = a.intervalsOf(IntervalMethods(Ratio), counts, ivConf, total, s.SkipExact)
+	a.OddsRatios = a.intervalsOf(IntervalMethods(OddsRatio), counts, ivConf, total, s.SkipExact)
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf}
-	a.Tests = a.testsOf(counts, h, s.ContinuityCorrection, total)
+	a.Tests = a.testsOf(counts, h, s, total)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
 		return Analysis{}, err
 	}
@@ -106,9 +105,12 @@ func groupEstimate(g Group, conf Confidence) GroupEstimate {
 	return ge
 }
 
-func (a *Analysis) intervalsOf(methods []IntervalMethod, c Counts, conf Confidence, total int64) []Interval {
+func (a *Analysis) intervalsOf(methods []IntervalMethod, c Counts, conf Confidence, total int64, skipExact bool) []Interval {
 	var out []Interval
 	for _, m := range methods {
+		if skipExact && (m.Exact || m.SizeLimit > 0) {
+			continue
+		}
 		if m.SizeLimit > 0 && total > m.SizeLimit {
 			a.skip(m.Name, m.SizeLimit, total)
 			continue
@@ -118,10 +120,10 @@ func (a *Analysis) intervalsOf(methods []IntervalMethod, c Counts, conf Confiden
 	return out
 }
 
-func (a *Analysis) testsOf(c Counts, h Hypothesis, continuity bool, total int64) []TestResult {
+func (a *Analysis) testsOf(c Counts, h Hypothesis, s Settings, total int64) []TestResult {
 	var out []TestResult
 	for _, m := range Tests() {
-		if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !continuity) {
+		if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.ContinuityCorrection) || (s.SkipExact && (m.Exact || m.SizeLimit > 0)) {
 			continue
 		}
 		if m.SizeLimit > 0 && total > m.SizeLimit {

@@ -80,7 +80,7 @@ func TestAnalyzeAgreement(t *testing.T) {
 		for _, null := range nulls {
 			for _, alt := range []Alternative{TwoSided, Greater, Less} {
 				for _, level := range []float64{0.9, 0.95, 0.99} {
-					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithExactIntervals(false))
+					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithExactMethods(false))
 					if err != nil {
 						t.Fatal(err)
 					}
@@ -236,9 +236,9 @@ func TestAnalyzeSlowIntervals(t *testing.T) {
 	if !has(a, "chan-zhang") || !has(a, "agresti-min") {
 		t.Error("exact unconditional intervals missing from a small analysis")
 	}
-	a, _ = Analyze(small, WithExactIntervals(false))
+	a, _ = Analyze(small, WithExactMethods(false))
 	if has(a, "chan-zhang") {
-		t.Error("WithExactIntervals(false) should leave them out")
+		t.Error("WithExactMethods(false) should leave them out")
 	}
 	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000))
 	if has(big, "chan-zhang") || countSkipped(big) == 0 {

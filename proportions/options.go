@@ -22,9 +22,10 @@ type Settings struct {
 	nullSet bool
 	// Alternative is the direction of the alternative hypothesis.
 	Alternative Alternative
-	// SkipSlowIntervals leaves the slow exact intervals (SlowIntervalMethods)
-	// out of an analysis whatever the sample size.
-	SkipSlowIntervals bool
+	// SkipExact leaves every exact or conditional method (Exact: true or a
+	// SizeLimit, and the slow intervals of SlowIntervalMethods) out of an
+	// analysis.
+	SkipExact bool
 	// ContinuityCorrection turns on Yates' correction for the chi-square
 	// test (off by default: it makes the test conservative, see chisquare.go).
 	ContinuityCorrection bool
@@ -53,12 +54,14 @@ func WithContinuityCorrection(on bool) Option {
 	return func(s *Settings) { s.ContinuityCorrection = on }
 }
 
-// WithExactIntervals includes (the default) or leaves out the slow exact
-// unconditional intervals for the difference in an analysis; leaving them
-// out makes an analysis of a few hundred units about a second faster, for
-// example when it is redrawn live.
-func WithExactIntervals(on bool) Option {
-	return func(s *Settings) { s.SkipSlowIntervals = !on }
+// WithExactMethods includes (the default) or leaves out the exact and
+// conditional methods in an analysis (those marked Exact or carrying a
+// SizeLimit): Fisher's test and its mid-p, Barnard's and Boschloo's tests,
+// the exact unconditional intervals for the difference and the conditional
+// odds-ratio intervals. Leaving them out keeps an analysis at a few microseconds for
+// live redraws or bulk work; with large samples they add little.
+func WithExactMethods(on bool) Option {
+	return func(s *Settings) { s.SkipExact = !on }
 }
 
 // NewSettings applies the options to the defaults (level 0.95, null 0 for a
