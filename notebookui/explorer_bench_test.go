@@ -126,3 +126,24 @@ func BenchmarkIntervalExplorerSizeChangeAllFirstFrame(b *testing.B) {
 		b.StartTimer()
 	}
 }
+
+// BenchmarkWhatIfExplorerFirstFrame: what a live what-if explorer shows
+// first after a change of counts at 200 per group (the card without the
+// exact methods when the full analysis is not ready within the budget).
+func BenchmarkWhatIfExplorerFirstFrame(b *testing.B) {
+	c, err := proportions.NewComparison(30, 200, 18, 200, proportions.Labels{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	m := whatIfModel{WhatIfExplorer{Comparison: c}}
+	pos := startPositions(m)
+	for i := 0; b.Loop(); i++ {
+		pos[0] = 20 + i%20
+		_, complete := frameWithin(m, pos, quickBudget)
+		b.StopTimer()
+		if complete != nil {
+			complete()
+		}
+		b.StartTimer()
+	}
+}

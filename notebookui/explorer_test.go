@@ -383,3 +383,32 @@ func TestIntervalExplorerDrawsReadyMethodsFirst(t *testing.T) {
 		t.Error("a change of π1 reuses the tables and should not be partial")
 	}
 }
+
+func TestWhatIfExplorerShowsTheQuickCardFirst(t *testing.T) {
+	c, err := proportions.NewComparison(30, 200, 18, 200, proportions.Labels{First: "line A", Second: "line B", Event: "defective"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := whatIfModel{WhatIfExplorer{Comparison: c}}
+	pos := startPositions(m)
+	f, complete := frameWithin(m, pos, 0) // no time at all: the exact methods cannot be ready
+	if complete == nil || !f.Partial || !strings.Contains(f.Text(), "Computing the exact tests and intervals") {
+		t.Fatalf("want a partial frame first:\n%s", f.Text())
+	}
+	full := complete()
+	// The full card has the exact tests (Fisher's among them); the
+	// quick one does not.
+	fisher, err := proportions.LookupTest("fisher")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(f.Text(), fisher.Name+" ") || !strings.Contains(full.Text(), fisher.Name) {
+		t.Errorf("the quick card should leave out %s and the full card show it", fisher.Name)
+	}
+	if full.Partial || strings.Contains(full.Text(), "Computing the exact") {
+		t.Error("the completed frame is still partial")
+	}
+	if complete().Text() != full.Text() {
+		t.Error("completing twice should give the same frame")
+	}
+}

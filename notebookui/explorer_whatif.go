@@ -3,6 +3,8 @@ package notebookui
 import (
 	"fmt"
 	"strconv"
+	"sync"
+	"time"
 
 	"github.com/propscope/propscope/proportions"
 )
@@ -112,20 +114,62 @@ func (m whatIfModel) controls() []control {
 // counts that do not make a comparison (more events than trials) get a
 // message saying which group and what to move.
 func (m whatIfModel) render(pos []int) Displayable {
+	cmp, bad := m.comparison(pos)
+	if bad != nil {
+		return bad
+	}
+	return m.card(cmp, m.e.Analysis)
+}
+
+// renderWithin shows the full analysis when it is ready within the budget;
+// otherwise (the exact tests and intervals take up to a second at a few
+// hundred units) first the card without the exact methods, which takes
+// microseconds, then the full card.
+func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable, func() Displayable) {
+	cmp, bad := m.comparison(pos)
+	if bad != nil {
+		return bad, nil
+	}
+	full := make(chan Displayable, 1)
+	go func() { full <- m.card(cmp, m.e.Analysis) }()
+	select {
+	case v := <-full:
+		return v, nil
+	case <-time.After(budget):
+	}
+	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithExactMethods(false)))
+	var once sync.Once
+	var v Displayable
+	rest := func() Displayable {
+		once.Do(func() { v = <-full })
+		return v
+	}
+	note := message{kind: "what-if", text: "Computing the exact tests and intervals for these counts; the card shows the others until they are ready."}
+	return views{note, quick}, rest
+}
+
+// comparison builds the comparison at the positions, or the message
+// saying why there is none.
+func (m whatIfModel) comparison(pos []int) (proportions.Comparison, Displayable) {
 	c := m.e.Comparison
 	labels := proportions.Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event}
 	for g, which := range [2]string{c.First.Label, c.Second.Label} {
 		if x, n := pos[2*g], pos[2*g+1]; x > n {
-			return message{kind: "what-if", text: fmt.Sprintf(
+			return proportions.Comparison{}, message{kind: "what-if", text: fmt.Sprintf(
 				"%s: %d %s out of %d trials is not possible: events cannot exceed trials. Lower the events or raise the trials.",
 				which, x, c.Event, n)}
 		}
 	}
 	cmp, err := proportions.NewComparison(int64(pos[0]), int64(pos[1]), int64(pos[2]), int64(pos[3]), labels)
 	if err != nil {
-		return message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
+		return proportions.Comparison{}, message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
 	}
-	a, err := proportions.Analyze(cmp, m.e.Analysis...)
+	return cmp, nil
+}
+
+// card analyses the comparison and shows its result card.
+func (m whatIfModel) card(cmp proportions.Comparison, opts []proportions.Option) Displayable {
+	a, err := proportions.Analyze(cmp, opts...)
 	if err != nil {
 		return message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
 	}
