@@ -53,7 +53,7 @@ type testRow struct {
 // methodSection is one family's intervals in the folded table.
 type methodSection struct {
 	Title string
-	Unit  string // column unit note: "percentage points" or "ratio"
+	Unit  string // column unit note: "percentage points" or "1 = no difference"
 	Rows  []methodRow
 }
 
@@ -254,7 +254,7 @@ func sectionsOf(a proportions.Analysis) []methodSection {
 		if len(f.ivs) == 0 {
 			continue
 		}
-		s := methodSection{Title: f.title, Unit: "ratio"}
+		s := methodSection{Title: f.title, Unit: "1 = no difference"}
 		for _, iv := range f.ivs {
 			r := methodRow{Name: iv.Name, Estimate: ratio(iv.Estimate), Lower: ratio(iv.Lower), Upper: ratio(iv.Upper)}
 			if !iv.Defined {
