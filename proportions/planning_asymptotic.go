@@ -220,7 +220,12 @@ func (m model) bisectSize(power float64) float64 {
 // (Dowell & Jarratt 1971), which converges superlinearly and never leaves
 // the bracket. If the signs do not differ it returns b.
 func findRoot(g func(float64) float64, a, b, tol float64) float64 {
-	ga, gb := g(a), g(b)
+	return findRootFrom(g, a, b, g(a), g(b), tol)
+}
+
+// findRootFrom is findRoot when g(a) = ga and g(b) = gb are already known,
+// which saves two evaluations of g.
+func findRootFrom(g func(float64) float64, a, b, ga, gb, tol float64) float64 {
 	if ga == 0 {
 		return a
 	}

@@ -63,23 +63,27 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 	switch d.Goal {
 	case Equivalence:
 		centre := d.Rate2
-		if p := sr.power(centre); p < d.Power {
+		pc := sr.power(centre)
+		if pc < d.Power {
 			return res, fmt.Errorf("with %d and %d units even equal rates (%v) show equivalence with power %.4f < %v: %w; enlarge the groups or widen the margin",
-				n1, n2, centre, p, d.Power, ErrUnreachable)
+				n1, n2, centre, pc, d.Power, ErrUnreachable)
 		}
 		lower, upper := d.equivalenceBounds()
-		res.Below = d.side(sr.find(0, centre, math.Max(lo, d.rateAt(lower))))
-		res.Above = d.side(sr.find(1, centre, math.Min(hi, d.rateAt(upper))))
+		res.Below = d.side(sr.find(0, centre, math.Max(lo, d.rateAt(lower)), pc))
+		res.Above = d.side(sr.find(1, centre, math.Min(hi, d.rateAt(upper)), pc))
 		return res, nil
 	case Equality:
-		res.Below = d.side(sr.find(1, d.Rate2, lo))
-		res.Above = d.side(sr.find(0, d.Rate2, hi))
+		p2 := sr.power(d.Rate2)
+		res.Below = d.side(sr.find(1, d.Rate2, lo, p2))
+		res.Above = d.side(sr.find(0, d.Rate2, hi, p2))
 	default:
 		start := d.rateAt(d.Margin)
 		if d.Alternative == Greater {
-			res.Above = d.side(sr.find(0, math.Max(lo, start), hi))
+			from := math.Max(lo, start)
+			res.Above = d.side(sr.find(0, from, hi, sr.power(from)))
 		} else {
-			res.Below = d.side(sr.find(0, math.Min(hi, start), lo))
+			from := math.Min(hi, start)
+			res.Below = d.side(sr.find(0, from, lo, sr.power(from)))
 		}
 	}
 	if !res.Above.Found && !res.Below.Found {
@@ -101,6 +105,20 @@ func (s rateSearch) model(p1 float64) model { return newModelZ(s.d, p1, s.d.Rate
 
 func (s rateSearch) power(p1 float64) float64 { return s.model(p1).power(s.n1) }
 
+// deciding returns test k of the model at p1, building only that test
+// where the goal allows (equivalence has one test per side).
+func (s rateSearch) deciding(k int, p1 float64) zTest {
+	if s.d.Goal != Equivalence {
+		return s.model(p1).tests[k]
+	}
+	m := model{design: s.d, r: s.r}
+	lo, hi := s.d.equivalenceBounds()
+	if k == 0 {
+		return m.zTest(p1, s.d.Rate2, lo, true, s.z)
+	}
+	return m.zTest(p1, s.d.Rate2, hi, false, s.z)
+}
+
 // find returns the rate between from and to where the power crosses the
 // target, assuming at most one crossing (power below the target at from,
 // or above it for equivalence); it reports false when the power does not
@@ -108,18 +126,20 @@ func (s rateSearch) power(p1 float64) float64 { return s.model(p1).power(s.n1) }
 // the model is the one that decides on this side: the rate where it alone
 // has the target power, E·√n1 = z·√V0 + z_{power}·√V1, found by a few
 // fixed-point steps (the variances change slowly with π1), is the starting
-// guess; regula falsi finishes on the full power.
-func (s rateSearch) find(k int, from, to float64) (float64, bool) {
+// guess; regula falsi finishes on the full power. powerFrom is the power
+// at from, which callers already have.
+func (s rateSearch) find(k int, from, to, powerFrom float64) (float64, bool) {
 	target := s.d.Power
-	inside := s.power(from) >= target
-	if (s.power(to) >= target) == inside {
+	inside := powerFrom >= target
+	powerTo := s.power(to)
+	if (powerTo >= target) == inside {
 		return to, inside
 	}
 	a, b := math.Min(from, to), math.Max(from, to)
 	p, sd1 := from, 0.0
 	for range 3 { // converges to about 1e-9 in three steps
 
-		t := s.model(p).tests[k]
+		t := s.deciding(k, p)
 		e := (t.z*t.sd0 + s.zp*t.sd1) / math.Sqrt(s.n1)
 		if !t.upper {
 			e = -e
@@ -142,14 +162,14 @@ func (s rateSearch) find(k int, from, to float64) (float64, bool) {
 		next := math.Max(a, math.Min(b, p-1.5*gp/slope)) // overshoot a little to bracket
 		gn := g(next)
 		if (gn > 0) != (gp > 0) || gn == 0 {
-			return findRoot(g, p, next, 1e-12), true
+			return findRootFrom(g, p, next, gp, gn, 1e-12), true
 		}
 		p, gp = next, gn
 	}
 	if (gp > 0) == inside {
-		return findRoot(g, p, to, 1e-12), true
+		return findRootFrom(g, p, to, gp, powerTo-target, 1e-12), true
 	}
-	return findRoot(g, from, p, 1e-12), true
+	return findRootFrom(g, from, p, powerFrom-target, gp, 1e-12), true
 }
 
 // rateAt returns the first group's rate at which θ equals v, given π2.
