@@ -24,6 +24,13 @@ const outDir = "out"
 // The deadline only stops a hung browser; it is not a speed check.
 func browse(t *testing.T) context.Context {
 	t.Helper()
+	return browseFor(t, 3*time.Minute)
+}
+
+// browseFor starts a headless Chromium for one test with the given
+// deadline (a guard against a hung browser, not a speed check).
+func browseFor(t *testing.T, deadline time.Duration) context.Context {
+	t.Helper()
 	if _, err := os.Stat(chromium); err != nil {
 		t.Fatalf("%s not found: run scripts/setup-notebooks.sh (make setup)", chromium)
 	}
@@ -38,7 +45,7 @@ func browse(t *testing.T) context.Context {
 	)
 	alloc, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
 	ctx, cancelCtx := chromedp.NewContext(alloc)
-	ctx, cancelTimeout := context.WithTimeout(ctx, 3*time.Minute)
+	ctx, cancelTimeout := context.WithTimeout(ctx, deadline)
 	t.Cleanup(func() { cancelTimeout(); cancelCtx(); cancelAlloc() })
 	return ctx
 }

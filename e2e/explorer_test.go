@@ -92,23 +92,7 @@ func planN1(t *testing.T, ctx context.Context) int {
 // busy machine). The deadline only stops a hung run.
 func liveBrowser(t *testing.T) context.Context {
 	t.Helper()
-	if _, err := os.Stat(chromium); err != nil {
-		t.Fatalf("%s not found: run scripts/setup-notebooks.sh (make setup)", chromium)
-	}
-	opts := append(chromedp.DefaultExecAllocatorOptions[:],
-		chromedp.ExecPath(chromium),
-		chromedp.NoSandbox,
-		chromedp.DisableGPU,
-		chromedp.UserDataDir(t.TempDir()),
-		chromedp.Flag("disable-quic", true),
-		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.WindowSize(1100, 1400),
-	)
-	alloc, cancelAlloc := chromedp.NewExecAllocator(context.Background(), opts...)
-	ctx, cancelCtx := chromedp.NewContext(alloc)
-	ctx, cancelTimeout := context.WithTimeout(ctx, 12*time.Minute)
-	t.Cleanup(func() { cancelTimeout(); cancelCtx(); cancelAlloc() })
-	return ctx
+	return browseFor(t, 12*time.Minute)
 }
 
 // liveCopy copies the explorers notebook into a fresh folder under

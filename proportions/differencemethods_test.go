@@ -220,19 +220,9 @@ func TestScoreLimitsMatchBisection(t *testing.T) {
 	tables := []Counts{{56, 70, 48, 80}, {0, 10, 0, 20}, {10, 10, 0, 20}, {1, 2, 1, 2}, {3, 888129607140, 0, 1},
 		{4, 103015417419, 4, 1436010050}, {7, 1 << 45, 3, 1 << 44}, {999997, 1000000, 999999, 1000000}, {0, 3, 3, 3}, {1, 1, 0, 1}}
 	for _, c := range tables {
-		for _, m := range []struct {
-			iv IntervalMethod
-			z  func(Counts, float64) float64
-		}{{Mee, FarringtonManningZ}, {MiettinenNurminen, MiettinenNurminenZ}} {
+		for _, m := range scorePairs {
 			lo, hi := m.iv.Limits(c, conf)
-			d := c.P1() - c.P2()
-			wantLo, wantHi := -1.0, 1.0
-			if d > -1 {
-				wantLo = bisectScore(func(x float64) bool { return m.z(c, x) > conf.Z }, -1, d)
-			}
-			if d < 1 {
-				wantHi = bisectScore(func(x float64) bool { return m.z(c, x) > -conf.Z }, d, 1)
-			}
+			wantLo, wantHi := bisectedScoreLimits(c, m.z, conf)
 			tol := 1e-9 * (wantHi - wantLo)
 			if math.Abs(lo-wantLo) > tol || math.Abs(hi-wantHi) > tol {
 				t.Errorf("%s %v: (%.17g, %.17g), bisection (%.17g, %.17g)", m.iv.Name, c, lo, hi, wantLo, wantHi)

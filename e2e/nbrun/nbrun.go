@@ -196,13 +196,9 @@ func oneLine(s string) string {
 // that reports an error: an error output (a compile error, a kernel
 // error), GoNB's HTML error report, or stderr ending a failed program.
 func CellErrors(path string) ([]string, error) {
-	raw, err := os.ReadFile(path)
+	nb, err := readNotebook(path)
 	if err != nil {
 		return nil, err
-	}
-	var nb notebook
-	if err := json.Unmarshal(raw, &nb); err != nil {
-		return nil, fmt.Errorf("%s is not a notebook: %w", path, err)
 	}
 	var errs []string
 	for i, c := range nb.Cells {
@@ -226,6 +222,19 @@ func CellErrors(path string) ([]string, error) {
 	return errs, nil
 }
 
+// readNotebook reads an executed notebook's cells and outputs.
+func readNotebook(path string) (notebook, error) {
+	raw, err := os.ReadFile(path)
+	if err != nil {
+		return notebook{}, err
+	}
+	var nb notebook
+	if err := json.Unmarshal(raw, &nb); err != nil {
+		return notebook{}, fmt.Errorf("%s is not a notebook: %w", path, err)
+	}
+	return nb, nil
+}
+
 // Output is one display output of propscope (a card, a chart) in an
 // executed notebook: the ones whose metadata carry a "propscope" kind.
 type Output struct {
@@ -237,13 +246,9 @@ type Output struct {
 
 // Outputs lists the propscope display outputs of an executed notebook.
 func Outputs(path string) ([]Output, error) {
-	raw, err := os.ReadFile(path)
+	nb, err := readNotebook(path)
 	if err != nil {
 		return nil, err
-	}
-	var nb notebook
-	if err := json.Unmarshal(raw, &nb); err != nil {
-		return nil, fmt.Errorf("%s is not a notebook: %w", path, err)
 	}
 	var out []Output
 	for i, c := range nb.Cells {
