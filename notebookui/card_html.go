@@ -59,7 +59,8 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 {{if .Warnings}}<h4 class="ps-h">Warnings</h4>
 <ul class="ps-warnings">{{range .Warnings}}
 <li><strong>Warning:</strong> {{.}}</li>{{end}}
-</ul>{{end}}
+</ul>{{end}}{{if .NotRun}}
+<p class="ps-muted ps-small ps-notrun">{{.NotRun}}</p>{{end}}
 {{if .Sections}}<details class="ps-more">
 <summary>Every interval method ({{.Level}})</summary>
 {{range $s := .Sections}}<div class="ps-scroll"><table class="ps-t">

@@ -345,3 +345,38 @@ func TestOneSidedNullIsWordedAsASide(t *testing.T) {
 		t.Errorf("capitalize(état) = %q", got)
 	}
 }
+
+// The card says which methods the analysis's scope left out, by their
+// published names, and how to add them; an analysis of every method says
+// nothing.
+func TestCardNamesMethodsNotRun(t *testing.T) {
+	c, err := proportions.NewComparison(2, 14, 7, 15, proportions.Labels{First: "coated", Second: "bare", Event: "sprouted"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, tc := range []struct {
+		scope proportions.MethodScope
+		want  []string
+	}{
+		{proportions.QuickMethods, []string{"Quick analysis", "Barnard", "Boschloo", "Chan", "WithMethods(proportions.AllMethods)"}},
+		{proportions.LargeSampleMethods, []string{"Large-sample analysis", "Fisher exact", "Barnard"}},
+		{proportions.AllMethods, nil},
+	} {
+		a, err := proportions.Analyze(c, proportions.WithMethods(tc.scope))
+		if err != nil {
+			t.Fatal(err)
+		}
+		card := NewResultCard(a)
+		for _, form := range []string{card.Text(), card.Markdown(), card.HTML()} {
+			has := strings.Contains(form, "ps-notrun") || strings.Contains(form, "Left out")
+			if tc.want == nil && has {
+				t.Errorf("scope %v: the card names methods not run:\n%s", tc.scope, form)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(form, w) {
+					t.Errorf("scope %v: card lacks %q", tc.scope, w)
+				}
+			}
+		}
+	}
+}

@@ -35,6 +35,9 @@ func renderText(v cardView) string {
 			b.WriteString(wrap("- Warning: "+w, "    ", textWidth)[2:])
 		}
 	}
+	if v.NotRun != "" {
+		b.WriteString("\n" + wrap(v.NotRun, "", textWidth))
+	}
 	for _, s := range v.Sections {
 		fmt.Fprintf(&b, "\nEvery interval method: %s (%s, %s)\n", s.Title, s.Unit, v.Level)
 		b.WriteString(textTable(methodCells(s), "  "))
@@ -75,6 +78,9 @@ func renderMarkdown(v cardView) string {
 		for _, w := range v.Warnings {
 			fmt.Fprintf(&b, "- **Warning:** %s\n", e(w))
 		}
+	}
+	if v.NotRun != "" {
+		fmt.Fprintf(&b, "\n*%s*\n", e(v.NotRun))
 	}
 	for _, s := range v.Sections {
 		fmt.Fprintf(&b, "\n#### Every interval method: %s (%s, %s)\n\n", e(s.Title), s.Unit, v.Level)

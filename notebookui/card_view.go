@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"fmt"
+	"strings"
 	"unicode"
 	"unicode/utf8"
 
@@ -29,6 +30,7 @@ type cardView struct {
 	Tests      []testRow
 	Conclusion string
 	Warnings   []string
+	NotRun     string // which methods the analysis's scope left out, or ""
 	Sections   []methodSection
 	References []Reference
 	Caution    string
@@ -137,6 +139,7 @@ func (c ResultCard) view() cardView {
 	if lookup == nil {
 		lookup = registryReference
 	}
+	v.NotRun = notRun(a, lookup)
 	v.References = referencesOf(a, lookup)
 	return v
 }
@@ -269,6 +272,30 @@ func sectionsOf(a proportions.Analysis) []methodSection {
 
 // referencesOf lists each method the analysis used once, in the order the
 // card shows them: headline pair, group intervals, tests, other intervals.
+// notRun names the methods the analysis's scope left out, in one
+// sentence that says how to add them.
+func notRun(a proportions.Analysis, lookup referenceLookup) string {
+	if len(a.Omitted) == 0 {
+		return ""
+	}
+	var names []string
+	for _, key := range a.Omitted {
+		name := key
+		if r, ok := lookup("test", key); ok {
+			name = r.Name
+		} else if r, ok := lookup("interval", key); ok {
+			name = r.Name
+		}
+		names = append(names, name)
+	}
+	list := strings.Join(names, ", ")
+	if a.Scope == proportions.LargeSampleMethods {
+		return "Large-sample analysis. Left out: the exact and conditional methods (" + list + ")."
+	}
+	return "Quick analysis. Left out, as each takes milliseconds or more: " + list +
+		". Analyse with proportions.WithMethods(proportions.AllMethods) to add them."
+}
+
 func referencesOf(a proportions.Analysis, lookup referenceLookup) []Reference {
 	var refs []Reference
 	seen := map[string]bool{}

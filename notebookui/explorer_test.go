@@ -396,14 +396,17 @@ func TestWhatIfExplorerShowsTheQuickCardFirst(t *testing.T) {
 		t.Fatalf("want a partial frame first:\n%s", f.Text())
 	}
 	full := complete()
-	// The full card has the exact tests (Fisher's among them); the
-	// quick one does not.
-	fisher, err := proportions.LookupTest("fisher")
+	// The full card has the costly exact tests (Barnard's among them); the
+	// quick one does not, though it has Fisher's, which costs microseconds.
+	barnard, err := proportions.LookupTest("barnard")
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Contains(f.Text(), fisher.Name+" ") || !strings.Contains(full.Text(), fisher.Name) {
-		t.Errorf("the quick card should leave out %s and the full card show it", fisher.Name)
+	if strings.Contains(f.Text(), barnard.Name+" ") || !strings.Contains(full.Text(), barnard.Name) {
+		t.Errorf("the quick card should leave out %s and the full card show it", barnard.Name)
+	}
+	if !strings.Contains(f.Text(), "Fisher exact") {
+		t.Error("the quick card should show Fisher's exact test")
 	}
 	if full.Partial || strings.Contains(full.Text(), "Computing the exact") {
 		t.Error("the completed frame is still partial")

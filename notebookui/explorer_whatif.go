@@ -21,7 +21,9 @@ type WhatIfExplorer struct {
 	// and of the event.
 	Comparison proportions.Comparison
 	// Analysis holds the options of the analysis (level, null value,
-	// alternative, continuity correction), as for proportions.Analyze.
+	// alternative, continuity correction, method scope), as for
+	// proportions.Analyze. The card runs every method
+	// (proportions.AllMethods) unless these options set another scope.
 	Analysis []proportions.Option
 	// MaxTrials is the largest group size the sliders reach; 0 means
 	// twice the larger group (at least 20). At most MaxWhatIfTrials.
@@ -118,7 +120,7 @@ func (m whatIfModel) render(pos []int) Displayable {
 	if bad != nil {
 		return bad
 	}
-	return m.card(cmp, m.e.Analysis)
+	return m.card(cmp, m.fullOptions())
 }
 
 // renderWithin shows the full analysis when it is ready within the budget;
@@ -131,13 +133,13 @@ func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable,
 		return bad, nil
 	}
 	full := make(chan Displayable, 1)
-	go func() { full <- m.card(cmp, m.e.Analysis) }()
+	go func() { full <- m.card(cmp, m.fullOptions()) }()
 	select {
 	case v := <-full:
 		return v, nil
 	case <-time.After(budget):
 	}
-	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithExactMethods(false)))
+	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithMethods(proportions.QuickMethods)))
 	var once sync.Once
 	var v Displayable
 	rest := func() Displayable {
@@ -146,6 +148,13 @@ func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable,
 	}
 	note := message{kind: "what-if", text: "Computing the exact tests and intervals for these counts; the card shows the others until they are ready."}
 	return views{note, quick}, rest
+}
+
+// fullOptions are the analysis options of the full card: every method
+// (the exact tests and intervals matter most for the small, sparse tables
+// a what-if reaches), unless the explorer's own options say otherwise.
+func (m whatIfModel) fullOptions() []proportions.Option {
+	return append([]proportions.Option{proportions.WithMethods(proportions.AllMethods)}, m.e.Analysis...)
 }
 
 // comparison builds the comparison at the positions, or the message

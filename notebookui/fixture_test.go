@@ -46,6 +46,7 @@ func germinationAnalysis() proportions.Analysis {
 		Intervals:  []proportions.Interval{mee, diff("wald", "Wald", 0.03804161428492761, 0.26195838571507246)},
 		Conclusion: "The score test rejects equal rates at the 5% level (p = 0.009829): the germinated rate is higher for primed than for untreated.",
 		Warnings:   []proportions.Warning{{Code: "example", Message: "An example warning, shown as written."}},
+		Omitted:    []string{"barnard"},
 		Caution:    "Significance is not importance; decisions follow the applicable regulations and a qualified statistician.",
 	}
 }
@@ -57,6 +58,7 @@ func fixedReferences(kind, key string) (Reference, bool) {
 		"interval/mee":      {"Mee", "Mee RW (1984). Confidence bounds for the difference between two probabilities. Biometrics 40:1175–1176."},
 		"test/score":        {"Score (Farrington–Manning)", "Farrington CP, Manning G (1990). Test statistics and sample size formulae for comparative binomial trials with null hypothesis of non-zero risk difference or non-unity relative risk. Statistics in Medicine 9:1447–1454."},
 		"proportion/wilson": {"Wilson", "Wilson EB (1927). Probable inference, the law of succession, and statistical inference. Journal of the American Statistical Association 22:209–212."},
+		"test/barnard":      {"Barnard", "Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138."},
 		"test/fisher":       {"Fisher", "Fisher RA (1935). The logic of inductive inference. Journal of the Royal Statistical Society 98:39–82."},
 		"interval/wald":     {"Wald", "Newcombe RG (1998). Interval estimation for the difference between independent proportions: comparison of eleven methods. Statistics in Medicine 17:873–890 (method 1)."},
 	}

@@ -40,6 +40,14 @@ type Analysis struct {
 	// Null and Alternative are the hypothesis about π1 − π2 that was tested.
 	Null        float64     `json:"null"`
 	Alternative Alternative `json:"alternative"`
+	// Scope is the method scope the analysis ran with ("quick", "all" or
+	// "large-sample"): which registered methods it includes.
+	Scope MethodScope `json:"scope"`
+	// Omitted lists the keys of the registered methods that apply but that
+	// the scope left out (see MethodScope), so a reader knows what else
+	// could be run; methods skipped for the size of the data are named in
+	// Warnings instead.
+	Omitted []string `json:"omitted,omitempty"`
 	// Groups holds the two groups' estimates, first then second.
 	Groups [2]GroupEstimate `json:"groups"`
 	// Difference is p1 − p2.

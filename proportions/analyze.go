@@ -3,6 +3,7 @@ package proportions
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // The headline pair of the default analysis. Mee's score interval is the
@@ -26,20 +27,23 @@ const smallExpected = 5
 
 // Analyze runs the default analysis of a comparison: each group's
 // proportion with its intervals, every registered interval for the
-// difference (and for the ratio and odds ratio), every registered test of
+// difference, the ratio and the odds ratio, every registered test of
 // H0: π1 − π2 = δ that applies, the headline score test with the score
 // interval that inverts it, a plain-language conclusion, warnings and the
 // standing caution.
 //
 // It reads the settings Level (default 0.95), Null (δ, default 0),
 // Alternative (default two-sided), ContinuityCorrection (adds Yates' test)
-// and SkipExact (WithExactMethods(false) leaves out the exact methods). Tests use α = 1 − Level. For a one-sided alternative the headline
-// interval is the two-sided interval at level 1 − 2α, whose limit on the
-// alternative's side is the one-sided 1 − α confidence bound; so with a
-// one-sided test at 2.5% (Level 0.975) the familiar 95% interval is
-// reported, and it excludes δ on the alternative's side exactly when the
-// test rejects. Methods slower than their SizeLimit at this sample size
-// are skipped with a warning.
+// and Methods (default QuickMethods: every method that costs microseconds,
+// Fisher's exact test included; WithMethods(AllMethods) adds Barnard's and
+// Boschloo's tests, the exact unconditional intervals and the conditional
+// odds-ratio intervals). Tests use α = 1 − Level. For a one-sided
+// alternative the headline interval is the two-sided interval at level
+// 1 − 2α, whose limit on the alternative's side is the one-sided 1 − α
+// confidence bound; so with a one-sided test at 2.5% (Level 0.975) the
+// familiar 95% interval is reported, and it excludes δ on the
+// alternative's side exactly when the test rejects. A costly method whose
+// SizeLimit the data exceed is skipped with a warning.
 func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	counts := c.Counts()
 	if err := counts.Validate(); err != nil {
@@ -58,24 +62,21 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 		return Analysis{}, err
 	}
 	a := Analysis{
-		Comparison: c, Level: s.Level, Null: null, Alternative: s.Alternative,
+		Comparison: c, Level: s.Level, Null: null, Alternative: s.Alternative, Scope: s.Methods,
 		Difference: Difference.Estimate(counts), Caution: Caution,
 	}
 	a.Groups[0] = groupEstimate(c.First, ivConf)
 	a.Groups[1] = groupEstimate(c.Second, ivConf)
-	total := counts.N1 + counts.N2
-	a.Intervals = a.intervalsOf(IntervalMethods(Difference), counts, ivConf, total, s.SkipExact)
-	if !s.SkipExact {
-		a.Intervals = append(a.Intervals, a.intervalsOf(SlowIntervalMethods(Difference), counts, ivConf, total, false)...)
-	}
-	a.Ratios = a.intervalsOf(IntervalMethods(Ratio), counts, ivConf, total, s.SkipExact)
-	a.OddsRatios = a.intervalsOf(IntervalMethods(OddsRatio), counts, ivConf, total, s.SkipExact)
+	run := methodFilter{scope: s.Methods, total: counts.N1 + counts.N2}
+	a.Intervals = a.intervalsOf(run, counts, ivConf, differenceMethods, slowDifferenceMethods)
+	a.Ratios = a.intervalsOf(run, counts, ivConf, ratioMethods)
+	a.OddsRatios = a.intervalsOf(run, counts, ivConf, oddsRatioMethods)
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf}
-	a.Tests = a.testsOf(counts, h, s, total)
+	a.Tests = a.testsOf(run, counts, h, s)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
 		return Analysis{}, err
 	}
-	a.Warnings = append(a.Warnings, dataWarnings(c)...)
+	a.Warnings = append(a.Warnings, dataWarnings(c, s.Methods)...)
 	a.Conclusion = conclusion(a)
 	return a, nil
 }
@@ -98,39 +99,70 @@ func analysisConfidences(s Settings) (test, intervals Confidence, err error) {
 }
 
 func groupEstimate(g Group, conf Confidence) GroupEstimate {
-	ge := GroupEstimate{Group: g, Proportion: g.Proportion()}
+	ge := GroupEstimate{Group: g, Proportion: g.Proportion(), Intervals: make([]Interval, 0, len(proportionMethods))}
 	for _, m := range proportionMethods {
 		ge.Intervals = append(ge.Intervals, m.IntervalAt(g.Events, g.Trials, conf))
 	}
 	return ge
 }
 
-func (a *Analysis) intervalsOf(methods []IntervalMethod, c Counts, conf Confidence, total int64, skipExact bool) []Interval {
-	var out []Interval
-	for _, m := range methods {
-		if skipExact && (m.Exact || m.SizeLimit > 0) {
-			continue
+// methodFilter decides which registered methods an analysis runs: those in
+// its scope, and of the costly ones only those whose SizeLimit the data
+// do not exceed.
+type methodFilter struct {
+	scope MethodScope
+	total int64 // n1 + n2
+}
+
+// decide reports whether to run a method, and whether it was left out
+// only because the data exceed its SizeLimit (which deserves a warning).
+func (f methodFilter) decide(exact bool, sizeLimit int64) (run, tooLarge bool) {
+	if !f.scope.Runs(exact, sizeLimit) {
+		return false, false
+	}
+	if sizeLimit > 0 && f.total > sizeLimit {
+		return false, true
+	}
+	return true, false
+}
+
+func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, lists ...[]IntervalMethod) []Interval {
+	n := 0
+	for _, l := range lists {
+		n += len(l)
+	}
+	out := make([]Interval, 0, n)
+	for _, l := range lists {
+		for _, m := range l {
+			switch run, tooLarge := f.decide(m.Exact, m.SizeLimit); {
+			case run:
+				out = append(out, m.IntervalAt(c, conf))
+			case tooLarge:
+				a.skip(m.Name, m.SizeLimit, f.total)
+			default:
+				a.Omitted = append(a.Omitted, m.Key)
+			}
 		}
-		if m.SizeLimit > 0 && total > m.SizeLimit {
-			a.skip(m.Name, m.SizeLimit, total)
-			continue
-		}
-		out = append(out, m.IntervalAt(c, conf))
 	}
 	return out
 }
 
-func (a *Analysis) testsOf(c Counts, h Hypothesis, s Settings, total int64) []TestResult {
-	var out []TestResult
-	for _, m := range Tests() {
-		if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.ContinuityCorrection) || (s.SkipExact && (m.Exact || m.SizeLimit > 0)) {
-			continue
+func (a *Analysis) testsOf(f methodFilter, c Counts, h Hypothesis, s Settings) []TestResult {
+	out := make([]TestResult, 0, len(asymptoticTests)+len(exactTests))
+	for _, l := range [...][]TestMethod{asymptoticTests, exactTests, ratioTests} {
+		for _, m := range l {
+			if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.ContinuityCorrection) {
+				continue
+			}
+			switch run, tooLarge := f.decide(m.Exact, m.SizeLimit); {
+			case run:
+				out = append(out, m.Run(c, h))
+			case tooLarge:
+				a.skip(m.Name, m.SizeLimit, f.total)
+			default:
+				a.Omitted = append(a.Omitted, m.Key)
+			}
 		}
-		if m.SizeLimit > 0 && total > m.SizeLimit {
-			a.skip(m.Name, m.SizeLimit, total)
-			continue
-		}
-		out = append(out, m.Run(c, h))
 	}
 	return out
 }
@@ -141,23 +173,32 @@ func (a *Analysis) skip(name string, limit, total int64) {
 		name, total, limit)})
 }
 
-// setHeadline picks the paired score test and score interval.
+// setHeadline picks the paired score test and score interval, reusing the
+// results already in the lists (they are always in scope).
 func (a *Analysis) setHeadline(c Counts, ivConf Confidence, h Hypothesis) error {
-	im, err := LookupInterval(HeadlineIntervalKey)
-	if err != nil {
-		return fmt.Errorf("headline interval: %w", err)
+	if i := slices.IndexFunc(a.Intervals, func(iv Interval) bool { return iv.Method == HeadlineIntervalKey }); i >= 0 {
+		a.Interval = a.Intervals[i]
+	} else {
+		im, err := LookupInterval(HeadlineIntervalKey)
+		if err != nil {
+			return fmt.Errorf("headline interval: %w", err)
+		}
+		a.Interval = im.IntervalAt(c, ivConf)
+	}
+	if i := slices.IndexFunc(a.Tests, func(t TestResult) bool { return t.Method == HeadlineTestKey }); i >= 0 {
+		a.Test = a.Tests[i]
+		return nil
 	}
 	tm, err := LookupTest(HeadlineTestKey)
 	if err != nil {
 		return fmt.Errorf("headline test: %w", err)
 	}
-	a.Interval = im.IntervalAt(c, ivConf)
 	a.Test = tm.Run(c, h)
 	return nil
 }
 
 // dataWarnings flags small expected counts and zero cells.
-func dataWarnings(c Comparison) []Warning {
+func dataWarnings(c Comparison, scope MethodScope) []Warning {
 	var w []Warning
 	n1, n2 := float64(c.First.Trials), float64(c.Second.Trials)
 	pooled := float64(c.First.Events+c.Second.Events) / (n1 + n2)
@@ -165,8 +206,8 @@ func dataWarnings(c Comparison) []Warning {
 	if minExp < smallExpected {
 		w = append(w, Warning{Code: WarnSmallExpected, Message: fmt.Sprintf(
 			"The smallest expected count under equal rates is %.2g (below %d): the asymptotic tests and the Wald intervals "+
-				"may be inaccurate here. Prefer the exact tests and check the coverage of the intervals for this design.",
-			minExp, smallExpected)})
+				"may be inaccurate here. Prefer the exact tests and check the coverage of the intervals for this design.%s",
+			minExp, smallExpected, exactAdvice(scope))})
 	}
 	var zeros []string
 	for _, g := range []Group{c.First, c.Second} {
@@ -183,6 +224,16 @@ func dataWarnings(c Comparison) []Warning {
 				"may be infinite; the score intervals remain usable.", joinPlain(zeros))})
 	}
 	return w
+}
+
+// exactAdvice tells a reader of a sparse table how to add the costly exact
+// methods when the analysis's scope left them out.
+func exactAdvice(scope MethodScope) string {
+	if scope == AllMethods {
+		return ""
+	}
+	return " Barnard's and Boschloo's tests and the exact unconditional intervals were not run in this analysis;" +
+		" analyse with WithMethods(AllMethods) to add them."
 }
 
 func joinPlain(parts []string) string {

@@ -46,8 +46,8 @@ func TestAnalyzeHeadlinePair(t *testing.T) {
 	if math.Abs(chi.Statistic-7.02341137124) > 1e-9 || math.Abs(a.Test.Statistic*a.Test.Statistic-chi.Statistic) > 1e-9 {
 		t.Errorf("z² = %v, X² = %v", a.Test.Statistic*a.Test.Statistic, chi.Statistic)
 	}
-	if len(a.Intervals) != len(IntervalMethods(Difference))+len(SlowIntervalMethods(Difference))-countSkipped(a) {
-		t.Errorf("%d difference intervals for %d methods", len(a.Intervals), len(IntervalMethods(Difference)))
+	if len(a.Intervals) != len(IntervalMethods(Difference)) || a.Scope != QuickMethods {
+		t.Errorf("%d difference intervals for %d quick methods (scope %v)", len(a.Intervals), len(IntervalMethods(Difference)), a.Scope)
 	}
 	if len(a.Groups[0].Intervals) == 0 || a.Groups[0].Intervals[0].Method != "wilson" {
 		t.Errorf("group intervals should start with Wilson: %+v", a.Groups[0].Intervals)
@@ -80,7 +80,7 @@ func TestAnalyzeAgreement(t *testing.T) {
 		for _, null := range nulls {
 			for _, alt := range []Alternative{TwoSided, Greater, Less} {
 				for _, level := range []float64{0.9, 0.95, 0.99} {
-					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithExactMethods(false))
+					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithMethods(LargeSampleMethods))
 					if err != nil {
 						t.Fatal(err)
 					}
@@ -209,7 +209,7 @@ func TestAnalysisJSONFields(t *testing.T) {
 	if err := json.Unmarshal(b, &m); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"comparison", "level", "null", "alternative", "groups", "difference", "interval", "test", "tests", "intervals", "conclusion", "warnings", "caution"} {
+	for _, k := range []string{"comparison", "level", "null", "alternative", "groups", "difference", "interval", "test", "tests", "intervals", "conclusion", "warnings", "caution", "scope"} {
 		if _, ok := m[k]; !ok {
 			t.Errorf("JSON lacks %q", k)
 		}
@@ -222,26 +222,99 @@ func TestAnalysisJSONFields(t *testing.T) {
 	if err := json.Unmarshal(b, &back); err != nil {
 		t.Fatalf("round trip: %v", err)
 	}
+	if m["scope"] != "quick" || back.Scope != QuickMethods {
+		t.Errorf("scope %v, round trip %v", m["scope"], back.Scope)
+	}
 	if back.Interval != a.Interval {
 		t.Errorf("interval round trip: %+v vs %+v", back.Interval, a.Interval)
 	}
 }
 
-func TestAnalyzeSlowIntervals(t *testing.T) {
-	has := func(a Analysis, key string) bool {
-		return slices.ContainsFunc(a.Intervals, func(iv Interval) bool { return iv.Method == key })
+// The scope decides which registered methods run: quick (the default)
+// leaves out exactly the costly ones (a SizeLimit), all runs them up to
+// their limit with a warning above it, large-sample leaves out every exact
+// method too.
+func TestAnalyzeMethodScopes(t *testing.T) {
+	ran := func(a Analysis) map[string]bool {
+		keys := map[string]bool{}
+		for _, l := range [][]Interval{a.Intervals, a.Ratios, a.OddsRatios} {
+			for _, iv := range l {
+				keys[iv.Method] = true
+			}
+		}
+		for _, r := range a.Tests {
+			keys[r.Method] = true
+		}
+		return keys
+	}
+	type mark struct {
+		key       string
+		exact     bool
+		sizeLimit int64
+	}
+	var marks []mark
+	for _, m := range slices.Concat(AllIntervalMethods(), SlowIntervalMethods(Difference)) {
+		marks = append(marks, mark{m.Key, m.Exact, m.SizeLimit})
+	}
+	for _, m := range Tests() {
+		if m.Family == Difference && !m.ContinuityCorrected {
+			marks = append(marks, mark{m.Key, m.Exact, m.SizeLimit})
+		}
 	}
 	small := mustComparison(t, 3, 12, 8, 11)
-	a, _ := Analyze(small)
-	if !has(a, "chan-zhang") || !has(a, "agresti-min") {
-		t.Error("exact unconditional intervals missing from a small analysis")
+	for _, tc := range []struct {
+		scope MethodScope
+		want  func(m mark) bool
+	}{
+		{QuickMethods, func(m mark) bool { return m.sizeLimit == 0 }},
+		{AllMethods, func(m mark) bool { return true }},
+		{LargeSampleMethods, func(m mark) bool { return m.sizeLimit == 0 && !m.exact }},
+	} {
+		a, err := Analyze(small, WithMethods(tc.scope))
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := ran(a)
+		left := 0
+		for _, m := range marks {
+			if got[m.key] != tc.want(m) {
+				t.Errorf("scope %v: %s ran = %v, want %v", tc.scope, m.key, got[m.key], tc.want(m))
+			}
+			if !tc.want(m) {
+				left++
+				if !slices.Contains(a.Omitted, m.key) {
+					t.Errorf("scope %v: %s left out but not listed in Omitted %v", tc.scope, m.key, a.Omitted)
+				}
+			}
+		}
+		if len(a.Omitted) != left {
+			t.Errorf("scope %v: Omitted %v, want %d keys", tc.scope, a.Omitted, left)
+		}
+		if a.Scope != tc.scope || countSkipped(a) != 0 {
+			t.Errorf("scope %v: recorded %v, %d skipped", tc.scope, a.Scope, countSkipped(a))
+		}
 	}
-	a, _ = Analyze(small, WithExactMethods(false))
-	if has(a, "chan-zhang") {
-		t.Error("WithExactMethods(false) should leave them out")
+	// The named slow members are costly, and the sparse-table warning says
+	// how to add them only when they were left out.
+	sparse := mustComparison(t, 1, 12, 5, 11) // smallest expected count 2.9
+	quick, _ := Analyze(sparse)
+	all, _ := Analyze(sparse, WithMethods(AllMethods))
+	if ran(quick)["chan-zhang"] || !ran(all)["chan-zhang"] || !ran(all)["agresti-min"] || !ran(quick)["fisher"] {
+		t.Error("quick runs Fisher but not the exact unconditional intervals; all runs both")
 	}
-	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000))
-	if has(big, "chan-zhang") || countSkipped(big) == 0 {
+	advice := func(a Analysis) bool {
+		return slices.ContainsFunc(a.Warnings, func(w Warning) bool {
+			return w.Code == WarnSmallExpected && strings.Contains(w.Message, "WithMethods(AllMethods)")
+		})
+	}
+	if !advice(quick) || advice(all) {
+		t.Errorf("advice to add the exact methods: quick %v, all %v", advice(quick), advice(all))
+	}
+	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000), WithMethods(AllMethods))
+	if ran(big)["chan-zhang"] || countSkipped(big) == 0 {
 		t.Errorf("above the size limit the slow intervals are skipped with a warning: %v", big.Warnings)
+	}
+	if _, err := Analyze(small, WithMethods(MethodScope(7))); !errors.Is(err, ErrScope) {
+		t.Errorf("unknown scope: %v, want ErrScope", err)
 	}
 }

@@ -31,6 +31,8 @@ var (
 	ErrMargin = errors.New("margin outside the allowed range")
 	// ErrAlternative: an unknown alternative hypothesis.
 	ErrAlternative = errors.New("unknown alternative")
+	// ErrScope: an unknown method scope (see MethodScope).
+	ErrScope = errors.New("unknown method scope")
 	// ErrUnknownMethod: no registered method has the given key.
 	ErrUnknownMethod = errors.New("unknown method")
 	// ErrUnsupported: the method does not support the requested hypothesis

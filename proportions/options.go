@@ -22,10 +22,9 @@ type Settings struct {
 	nullSet bool
 	// Alternative is the direction of the alternative hypothesis.
 	Alternative Alternative
-	// SkipExact leaves every exact or conditional method (Exact: true or a
-	// SizeLimit, and the slow intervals of SlowIntervalMethods) out of an
-	// analysis.
-	SkipExact bool
+	// Methods says which registered methods an analysis runs, by cost
+	// (QuickMethods by default; see MethodScope).
+	Methods MethodScope
 	// ContinuityCorrection turns on Yates' correction for the chi-square
 	// test (off by default: it makes the test conservative, see chisquare.go).
 	ContinuityCorrection bool
@@ -54,18 +53,8 @@ func WithContinuityCorrection(on bool) Option {
 	return func(s *Settings) { s.ContinuityCorrection = on }
 }
 
-// WithExactMethods includes (the default) or leaves out the exact and
-// conditional methods in an analysis (those marked Exact or carrying a
-// SizeLimit): Fisher's test and its mid-p, Barnard's and Boschloo's tests,
-// the exact unconditional intervals for the difference and the conditional
-// odds-ratio intervals. Leaving them out keeps an analysis at a few microseconds for
-// live redraws or bulk work; with large samples they add little.
-func WithExactMethods(on bool) Option {
-	return func(s *Settings) { s.SkipExact = !on }
-}
-
 // NewSettings applies the options to the defaults (level 0.95, null 0 for a
-// difference, two-sided, no continuity correction) and validates the result
+// difference, two-sided, no continuity correction, quick methods) and validates the result
 // for the difference scale.
 func NewSettings(opts ...Option) (Settings, error) {
 	s := Settings{Level: DefaultLevel, Alternative: TwoSided}
@@ -78,6 +67,9 @@ func NewSettings(opts ...Option) (Settings, error) {
 		return s, err
 	}
 	if err := s.Alternative.Validate(); err != nil {
+		return s, err
+	}
+	if err := s.Methods.Validate(); err != nil {
 		return s, err
 	}
 	return s, nil
