@@ -1,83 +1,162 @@
 package proportions
 
 import (
-	"fmt"
 	"strconv"
 )
 
 // conclusion reads the headline test and interval in plain language. A
 // non-rejection is never read as equality: it says which differences the
 // interval still allows.
+//
+// The sentences are appended to one buffer rather than formatted with fmt:
+// the conclusion is part of every analysis, and formatting it piecewise
+// cost about as much as all the interval methods together.
 func conclusion(a Analysis) string {
 	c := a.Comparison
 	first, second := c.First.Label, c.Second.Label
-	data := fmt.Sprintf("%s: %d of %d %s (%s); %s: %d of %d (%s).", first, c.First.Events, c.First.Trials, c.Event,
-		percent(c.First.Proportion()), second, c.Second.Events, c.Second.Trials, percent(c.Second.Proportion()))
-	est := fmt.Sprintf("The difference %s − %s is %s percentage points (%s confidence interval %s to %s).",
-		first, second, points(a.Difference), levelPercent(a.Interval.Level), points(a.Interval.Lower), points(a.Interval.Upper))
-	alpha := levelPercent(1 - a.Level)
 	p := FormatP(a.Test.PValue, a.Test.LogPValue)
-	var verdict string
+	alpha := levelPercent(1 - a.Level)
+	w := prose(make([]byte, 0, 512))
+	w.add(first, ": ")
+	w.int(c.First.Events)
+	w.add(" of ")
+	w.int(c.First.Trials)
+	w.add(" ", c.Event, " (")
+	w.percent(c.First.Proportion())
+	w.add("); ", second, ": ")
+	w.int(c.Second.Events)
+	w.add(" of ")
+	w.int(c.Second.Trials)
+	w.add(" (")
+	w.percent(c.Second.Proportion())
+	w.add("). The difference ", first, " − ", second, " is ")
+	w.points(a.Difference)
+	w.add(" percentage points (", levelPercent(a.Interval.Level), " confidence interval ")
+	w.points(a.Interval.Lower)
+	w.add(" to ")
+	w.points(a.Interval.Upper)
+	w.add("). ")
 	switch a.Alternative {
 	case TwoSided:
-		verdict = twoSidedVerdict(a, alpha, p)
+		w.twoSidedVerdict(a, alpha, p)
 	case Greater:
-		verdict = oneSidedVerdict(a, alpha, p, "more than", "lower confidence bound", a.Interval.Lower)
+		w.oneSidedVerdict(a, alpha, p, "more than", "lower confidence bound", a.Interval.Lower)
 	default:
-		verdict = oneSidedVerdict(a, alpha, p, "less than", "upper confidence bound", a.Interval.Upper)
+		w.oneSidedVerdict(a, alpha, p, "less than", "upper confidence bound", a.Interval.Upper)
 	}
-	return data + " " + est + " " + verdict
+	return string(w)
 }
 
-func twoSidedVerdict(a Analysis, alpha, p string) string {
+func (w *prose) twoSidedVerdict(a Analysis, alpha, p string) {
 	c := a.Comparison
-	null := "equal rates"
-	if a.Null != 0 {
-		null = fmt.Sprintf("a difference of %s percentage points", points(a.Null))
+	nullWords := func() {
+		if a.Null == 0 {
+			w.add("equal rates")
+			return
+		}
+		w.add("a difference of ")
+		w.points(a.Null)
+		w.add(" percentage points")
 	}
 	if a.Test.Reject {
-		dir := "higher"
-		if a.Difference < a.Null {
-			dir = "lower"
+		w.add("The score test rejects ")
+		nullWords()
+		w.add(" at the ", alpha, " level (p = ", p, "): ")
+		higher := a.Difference >= a.Null
+		switch {
+		case a.Null != 0 && higher:
+			w.add("the difference is larger than ")
+		case a.Null != 0:
+			w.add("the difference is smaller than ")
+		case higher:
+			w.add("the ", c.Event, " rate is higher for ", c.First.Label, " than for ", c.Second.Label, ".")
+			return
+		default:
+			w.add("the ", c.Event, " rate is lower for ", c.First.Label, " than for ", c.Second.Label, ".")
+			return
 		}
-		tail := fmt.Sprintf("the %s rate is %s for %s than for %s", c.Event, dir, c.First.Label, c.Second.Label)
-		if a.Null != 0 {
-			tail = fmt.Sprintf("the difference is %s than %s percentage points", map[bool]string{true: "larger", false: "smaller"}[dir == "higher"], points(a.Null))
-		}
-		return fmt.Sprintf("The score test rejects %s at the %s level (p = %s): %s.", null, alpha, p, tail)
+		w.points(a.Null)
+		w.add(" percentage points.")
+		return
 	}
-	claim := "the rates are equal"
-	if a.Null != 0 {
-		claim = fmt.Sprintf("the difference is %s percentage points", points(a.Null))
+	w.add("The score test does not reject ")
+	nullWords()
+	w.add(" at the ", alpha, " level (p = ", p, "). This does not show that ")
+	if a.Null == 0 {
+		w.add("the rates are equal")
+	} else {
+		w.add("the difference is ")
+		w.points(a.Null)
+		w.add(" percentage points")
 	}
-	return fmt.Sprintf("The score test does not reject %s at the %s level (p = %s). This does not show that %s: "+
-		"the interval still allows differences from %s to %s percentage points.", null, alpha, p, claim,
-		points(a.Interval.Lower), points(a.Interval.Upper))
+	w.add(": the interval still allows differences from ")
+	w.points(a.Interval.Lower)
+	w.add(" to ")
+	w.points(a.Interval.Upper)
+	w.add(" percentage points.")
 }
 
-func oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit float64) string {
+func (w *prose) oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit float64) {
 	c := a.Comparison
-	claim := fmt.Sprintf("the difference %s − %s is %s %s percentage points", c.First.Label, c.Second.Label, side, points(a.Null))
-	if a.Test.Reject {
-		return fmt.Sprintf("At the one-sided %s level the data show that %s (p = %s; the %s %s is beyond it)%s.",
-			alpha, claim, p, bound, points(limit), marginReading(a, true))
+	claim := func() {
+		w.add("the difference ", c.First.Label, " − ", c.Second.Label, " is ", side, " ")
+		w.points(a.Null)
+		w.add(" percentage points")
 	}
-	return fmt.Sprintf("At the one-sided %s level the data do not show that %s (p = %s; the %s is %s)%s. "+
-		"Failing to show it is not evidence of the opposite.", alpha, claim, p, bound, points(limit), marginReading(a, false))
+	if a.Test.Reject {
+		w.add("At the one-sided ", alpha, " level the data show that ")
+		claim()
+		w.add(" (p = ", p, "; the ", bound, " ")
+		w.points(limit)
+		w.add(" is beyond it)")
+		w.marginReading(a, true)
+		w.add(".")
+		return
+	}
+	w.add("At the one-sided ", alpha, " level the data do not show that ")
+	claim()
+	w.add(" (p = ", p, "; the ", bound, " is ")
+	w.points(limit)
+	w.add(")")
+	w.marginReading(a, false)
+	w.add(". Failing to show it is not evidence of the opposite.")
 }
 
 // marginReading names the usual reading of a one-sided margin test.
-func marginReading(a Analysis, shown bool) string {
+func (w *prose) marginReading(a Analysis, shown bool) {
 	c := a.Comparison
-	verb := map[bool]string{true: "", false: "not "}[shown]
+	verb := "not "
+	if shown {
+		verb = ""
+	}
 	switch {
 	case a.Alternative == Greater && a.Null < 0, a.Alternative == Less && a.Null > 0:
-		return fmt.Sprintf(": non-inferiority of %s to %s within a margin of %s percentage points is %sshown",
-			c.First.Label, c.Second.Label, points(abs(a.Null)), verb)
+		w.add(": non-inferiority of ", c.First.Label, " to ", c.Second.Label, " within a margin of ")
+		w.points(abs(a.Null))
+		w.add(" percentage points is ", verb, "shown")
 	case a.Null == 0:
-		return fmt.Sprintf(": superiority in that direction is %sshown", verb)
+		w.add(": superiority in that direction is ", verb, "shown")
 	}
-	return ""
+}
+
+// prose is a sentence under construction.
+type prose []byte
+
+func (w *prose) add(parts ...string) {
+	for _, s := range parts {
+		*w = append(*w, s...)
+	}
+}
+
+func (w *prose) int(v int64) { *w = strconv.AppendInt(*w, v, 10) }
+
+// points appends a proportion as percentage points with one decimal.
+func (w *prose) points(v float64) { *w = strconv.AppendFloat(*w, 100*v, 'f', 1, 64) }
+
+// percent appends a proportion as a percentage with one decimal.
+func (w *prose) percent(v float64) {
+	w.points(v)
+	*w = append(*w, '%')
 }
 
 func abs(v float64) float64 {
@@ -89,10 +168,6 @@ func abs(v float64) float64 {
 
 func percent(v float64) string {
 	return strconv.FormatFloat(100*v, 'f', 1, 64) + "%"
-}
-
-func points(v float64) string {
-	return strconv.FormatFloat(100*v, 'f', 1, 64)
 }
 
 // levelPercent prints a level or α as a percentage with up to 4 significant
