@@ -16,6 +16,11 @@ import "math"
 // Zero cells: no events in the first group gives lower limit 0; none in the
 // second gives upper limit ∞; none in either gives [0, ∞] (not estimable,
 // no information about the ratio).
+//
+// The limits solve U = z² through a parametrisation of the restricted fit
+// along its likelihood equation, in which U is a rational function with a
+// cubic numerator (see ratioScoreLimits in ratio_score.go): a safeguarded
+// Halley search finds them in two or three steps.
 var Koopman = IntervalMethod{
 	Key:        "koopman",
 	Name:       "Koopman asymptotic score",
@@ -27,7 +32,7 @@ var Koopman = IntervalMethod{
 }
 
 func koopmanLimits(c Counts, conf Confidence) (lower, upper float64) {
-	return ratioLimitsFrom(c, conf, func(t float64) float64 { return koopmanSigned(c, math.Exp(t)) })
+	return ratioScoreLimits(c, conf, 1)
 }
 
 // koopmanSigned returns ±√U(θ), signed like p1 − θ·p2 (positive when θ is

@@ -6,6 +6,8 @@ import "math"
 // limits are where a statistic that falls steadily as the parameter grows
 // crosses a critical value; the search runs on t = log(parameter), where the
 // statistics are smooth and both tails of (0, ∞) are reached in a few steps.
+// The score intervals instead solve a smooth equation on a bounded interval
+// (see ratio_score.go and mn_oddsratio.go) with bracketedHalley.
 
 // maxLogScale bounds the search on the log scale: parameters beyond
 // e^±300 ≈ 10^±130 are treated as 0 or ∞. Counts are at most 2^50 per group,
@@ -125,3 +127,59 @@ func brentRoot(f func(float64) float64, a, b, fa, fb float64) float64 {
 	}
 	return b
 }
+
+// bracketedHalley returns the root of F in (a, b), where F(a) < 0 < F(b)
+// and F has no other root there, searching from x0 in (a, b). F returns
+// F(x), F′(x) and F″(x). Each step is Halley's,
+//
+//	x ← x − s/(1 − s·F″/(2F′)),  s = F/F′
+//
+// (Halley E 1694, Philosophical Transactions 18:136–148; cubic
+// convergence), or Newton's when the correction s·F″/(2F′) exceeds ½ in
+// size; the bracket shrinks to each new point by the sign of F, and a step
+// that would leave it is replaced by bisection. The search stops when a
+// step is below halleyTolerance·|x| and returns that last step's result:
+// with cubic convergence the error left is of the order of the step cubed.
+func bracketedHalley(F func(x float64) (f, d1, d2 float64), x0, a, b float64) float64 {
+	x := x0
+	if !(x > a && x < b) {
+		x = a + (b-a)/2
+	}
+	for range maxHalleySteps {
+		f, d1, d2 := F(x)
+		switch {
+		case f < 0:
+			a = x
+		case f > 0:
+			b = x
+		default:
+			return x
+		}
+		s := f / d1
+		if c := s * d2 / (2 * d1); math.Abs(c) < 0.5 {
+			s /= 1 - c
+		}
+		next := x - s
+		if math.Abs(s) <= halleyTolerance*math.Abs(x) {
+			// Converged; the result may sit an ulp outside the bracket.
+			return math.Min(math.Max(next, a), b)
+		}
+		if !(next > a && next < b) { // also for NaN and ±Inf
+			next = a + (b-a)/2
+			if next == a || next == b {
+				return next
+			}
+		}
+		x = next
+	}
+	return x
+}
+
+const (
+	// halleyTolerance stops bracketedHalley once a step is this small
+	// relative to the point; the relative error left is of order its cube.
+	halleyTolerance = 1e-6
+	// maxHalleySteps bounds the search; bisection alone would narrow the
+	// callers' brackets (at most 2^50 wide) by 2^−200.
+	maxHalleySteps = 200
+)

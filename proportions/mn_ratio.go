@@ -1,7 +1,5 @@
 package proportions
 
-import "math"
-
 // MiettinenNurminenRatio is the score interval for π1/π2 of Miettinen and
 // Nurminen: the set of θ with |z(θ)| ≤ z_{1−α/2}, where
 //
@@ -16,6 +14,10 @@ import "math"
 // second gives upper limit ∞; none in either gives [0, ∞] (the ratio is not
 // estimable and the data say nothing about it). All trials being events
 // (x = n) needs no special rule.
+//
+// The limits are the roots of a cubic in a parametrisation of the
+// restricted fit (see ratioScoreLimits in ratio_score.go), found by a
+// safeguarded Halley search in two or three steps.
 var MiettinenNurminenRatio = IntervalMethod{
 	Key:        "mn-ratio",
 	Name:       "Miettinen–Nurminen score (ratio)",
@@ -26,36 +28,4 @@ var MiettinenNurminenRatio = IntervalMethod{
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return ratioScoreLimits(c, conf, mnVarianceFactor(c))
 	},
-}
-
-// ratioScoreLimits inverts ratioScore with variance factor f.
-func ratioScoreLimits(c Counts, conf Confidence, f float64) (lower, upper float64) {
-	return ratioLimitsFrom(c, conf, func(t float64) float64 { return ratioScore(c, math.Exp(t), f) })
-}
-
-// ratioLimitsFrom inverts a decreasing ratio statistic z(log θ), applying
-// the zero-event rules shared by the ratio score intervals: the side of a
-// group with no events is 0 or ∞ without a search.
-func ratioLimitsFrom(c Counts, conf Confidence, z func(t float64) float64) (lower, upper float64) {
-	lower, upper = 0, math.Inf(1)
-	if c.X1 == 0 && c.X2 == 0 {
-		return lower, upper
-	}
-	t0, se := adjustedLogRatio(c)
-	step := conf.Z * se
-	lowerFn := func(t float64) float64 { return z(t) - conf.Z }
-	upperFn := func(t float64) float64 { return z(t) + conf.Z }
-	if c.X1 > 0 && c.X2 > 0 {
-		// Start at the estimate, where the statistic is 0.
-		t0 = math.Log(c.P1()) - math.Log(c.P2())
-		return math.Exp(decreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
-			math.Exp(decreasingCrossingFrom(upperFn, t0, conf.Z, step))
-	}
-	if c.X1 > 0 {
-		lower = math.Exp(decreasingCrossing(lowerFn, t0, step))
-	}
-	if c.X2 > 0 {
-		upper = math.Exp(decreasingCrossing(upperFn, t0, step))
-	}
-	return lower, upper
 }

@@ -42,18 +42,21 @@ func restrictedRatioRates(x1, n1, x2, n2, theta float64) (p1, p2 float64) {
 // x1 + x2, with p̃1 = ψp̃2 / (1 + p̃2(ψ − 1)); substituting gives
 // A·p̃2² + B·p̃2 − m = 0 with
 //
-//	A = n2(ψ − 1),  B = n1ψ + n2 − m(ψ − 1)
+//	A = n2(ψ − 1),  B = n1ψ + n2 − m(ψ − 1) = (n1 − m)ψ + (n2 + m)
 //
 // (Miettinen O, Nurminen M 1985, Statistics in Medicine 4:213–226). The
 // root in [0, 1] is 2m / (B + √D), D = B² + 4Am, when B ≥ 0 and
 // (√D − B) / (2A) otherwise (then ψ > 1 and A > 0), so neither form
-// cancels; the equation is divided by max(ψ, 1) against overflow.
+// cancels. B is formed from the exact counts n1 − m and n2 + m, so that it
+// does not cancel either, and the equation is divided by max(ψ, 1) before
+// any product is formed, against overflow. p̃2 keeps full relative
+// precision; for p̃1 see fitUnderOddsRatio.
 func restrictedUnderOddsRatio(c Counts, psi float64) (p1, p2 float64) {
-	n1, n2 := float64(c.N1), float64(c.N2)
+	n2 := float64(c.N2)
 	m := float64(c.X1 + c.X2)
 	s := math.Max(psi, 1)
-	a := n2 * (psi - 1) / s
-	b := (n1*psi + n2 - m*(psi-1)) / s
+	a := n2 * ((psi - 1) / s)
+	b := float64(c.N1-c.X1-c.X2)*(psi/s) + float64(c.N2+c.X1+c.X2)/s
 	ms := m / s
 	disc := math.Max(b*b+4*a*ms, 0)
 	root := math.Sqrt(disc)
@@ -141,23 +144,25 @@ func fitUnderRatio(c Counts, theta float64) ratioScaleFit {
 }
 
 // fitUnderOddsRatio returns the fit under odds ratio ψ (see
-// restrictedUnderOddsRatio). Counting non-events turns the odds ratio into
-// 1/ψ, so the complements are the same fit for the table with events and
-// non-events exchanged; it is used for a group whose p̃ exceeds ½.
+// restrictedUnderOddsRatio). The second group's p̃2 comes from the
+// quadratic, or, when it exceeds ½, its complement comes from the same fit
+// for the table with events and non-events exchanged (whose odds ratio is
+// 1/ψ); the first group follows from odds(p̃1) = ψ·odds(p̃2) as
+//
+//	p̃1 = ψp̃2 / (q̃2 + ψp̃2),  q̃1 = q̃2 / (q̃2 + ψp̃2),  q̃2 = 1 − p̃2,
+//
+// sums of positive terms, with at most twice the relative error of p̃2 or
+// q̃2 (whichever is at most ½), for every ψ in (0, ∞).
 func fitUnderOddsRatio(c Counts, psi float64) ratioScaleFit {
-	p1, p2 := restrictedUnderOddsRatio(c, psi)
-	f := ratioScaleFit{p1: p1, q1: 1 - p1, p2: p2, q2: 1 - p2}
-	if p1 > 0.5 || p2 > 0.5 {
+	_, p2 := restrictedUnderOddsRatio(c, psi)
+	q2 := 1 - p2
+	if p2 > 0.5 {
 		flip := Counts{X1: c.N1 - c.X1, N1: c.N1, X2: c.N2 - c.X2, N2: c.N2}
-		q1, q2 := restrictedUnderOddsRatio(flip, 1/psi)
-		if p1 > 0.5 {
-			f.p1, f.q1 = 1-q1, q1
-		}
-		if p2 > 0.5 {
-			f.p2, f.q2 = 1-q2, q2
-		}
+		_, q2 = restrictedUnderOddsRatio(flip, 1/psi)
+		p2 = 1 - q2
 	}
-	return f
+	t := psi * p2
+	return ratioScaleFit{p1: t / (q2 + t), q1: q2 / (q2 + t), p2: p2, q2: q2}
 }
 
 // largerRoot returns the larger root of a·q² − b·q + c = 0 (a > 0), clamped

@@ -41,18 +41,20 @@ func relErr(got float64, want *big.Float) float64 {
 // 1 − p̃ for both groups, with the roots of the same likelihood equations
 // solved in 400-bit arithmetic (math/big), on tables with rates within
 // 1e−9 of 0 or 1 and up to 10¹³ trials, where double-precision roots of
-// nearly coinciding quadratic roots would lose half their digits.
+// nearly coinciding quadratic roots would lose half their digits, and at
+// θ and ψ = 10^±17, where a complement taken from the other group's fit
+// would keep none.
 func TestRestrictedFitHighPrecision(t *testing.T) {
 	tables := []Counts{
 		{999999997, 1e9, 999999990, 1e9}, {1e12 - 3, 1e12, 1e12 - 10, 1e12}, {5, 1 << 40, 1 << 40, 1 << 40},
-		{3, 1e9, 7, 1e9}, {36, 40, 16, 80}, {1e13, 1e13, 1e13 - 10, 1e13}, {0, 1e6, 999999, 1e6},
+		{3, 1e9, 7, 1e9}, {36, 40, 16, 80}, {1e13, 1e13, 1e13 - 10, 1e13}, {0, 1e6, 999999, 1e6}, {2, 6, 3, 7},
 	}
 	one := bf(1)
 	for _, c := range tables {
 		x1, n1, x2, n2 := bf(float64(c.X1)), bf(float64(c.N1)), bf(float64(c.X2)), bf(float64(c.N2))
 		n := new(big.Float).SetPrec(400).Add(n1, n2)
 		m := new(big.Float).SetPrec(400).Add(x1, x2)
-		for _, theta := range []float64{0.3, 0.999999999, 1, 1.000000003, 1.7, 40} {
+		for _, theta := range []float64{1e-17, 0.3, 0.999999999, 1, 1.000000003, 1.7, 40, 1e17} {
 			th := bf(theta)
 			mul := func(a, b *big.Float) *big.Float { return new(big.Float).SetPrec(400).Mul(a, b) }
 			add := func(a, b *big.Float) *big.Float { return new(big.Float).SetPrec(400).Add(a, b) }
