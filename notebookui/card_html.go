@@ -105,6 +105,7 @@ const cardCSS = `
 .ps-card .ps-strip .ps-dot{fill:currentColor;stroke:none}
 .ps-card .ps-strip .ps-tick{fill:currentColor;font-size:12px;font-variant-numeric:tabular-nums}
 .ps-card .ps-muted{opacity:.8}
+.ps-card .ps-notrun{overflow-wrap:anywhere}
 .ps-card .ps-small{font-size:.9em;margin:.1em 0 .35em}
 .ps-card .ps-h{font-size:1em;font-weight:650;margin:1em 0 .35em;padding:0}
 .ps-card .ps-scroll{overflow-x:auto;width:0;min-width:100%}

@@ -293,7 +293,7 @@ func notRun(a proportions.Analysis, lookup referenceLookup) string {
 		return "Large-sample analysis. Left out: the exact and conditional methods (" + list + ")."
 	}
 	return "Quick analysis. Left out, as each takes milliseconds or more: " + list +
-		". Analyse with proportions.WithMethods(proportions.AllMethods) to add them."
+		". Analyse with WithMethods(AllMethods) to add them."
 }
 
 func referencesOf(a proportions.Analysis, lookup referenceLookup) []Reference {
