@@ -26,13 +26,15 @@ const FisherTieTolerance = 1e-7
 // is the one used by Agresti A (1992), "A survey of exact inference for
 // contingency tables", Statistical Science 7:131–153.
 //
-// Tails are summed in log space from the table furthest from the mode
-// inward (see hypergeomLogTail), so p-values far below 10⁻³⁰⁸ keep their
-// LogPValue and the test runs in O(√(n1+n2)) steps up to MaxTrials per
-// group. A zero margin (no events, or only events) leaves a single
-// possible table: p = 1. The statistic reported is the hypergeometric
-// probability of the observed table (it may underflow to 0; its log is
-// not kept since LogPValue carries the evidence).
+// The log probability of the observed table is evaluated once; every sum
+// is then taken relative to it through the ratio of neighbouring tables
+// (see fisherLogPs), so p-values far below 10⁻³⁰⁸ keep an accurate
+// LogPValue, p-values near 1 keep theirs too, and the test takes
+// O(√(n1+n2)) steps up to MaxTrials per group. A zero margin (no events,
+// or only events) leaves a single possible table: p = 1. The statistic
+// reported is the hypergeometric probability of the observed table (it
+// may underflow to 0; its log is not kept since LogPValue carries the
+// evidence).
 var Fisher = TestMethod{
 	Key:        "fisher",
 	Name:       "Fisher exact",
@@ -66,11 +68,11 @@ var FisherMidP = TestMethod{
 }
 
 func fisherRun(c Counts, h Hypothesis, key, name string, mid bool) TestResult {
-	logp := fisherLogP(c, h.Alternative, mid)
+	logp, px := fisherLogPs(c, h.Alternative, mid)
 	r := TestResult{
 		Method: key, Name: name, Family: Difference,
 		StatisticName: "P(observed table)",
-		Statistic:     math.Exp(logHypergeomPMF(c.X1, c.N1, c.N2, c.X1+c.X2)),
+		Statistic:     px,
 		PValue:        math.Exp(logp), LogPValue: logp,
 	}
 	r.decide(h)
@@ -79,67 +81,334 @@ func fisherRun(c Counts, h Hypothesis, key, name string, mid bool) TestResult {
 
 // fisherLogP returns the log of Fisher's p-value (or mid-p) for the counts.
 func fisherLogP(c Counts, a Alternative, mid bool) float64 {
-	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
-	if lo, hi := hypergeomSupport(n1, n2, m); lo == hi {
-		return 0 // a single possible table: no evidence either way
-	}
-	var incl, excl float64 // tail with and without the tables as extreme as x
-	switch a {
-	case Greater:
-		incl = hypergeomLogTail(x, n1, n2, m, true)
-		excl = hypergeomLogTail(x+1, n1, n2, m, true)
-	case Less:
-		incl = hypergeomLogTail(x, n1, n2, m, false)
-		excl = hypergeomLogTail(x-1, n1, n2, m, false)
-	default:
-		lp := logHypergeomPMF(x, n1, n2, m)
-		incl = fisherLogTwoSided(n1, n2, m, lp+math.Log1p(FisherTieTolerance))
-		excl = fisherLogTwoSided(n1, n2, m, lp+math.Log1p(-FisherTieTolerance))
-	}
-	if !mid {
-		return min(incl, 0)
-	}
-	return min(logAddExp(incl, excl)-math.Ln2, 0)
+	logp, _ := fisherLogPs(c, a, mid)
+	return logp
 }
 
-// fisherLogTwoSided returns the log of the total probability of the tables
-// whose log probability is at most thr. The hypergeometric distribution is
-// unimodal, so those tables form the two outer tails; their inner ends are
-// found by bisection on the log pmf, and each tail is summed outward.
-func fisherLogTwoSided(n1, n2, m int64, thr float64) float64 {
+// fisherLogPs returns the log of Fisher's p-value (or mid-p) and the
+// probability P(x) of the observed table.
+//
+// The table is first oriented so that the pmf does not increase from x
+// upward: otherwise X2 = m − X1, hypergeometric with the groups swapped,
+// takes its place (Greater and Less swap too). Then, with ρ_k = P(k)/P(x)
+// and T = Σ_{k≥x} ρ_k (the tail from x, summed by hypergeomSumUp),
+//
+//	Greater: p = P(x)·(T − w),   Less: p = 1 − P(x)·(T − 1 + w),
+//
+// with w = ½ for the mid-p and 0 for Fisher's test; Less is then about ½
+// or more (x is at or above the mode), so the subtraction is harmless. With equal groups P(k) = P(m−k),
+// and the tables between x and its mirror image m−x, fewer than the tail
+// when x is near the centre, give both: P(X1 ≥ x) = (1 − P(x)·H)/2,
+// H = Σ_{m−x<k<x} ρ_k. The two-sided p-value is logTwoSided. log P(x) is
+// the only log probability evaluated except when the far side of the
+// two-sided set is found by Newton steps (lowerEnd).
+func fisherLogPs(c Counts, a Alternative, mid bool) (logp, px float64) {
+	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
 	lo, hi := hypergeomSupport(n1, n2, m)
-	mode := hypergeomMode(n1, n2, m)
-	if logHypergeomPMF(mode, n1, n2, m) <= thr {
-		return 0 // even the most probable table qualifies: every table does
+	if lo == hi {
+		return 0, 1 // a single possible table: no evidence either way
 	}
-	total := math.Inf(-1)
-	// Lower side: log pmf increases on [lo, mode]; find the largest k there
-	// with log pmf ≤ thr.
-	if logHypergeomPMF(lo, n1, n2, m) <= thr {
-		a, b := lo, mode // invariant: pmf(a) ≤ thr < pmf(b)
-		for b-a > 1 {
-			mid := a + (b-a)/2
-			if logHypergeomPMF(mid, n1, n2, m) <= thr {
-				a = mid
-			} else {
-				b = mid
+	lpx := logHypergeomPMF(x, n1, n2, m)
+	if x < hi && hypergeomRatio(x, n1, n2, m) > 1 {
+		x, n1, n2 = m-x, n2, n1
+		switch a {
+		case Greater:
+			a = Less
+		case Less:
+			a = Greater
+		}
+		lo, hi = hypergeomSupport(n1, n2, m)
+	}
+	w := 0.0 // share of the tables as extreme as x left out of the p-value
+	if mid {
+		w = 0.5
+	}
+	f := fisherTables{n1: n1, n2: n2, m: m, x: x, lo: lo, hi: hi, lpx: lpx, px: math.Exp(lpx)}
+	switch a {
+	case Greater:
+		logp = f.logUpper(w)
+	case Less:
+		logp = f.logLower(w)
+	default:
+		logp = f.logTwoSided(w)
+	}
+	return min(logp, 0), f.px
+}
+
+// fisherComplementFloor is the smallest remainder 1 − c for which a
+// p-value is computed as one minus a sum c of central tables (tables not
+// in the tail) instead of summing the tail. The subtraction multiplies
+// the relative error of c by c/(1−c), at most 31 here; c, a sum of ratio
+// products over up to 2.2 standard deviations, is accurate to a few 10⁻¹⁵
+// at 10⁶ per group, so such p-values are accurate to about 10⁻¹³.
+const fisherComplementFloor = 1.0 / 32
+
+// fisherCentralReach is how far from the centre, in standard deviations,
+// x may lie for the central tables to be summed in the hope of a p-value
+// above fisherComplementFloor (a normal two-sided p-value of 1/32 lies at
+// 2.15 standard deviations).
+const fisherCentralReach = 2.2
+
+// fisherTables holds the margins of a table oriented for the p-value
+// computations (the pmf does not increase from x upward), its support
+// lo … hi, and log P(x) and P(x).
+type fisherTables struct {
+	n1, n2, m, x, lo, hi int64
+	lpx, px              float64
+}
+
+// ratioDown returns the parameters of ratioWalk and ratioSeries for
+// stepping down from k (see the ratio series in hypergeom.go).
+func (f *fisherTables) ratioDown(k int64) (a, b, c, d float64) {
+	return float64(k), float64(f.n2 - f.m + k), float64(f.n1 - k + 1), float64(f.m - k + 1)
+}
+
+// spread returns how far x lies above the mean n1·m/N and the standard
+// deviation √(n1·n2·m·(N−m)/(N²·(N−1))) of X1, N = n1+n2.
+func (f *fisherTables) spread() (dist, sd float64) {
+	n := float64(f.n1 + f.n2)
+	dist = float64(f.x) - float64(f.n1)*float64(f.m)/n
+	return dist, math.Sqrt(float64(f.n1) / n * float64(f.n2) / n * float64(f.m) * float64(f.n1+f.n2-f.m) / (n - 1))
+}
+
+// mirrored reports whether P(k) = P(m−k) (equal groups) with x at or above
+// the centre m/2. (An oriented x can lie just below the centre, at the
+// lower of two equal modes.)
+func (f *fisherTables) mirrored(dist float64) bool { return f.n1 == f.n2 && dist >= 0 }
+
+// centralMirrored returns H = Σ ρ_k over m−from < k < from for equal groups
+// and from > m/2, given t = ρ_from, walking down from from: twice the sum
+// over half+1 … from−1 (half = ⌊m/2⌋), plus the centre table m/2 when m is
+// even.
+func (f *fisherTables) centralMirrored(from int64, t float64) float64 {
+	half := f.m / 2
+	a, b, c, d := f.ratioDown(from)
+	s, _, last, _ := ratioWalk(a, b, c, d, t, 0, from-half-1)
+	s *= 2
+	if f.m%2 == 0 {
+		a, b, c, d = f.ratioDown(half + 1)
+		s += last * (a * b) / (c * d)
+	}
+	return s
+}
+
+// logUpper returns log(P(X1 ≥ x) − w·P(x)).
+func (f *fisherTables) logUpper(w float64) float64 {
+	if dist, sd := f.spread(); f.mirrored(dist) && dist <= fisherCentralReach*sd {
+		if dist == 0 {
+			return math.Log1p(f.px*(1-2*w)) - math.Ln2 // x = m/2: P(X1 ≥ x) = (1 + P(x))/2
+		}
+		// P(X1 ≥ x) − w·P(x) = (1 − c)/2.
+		if c := f.px * (f.centralMirrored(f.x, 1) + 2*w); 1-c >= fisherComplementFloor {
+			return math.Log1p(-c) - math.Ln2
+		}
+	}
+	return f.lpx + math.Log(hypergeomSumUp(f.x, f.n1, f.n2, f.m)-w)
+}
+
+// logLower returns log(P(X1 ≤ x) − w·P(x)), about log ½ or more here.
+func (f *fisherTables) logLower(w float64) float64 {
+	if dist, sd := f.spread(); f.mirrored(dist) && dist <= 5*sd {
+		if dist == 0 {
+			return math.Log1p(f.px*(1-2*w)) - math.Ln2
+		}
+		// P(X1 ≤ x) − w·P(x) = 1 − P(X1 ≥ x) + (1−w)·P(x) = (1 + P(x)·(H + 2 − 2w))/2.
+		return math.Log1p(f.px*(f.centralMirrored(f.x, 1)+2-2*w)) - math.Ln2
+	}
+	return math.Log1p(-f.px * (hypergeomSumUp(f.x, f.n1, f.n2, f.m) - 1 + w))
+}
+
+// The two-sided set. With tol = FisherTieTolerance, the pmf being
+// unimodal, the tables with ρ ≤ 1+tol (Fisher's set) are two runs
+// [lo, a] ∪ [b, hi] or the whole support, and those with ρ < 1−tol (the
+// strictly less probable ones) are [lo, a′] ∪ [b′, hi], a′ ≤ a, b′ ≥ b.
+// Between them lie the ties (ρ within the tolerance). So
+//
+//	Fisher: p = P(x)·(tail + ties)   = 1 − P(x)·central,
+//	mid-p:  p = P(x)·(tail + ½·ties) = 1 − P(x)·(central + ½·ties),
+//
+// with tail = Σ ρ over [lo, a′] ∪ [b′, hi] and central = Σ ρ over (a, b).
+// b′ and b come from ratio steps up and down from x (x is at or above the
+// mode, and b′ = x+1, b = x but for near ties). The lower run is the
+// mirror image of the upper one when n1 = n2; otherwise its inner end a
+// is reached by walking down through the central tables when x is within
+// fisherCentralReach standard deviations of the mean or 128 tables of it,
+// and else is found by Newton steps on the log pmf (lowerEnd). When the
+// central tables were summed and the remainder is at least
+// fisherComplementFloor, p is one minus them; else the tails are summed.
+
+// logTwoSided returns the log two-sided p-value (w = ½: mid-p).
+func (f *fisherTables) logTwoSided(w float64) float64 {
+	const tolHi, tolLo = 1 + FisherTieTolerance, 1 - FisherTieTolerance
+	n1, n2, m, lo, hi := f.n1, f.n2, f.m, f.lo, f.hi
+	// Ties from x up, and b′ with its ρ (b′ = hi+1: none).
+	ties, rho := 1.0, 1.0
+	bex, rbex := hi+1, 0.0
+	for k := f.x; k < hi; k++ {
+		rho *= hypergeomRatio(k, n1, n2, m)
+		if rho < tolLo {
+			bex, rbex = k+1, rho
+			break
+		}
+		ties += rho
+	}
+	// Ties below x, and b with its ρ. Reaching the mode inside the
+	// tolerance means that no table is more probable than x beyond it.
+	bin, rbin := f.x, 1.0
+	for {
+		if bin == lo {
+			return f.logAll(w, ties, bin, rbin)
+		}
+		r := hypergeomRatio(bin-1, n1, n2, m) // P(bin)/P(bin−1)
+		next := rbin / r
+		if next > tolHi {
+			break
+		}
+		if r > 1 {
+			return f.logAll(w, ties, bin, rbin)
+		}
+		ties += next
+		bin, rbin = bin-1, next
+	}
+	upper := func() float64 { // Σ ρ over [b′, hi]
+		if bex > hi {
+			return 0
+		}
+		return rbex * hypergeomSumUp(bex, n1, n2, m)
+	}
+	dist, sd := f.spread()
+	if f.mirrored(dist) {
+		ties *= 2 // the mirror images of the ties, below the centre
+		if dist <= fisherCentralReach*sd {
+			c := f.centralMirrored(bin, rbin)
+			if 1-f.px*(c+ties) >= fisherComplementFloor {
+				return math.Log1p(-f.px * (c + w*ties))
 			}
 		}
-		total = hypergeomLogOuter(a, n1, n2, m, false)
+		return f.lpx + math.Log(2*upper()+(1-w)*ties)
 	}
-	// Upper side: log pmf decreases on [mode, hi]; find the smallest k there
-	// with log pmf ≤ thr.
-	if logHypergeomPMF(hi, n1, n2, m) <= thr {
-		a, b := mode, hi // invariant: pmf(a) > thr ≥ pmf(b)
-		for b-a > 1 {
-			mid := a + (b-a)/2
-			if logHypergeomPMF(mid, n1, n2, m) <= thr {
-				b = mid
-			} else {
-				a = mid
+	if dist <= fisherCentralReach*sd || dist <= 128 {
+		a, b, c, d := f.ratioDown(bin)
+		central, j, ra, ok := ratioWalk(a, b, c, d, rbin, tolHi, bin-lo)
+		if ok {
+			aex, rex, lties := f.lowerTies(bin-j, ra)
+			ties += lties
+			if 1-f.px*(central+ties) >= fisherComplementFloor {
+				return math.Log1p(-f.px * (central + w*ties))
 			}
+			return f.lpx + math.Log(upper()+f.lowerTail(aex, rex)+(1-w)*ties)
 		}
-		total = logAddExp(total, hypergeomLogOuter(b, n1, n2, m, true))
 	}
-	return total
+	aex, rex, lties := f.lowerTies(f.lowerEnd(bin))
+	return f.lpx + math.Log(upper()+f.lowerTail(aex, rex)+(1-w)*(ties+lties))
+}
+
+// logAll is the two-sided result when no table is more probable than x
+// beyond the tolerance: Fisher's p is 1, and the mid-p is 1 − ½·P(band),
+// the band being the tables with ρ ≥ 1 − tol around the mode. ties holds
+// the band from above x down to k (where ρ is rho); the rest lies below k.
+func (f *fisherTables) logAll(w, ties float64, k int64, rho float64) float64 {
+	if w == 0 {
+		return 0
+	}
+	for ; k > f.lo; k-- {
+		rho /= hypergeomRatio(k-1, f.n1, f.n2, f.m)
+		if rho < 1-FisherTieTolerance {
+			break
+		}
+		ties += rho
+	}
+	return math.Log1p(-w * f.px * ties)
+}
+
+// lowerTies takes the inner end a of the lower run (a < lo: none) and its
+// ρ, and returns a′ (the first table from a down with ρ < 1 − tol; lo − 1
+// if none), its ρ, and the sum of ρ over the ties from a down to a′+1.
+func (f *fisherTables) lowerTies(a int64, rho float64) (int64, float64, float64) {
+	ties := 0.0
+	for a >= f.lo && rho >= 1-FisherTieTolerance {
+		ties += rho
+		if a > f.lo {
+			rho /= hypergeomRatio(a-1, f.n1, f.n2, f.m)
+		}
+		a--
+	}
+	return a, rho, ties
+}
+
+// lowerTail returns Σ ρ over [lo, a], given a and ρ_a (0 when a < lo).
+func (f *fisherTables) lowerTail(a int64, rho float64) float64 {
+	if a < f.lo {
+		return 0
+	}
+	return rho * hypergeomSumDown(a, f.n1, f.n2, f.m)
+}
+
+// lowerEnd returns the inner end a of the lower run, the largest k below
+// b (the inner end of the upper run) with ρ_k ≤ 1 + tol, and ρ_a; a = lo−1
+// when there is none. It takes Newton steps on
+//
+//	g(k) = log P(k) − log P(x) − log(1 + tol),
+//
+// which is concave and increasing up to the mode, with the slopes taken
+// exactly as the log ratios of neighbouring tables: from the left of the
+// root a step of ⌊−g(k)/(g(k+1)−g(k))⌋ never passes it, and from the right
+// a step of ⌈g(k)/(g(k)−g(k−1))⌉ lands left of it. The first guess is the
+// mirror image of x about the mean; once a step would be shorter than 8
+// tables the rest is walked by ratios. Each step costs one log pmf.
+func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
+	const tolHi = 1 + FisherTieTolerance
+	n1, n2, m, lo := f.n1, f.n2, f.m, f.lo
+	lt := math.Log1p(FisherTieTolerance)
+	top := min(hypergeomMode(n1, n2, m), b-1) // g(top) > 0: top is more probable than x
+	g := func(k int64) float64 { return logHypergeomPMF(k, n1, n2, m) - f.lpx - lt }
+	k := int64(math.Round(2*float64(n1)*float64(m)/float64(n1+n2) - float64(f.x)))
+	k = min(max(k, lo), top)
+	gk := g(k)
+	for gk > 0 {
+		if k == lo {
+			return lo - 1, 0
+		}
+		step := 1.0
+		if s := math.Log(hypergeomRatio(k-1, n1, n2, m)); s > 0 {
+			step = max(1, math.Ceil(gk/s))
+		}
+		if step >= float64(k-lo) {
+			k = lo
+		} else {
+			k -= int64(step)
+		}
+		gk = g(k)
+	}
+	for range 64 {
+		step := 0.0
+		if s := math.Log(hypergeomRatio(k, n1, n2, m)); s > 0 {
+			step = math.Floor(-gk / s)
+		}
+		if step < 8 || float64(k)+step >= float64(top) {
+			break
+		}
+		k += int64(step)
+		if gk = g(k); gk > 0 {
+			// Rounding put k just past the root: step back by ratios.
+			rho := math.Exp(gk + lt)
+			for k > lo && rho > tolHi {
+				rho /= hypergeomRatio(k-1, n1, n2, m)
+				k--
+			}
+			if rho > tolHi {
+				return lo - 1, 0
+			}
+			return k, rho
+		}
+	}
+	rho := math.Exp(gk + lt) // ρ_k; walk up while ρ stays within 1 + tol
+	for k < top {
+		next := rho * hypergeomRatio(k, n1, n2, m)
+		if next > tolHi {
+			break
+		}
+		k, rho = k+1, next
+	}
+	return k, rho
 }
