@@ -135,30 +135,43 @@ func bd0Fast(x, m float64) float64 {
 	return d*v + 2*x*v*v2*p
 }
 
-// betaTail is the tail probability of one interval with its normal deviate
-// z = Φ⁻¹(1 − q) and Φ(−z), φ(z) for that z (so z need not be exact: the
-// series branch uses w = −z only as the point where it knows Φ and φ).
+// betaTail is the tail probability q of one interval with its normal
+// deviate z = Φ⁻¹(1 − q), taken from the confidence level. The series
+// branch starts at w = −z and needs Φ(−z) and φ(z) for that z, computed
+// once per interval and only if that branch is tried (so z need not be
+// exact); logq is likewise computed when a starting value first needs it.
 type betaTail struct {
-	q, z, cdf, pdf float64
+	q, z     float64
+	cdf, pdf float64 // Φ(−z), φ(z), valid when gauss is set
+	gauss    bool
+	logq     float64 // log q, valid when not 0
 }
 
-// newBetaTail prepares the tail q, taking z from the confidence level when
-// it fits q and recomputing it otherwise.
+// newBetaTail prepares the tail q, taking the hint z unless it cannot be
+// the deviate of q (a Confidence built without NewConfidence has Z = 0).
 func newBetaTail(q, z float64) betaTail {
-	t := betaTail{q: q, z: z}
-	if !(z >= 0 && z < 40) {
-		t.z = -NormalQuantile(q)
+	if !(z > 0 && z < 40) && q < 0.5 {
+		z = -NormalQuantile(q)
 	}
+	return betaTail{q: q, z: max(z, 0)}
+}
+
+// normal sets Φ(−z) and φ(z), first replacing z by Φ⁻¹(1 − q) if the hint
+// is off by more than 0.1% in Φ(−z).
+func (t *betaTail) normal() {
+	if t.gauss {
+		return
+	}
+	t.gauss = true
 	t.cdf = 0.5 * math.Erfc(t.z/math.Sqrt2)
-	if !(math.Abs(t.cdf-q) <= 1e-3*q) {
-		t.z = -NormalQuantile(q)
+	if !(math.Abs(t.cdf-t.q) <= 1e-3*t.q) {
+		t.z = -NormalQuantile(t.q)
 		t.cdf = 0.5 * math.Erfc(t.z/math.Sqrt2)
 	}
-	// exp(−z²/2) with the rounding error of z² put back.
+	// exp(−z²/2) with the rounding error of z² put back
 	zz := t.z * t.z
 	e := math.FMA(t.z, t.z, -zz)
 	t.pdf = math.Exp(-0.5*zz) * (1 - 0.5*e) / math.Sqrt(2*math.Pi)
-	return t
 }
 
 // betaLowerQuantile returns x with I_x(a, b) = t.q and y = 1 − x.
@@ -175,6 +188,7 @@ func betaLowerQuantile(a, b float64, t *betaTail) (x, y float64) {
 		return math.Exp(l), -math.Expm1(l)
 	}
 	if betaSeriesApplies(a, b, t.z) {
+		t.normal()
 		var s betaSeries
 		if s.setup(a, b, t) {
 			if x, y, ok := s.solve(t); ok {
@@ -568,7 +582,7 @@ func betaModelStep(al, be, t0, s0, tail0, dens0, q float64, upper bool) (h float
 // betaQuantileByFraction solves I_x(a, b) = q with continued-fraction
 // evaluations.
 func betaQuantileByFraction(a, b float64, tl *betaTail) (x, y float64) {
-	t0, upper := betaFractionGuess(a, b, tl.q, tl.z)
+	t0, upper := betaFractionGuess(a, b, tl)
 	return betaSolveByFraction(a, b, tl.q, t0, upper)
 }
 
@@ -599,9 +613,13 @@ func betaSolveByFraction(a, b, q, t0 float64, upper bool) (x, y float64) {
 		} else {
 			hi = t0
 		}
+		if hi-lo <= 2e-16*hi {
+			break // the bracket is down to rounding
+		}
 		h, ok := betaModelStep(al, be, t0, s0, tail0, dens0, q, upper)
 		tn := t0 + h
-		if ok && tn > lo && tn < hi {
+		// (inclusive: a step below the rounding of t0 leaves tn = t0)
+		if ok && tn >= lo && tn <= hi {
 			if tn <= 0.5 {
 				t, s := tn, s0-h
 				if upper {
@@ -642,9 +660,94 @@ func betaSolveByFraction(a, b, q, t0 float64, upper bool) (x, y float64) {
 	return t0, s0
 }
 
+// lgammaHalvesPlus1[k] is log Γ(k/2 + 1) for k = 1..16 (40-digit
+// arithmetic), the small shapes of the gamma-like starting values.
+var lgammaHalvesPlus1 = [17]float64{
+	0,
+	-0.12078223763524522235, // 0.5
+	0,                       // 1
+	0.28468287047291915963,  // 1.5
+	0.69314718055994530942,  // 2
+	1.2009736023470742248,   // 2.5
+	1.7917594692280550008,   // 3
+	2.4537365708424422205,   // 3.5
+	3.1780538303479456196,   // 4
+	3.9578139676187162939,   // 4.5
+	4.7874917427820459942,   // 5
+	5.6625620598571415285,   // 5.5
+	6.5792512120101009951,   // 6
+	7.5343642367587329552,   // 6.5
+	8.5251613610654143002,   // 7
+	9.5492672573009977117,   // 7.5
+	10.604602902745250228,   // 8
+}
+
+// oneMinusExpNeg returns 1 − e^{−u} for 0 ≤ u, by its series when u is
+// small (a starting value needs no more than five terms).
+func oneMinusExpNeg(u float64) float64 {
+	if u < 0.05 {
+		return u * (1 - u*(0.5-u*(1.0/6-u*(1.0/24-u*(1.0/120)))))
+	}
+	return -math.Expm1(-u)
+}
+
 // betaFractionGuess returns a starting point for I_x(a, b) = q: t0 = x when
 // reflect is false, t0 = 1 − x otherwise, with t0 ≤ ½.
-func betaFractionGuess(a, b, q, z float64) (t0 float64, reflect bool) {
+//
+// A small shape s against a large one L makes the beta close to a gamma:
+// −c·log(1 − X) ≈ Gamma(s) with c = L + (s−1)/2, which matches the leading
+// power of the lower tail, x^s/(s B(s, L)) ≈ (c x)^s/Γ(s+1). The gamma's
+// lower tail is inverted by the series ω = r + r²/(s+1) + r³(3s+5)/
+// (2(s+1)²(s+2)) + … in r = (q Γ(s+1))^(1/s) (DiDonato AR, Morris AH (1986),
+// "Computation of the incomplete gamma function ratios and their inverse",
+// ACM TOMS 12:377–393), its upper tail by Wilson EB, Hilferty MM (1931),
+// "The distribution of chi-square", PNAS 17:684–688, and for s = ½, where
+// Gamma(½) is half a squared normal, exactly. Otherwise Carter's normal
+// approximation (AS 109) is used, and the power law of a tail for shapes
+// at most 1.
+func betaFractionGuess(a, b float64, tl *betaTail) (t0 float64, reflect bool) {
+	q, z := tl.q, tl.z
+	if s, l := math.Min(a, b), math.Max(a, b); s <= 8 && l >= 4*s {
+		c := l + 0.5*(s-1)
+		if a == s {
+			// lower tail of the small shape
+			lg := 0.0
+			if k := 2 * s; k == math.Trunc(k) {
+				lg = lgammaHalvesPlus1[int(k)]
+			} else {
+				lg, _ = math.Lgamma(s + 1)
+			}
+			if tl.logq == 0 {
+				tl.logq = math.Log(q)
+			}
+			r := math.Exp((tl.logq + lg) / s)
+			if r <= 0.25*(s+1) {
+				s1, s2, s3, s4 := s+1, s+2, s+3, s+4
+				s11 := s1 * s1
+				c2 := 1 / s1
+				c3 := (3*s + 5) / (2 * s11 * s2)
+				c4 := ((8*s+33)*s + 31) / (3 * s11 * s1 * s2 * s3)
+				c5 := ((((125*s+1179)*s+3971)*s+5661)*s + 2888) / (24 * s11 * s11 * s2 * s2 * s3 * s4)
+				w := r * (1 + r*(c2+r*(c3+r*(c4+r*c5))))
+				if x := oneMinusExpNeg(w / c); x <= 0.5 {
+					return x, false
+				}
+			}
+		} else {
+			// upper tail of the small shape
+			var g float64
+			if s == 0.5 {
+				u := NormalQuantile(q / 2)
+				g = 0.5 * u * u
+			} else {
+				v := 1 - 1/(9*s) + z/(3*math.Sqrt(s))
+				g = s * v * v * v
+			}
+			if y := oneMinusExpNeg(g / c); y <= 0.5 {
+				return y, true
+			}
+		}
+	}
 	if a > 1 && b > 1 {
 		// Carter's approximation, as in AS 109.
 		r := (z*z - 3) / 6
@@ -658,24 +761,15 @@ func betaFractionGuess(a, b, q, z float64) (t0 float64, reflect bool) {
 		}
 		return e / (a + e), true
 	}
-	lb, _ := math.Lgamma(a)
-	lb2, _ := math.Lgamma(b)
-	lb3, _ := math.Lgamma(a + b)
-	lbeta := lb + lb2 - lb3
-	x := math.Exp((math.Log(q*a) + lbeta) / a)
-	if x <= 0.5 {
+	// Shapes at most 1 on both sides, or comparable: the power law of the
+	// lower tail, x^a ≈ q a B(a, b), or of the upper one.
+	la, _ := math.Lgamma(a)
+	lb, _ := math.Lgamma(b)
+	ln, _ := math.Lgamma(a + b)
+	lbeta := la + lb - ln
+	if x := math.Exp((math.Log(q*a) + lbeta) / a); x <= 0.5 {
 		return x, false
 	}
-	// 1 − X ~ Beta(b, a) is near Gamma(b)/(a + (b−1)/2); for b = ½ its
-	// upper tail is erfc.
-	var g float64
-	if b == 0.5 {
-		u := NormalQuantile(q / 2)
-		g = 0.5 * u * u
-	} else {
-		c := 1 - 1/(9*b) + z/(3*math.Sqrt(b)) // Wilson–Hilferty
-		g = b * math.Max(c*c*c, 1e-3)
-	}
-	y := g / (a + 0.5*(b-1))
+	y := math.Exp((math.Log((1-q)*b) + lbeta) / b)
 	return math.Min(y, 0.5), true
 }

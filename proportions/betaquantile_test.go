@@ -276,6 +276,7 @@ func TestBetaQuantileSeriesRefusesFarStart(t *testing.T) {
 			// a tail whose Φ(−z), φ(z) are right for z but q is another's
 			good := newBetaTail(0.5*math.Erfc(zs[1]/math.Sqrt2), zs[1])
 			far := newBetaTail(0.5*math.Erfc(zs[0]/math.Sqrt2), zs[0])
+			far.normal()
 			far.q = good.q
 			var s betaSeries
 			if !s.setup(ab[0], ab[1], &far) {
@@ -311,7 +312,7 @@ func TestBetaQuantileFractionAnyStart(t *testing.T) {
 		a, b, q := c[0], c[1], c[2]
 		tl := newBetaTail(q, -NormalQuantile(q))
 		wx, wy := betaQuantileByFraction(a, b, &tl)
-		for _, t0 := range []float64{1e-300, 1e-30, 1e-6, 0.1, 0.4999, 0.5, 0.7, 1 - 1e-9} {
+		for _, t0 := range []float64{1e-300, 1e-30, 1e-6, 0.1, 0.4999, 0.5, 0.7, 1 - 1e-9, wx, wy} {
 			for _, upper := range []bool{false, true} {
 				x, y := betaSolveByFraction(a, b, q, t0, upper)
 				if betaRelErr(x, wx) > 1e-14 || betaRelErr(y, wy) > 1e-14 {
