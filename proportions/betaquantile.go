@@ -7,14 +7,17 @@ import "math"
 // regularized incomplete beta function and 0 < q ≤ ½ is a tail probability
 // (α/2 for a two-sided interval). Upper-tail quantiles are lower-tail ones of
 // the reflected distribution, since 1 − I_x(a, b) = I_{1−x}(b, a); the
-// solver returns x and 1 − x, each to nearly full relative precision, so a
-// limit near 1 and its distance from 1 are both exact.
+// solver returns x and 1 − x, each to about 1e-15 relative precision (a few
+// times that in far tails of shapes near 1, where x^a carries the rounding
+// of a logarithm near 20), so a limit near 1 and its distance from 1 are
+// both accurate. The shapes 1 have closed forms. Otherwise one of two
+// branches is used, by the smaller shape m = min(a, b) and the normal
+// deviate z = Φ⁻¹(1 − q):
 //
-// Two branches, chosen by the smaller shape m = min(a, b):
-//
-// Series branch (m ≥ betaSeriesMinShape and a moderate normal deviate). With
-// N = a + b, p = a/N and the variable ζ of Temme NM (1987), "Incomplete
-// Laplace integrals: uniform asymptotic expansion with application to the
+// Series branch (betaSeriesApplies: m ≥ 40 and (z+1)/√(4πm) ≤ 0.045, so
+// for m of about 110 at 50%, 340 at 95%, 1400 at 99.9999%). With N = a + b,
+// p = a/N and the variable ζ of Temme NM (1987), "Incomplete Laplace
+// integrals: uniform asymptotic expansion with application to the
 // incomplete beta function", SIAM J. Math. Anal. 18:1638–1663,
 //
 //	½ζ² = p log(p/t) + (1−p) log((1−p)/(1−t)),   sign ζ = sign(t − p),
@@ -24,42 +27,41 @@ import "math"
 //	I_x(a, b) = e^Δ ∫_{−∞}^{w(x)} φ(s) ψ(s) ds,   ψ(w) = Σ ψ_k w^k,
 //
 // where φ is the standard normal density, Δ = stirlerr(N) − stirlerr(a) −
-// stirlerr(b) collects the Stirling remainders, and ψ = (p(1−p)/σ)·x'(w)/
-// (x(1−x)) with σ = √(p(1−p)/N). The Taylor coefficients of x(w) − p =
-// Σ u_k w^k follow from the differential equation u·u' = ζ(p(1−p) +
-// (1−2p)u − u²)·N^{-1} (in w units), which the recurrence in setup solves,
-// and ψ = σw/(x − p) is a power-series division. Integrating term by term,
-// I = e^Δ Σ ψ_k m_k(w) with the truncated Gaussian moments m_0 = Φ(w),
-// m_1 = −φ(w), m_k = (k−1) m_{k−2} − w^{k−1} φ(w). This is the expansion
-// that DiDonato AR, Morris AH (1992), "Algorithm 708: Significant digit
-// computation of the incomplete beta function ratios", ACM TOMS
-// 18:360–373, use for large a and b (their BASYM). The coefficients decay
-// like (4πm)^{-k/2}, so the number of terms K is set by m and the deviate;
-// setup stops when two successive terms are below the double precision of
-// the quantile. The equation I = q is solved for w by Halley steps starting
-// at w = −z, where z = Φ⁻¹(1 − q) is known from the confidence level (its
-// Φ(−z) and φ(z) are computed once per interval), so that no
-// transcendental function is evaluated per quantile; x follows from the
-// series of x(w).
+// stirlerr(b) collects the Stirling remainders, and ψ = σw/(x(w) − p) with
+// σ = √(p(1−p)/N), ψ(0) = 1. The Taylor coefficients of u = t(ζ) − p follow
+// from the differential equation u·u' = ζ(p(1−p) + (1−2p)u − u²), which
+// setup solves term by term, and ψ from a power-series division.
+// Integrating term by term, I = e^Δ Σ ψ_k m_k(w) with the truncated
+// Gaussian moments m_0 = Φ(w), m_1 = −φ(w), m_k = (k−1) m_{k−2} −
+// w^{k−1} φ(w). This is the expansion that DiDonato AR, Morris AH (1992),
+// "Algorithm 708: Significant digit computation of the incomplete beta
+// function ratios", ACM TOMS 18:360–373, use for large a and b (their
+// BASYM). The coefficients decay like (4πm)^{−k/2}, the moments like
+// (|w|+1)^k; setup stops when two successive terms are below the double
+// precision of the quantile (at most about 14 terms within the branch's
+// bounds, 6 to 8 for shapes of 10⁵). The equation I = q is solved for w by
+// Halley steps from w0 = −z, where Φ(−z) and φ(z) are computed once per
+// interval (z comes from the confidence level and need not be exact); later
+// steps expand φ around w0 by its Hermite recurrence, so no transcendental
+// function is evaluated per quantile, and x follows from the series of x(w).
 //
-// Continued-fraction branch (everything else). A starting value (Carter's
-// normal approximation as in Cran GW, Martin KJ, Thomas GE (1977),
-// Algorithm AS 109, Applied Statistics 26:111–114; power law or
-// Wilson–Hilferty for shapes ≤ 1) is evaluated once exactly: the prefactor
-// x^a (1−x)^b / B(a, b) comes from Loader's saddle-point pieces (stirlerr,
-// bd0; see logpmf.go) without cancellation, the lower tail below the mean
-// from the continued fraction of Abramowitz M, Stegun IA (1964), Handbook of
-// Mathematical Functions, 26.5.8, and the upper tail above the mean from
-// Gauss's continued fraction of 2F1(1−a, 1; b+1; −(1−x)/x) (Pfaff's
-// transformation, A&S 15.3.5, of the hypergeometric form of 1 − I_x; see
-// Cuyt A et al. (2008), Handbook of Continued Fractions for Special
-// Functions, Springer, §15.3), which converges quickly even when b is huge
-// and a small. From that one point the quantile is found on the exact
-// Taylor expansion of the density, whose coefficients obey the three-term
-// recurrence of the density's differential equation x(1−x) f' =
-// ((a−1) − (a+b−2)x) f, so no further evaluation is needed when the
-// starting value is within the expansion's reach; otherwise the step is
-// taken and the point evaluated again, inside a bracket.
+// Continued-fraction branch (everything else). A starting value is
+// evaluated once exactly: the prefactor x^a (1−x)^b / B(a, b) comes from
+// Loader's saddle-point pieces (stirlerr, bd0; see logpmf.go) without
+// cancellation, the lower tail below the mean from the continued fraction
+// of Abramowitz M, Stegun IA (1964), Handbook of Mathematical Functions,
+// 26.5.8, and the upper tail above the mean from Gauss's continued fraction
+// of 2F1(1−a, 1; b+1; −(1−x)/x) (Pfaff's transformation, A&S 15.3.5, of
+// the hypergeometric form of 1 − I_x; Cuyt A et al. (2008), Handbook of
+// Continued Fractions for Special Functions, Springer, §15.3), which
+// converges quickly even when b is huge and a small (A&S 26.5.8 on the
+// reflected side would need thousands of steps there). From that one point
+// the quantile is found on the exact Taylor expansion of the density, whose
+// coefficients obey the three-term recurrence of its differential equation
+// x(1−x) f' = ((a−1) − (a+b−2)x) f, so no further evaluation is needed when
+// the starting value (see betaFractionGuess) is within the expansion's
+// reach; otherwise the step is taken and the point evaluated again, inside
+// a bracket that guarantees convergence from any start.
 
 // stirlerrHalves[k] is stirlerr(k/2) for k = 1..30, computed to 20 digits
 // with 40-digit arithmetic (lgamma(n+1) − (n+½) log n + n − ½ log 2π); the
@@ -174,7 +176,8 @@ func (t *betaTail) normal() {
 	t.pdf = math.Exp(-0.5*zz) * (1 - 0.5*e) / math.Sqrt(2*math.Pi)
 }
 
-// betaLowerQuantile returns x with I_x(a, b) = t.q and y = 1 − x.
+// betaLowerQuantile returns x with I_x(a, b) = t.q and y = 1 − x, for
+// shapes a, b > 0 (up to 2^50 and beyond) and 0 < t.q ≤ ½.
 func betaLowerQuantile(a, b float64, t *betaTail) (x, y float64) {
 	q := t.q
 	switch {
@@ -201,9 +204,12 @@ func betaLowerQuantile(a, b float64, t *betaTail) (x, y float64) {
 
 // ---------- series branch ----------
 
+// Bounds of the series branch (see betaSeriesApplies) and the lengths of
+// its coefficient arrays; setup gives up, and the continued fractions take
+// over, rather than exceed them.
 const (
 	betaSeriesMinShape  = 40
-	betaSeriesMaxRatio2 = 0.09 // (|w|+1)²/(4πm) at most 0.3²
+	betaSeriesMaxRatio2 = 0.002 // (|w|+1)²/(4πm) at most 0.045²
 	betaSeriesMaxTerms  = 24
 	betaHermiteTerms    = 24
 )
@@ -218,7 +224,9 @@ var betaRecip = func() (r [64]float64) {
 
 // betaSeriesApplies reports whether the series branch is tried: the smaller
 // shape m is at least betaSeriesMinShape and the deviate z is well inside
-// the radius √(4πm) of the expansion in w, (z+1)² ≤ 0.09·4πm.
+// the radius √(4πm) of the expansion in w, ρ = (z+1)/√(4πm) ≤ 0.045. The
+// series then needs at most about 14 terms (K ≈ 37/log(1/ρ)); beyond that
+// the continued fractions, at about 20–40 steps there, are faster.
 func betaSeriesApplies(a, b, z float64) bool {
 	m := math.Min(a, b)
 	return m >= betaSeriesMinShape && (z+1)*(z+1) <= betaSeriesMaxRatio2*4*math.Pi*m
@@ -417,67 +425,71 @@ func (s *betaSeries) solve(t *betaTail) (x, y float64, ok bool) {
 // ---------- continued-fraction branch ----------
 
 // betaFraction returns the continued fraction of I_x(a, b) (A&S 26.5.8),
-// I_x = x^a (1−x)^b/(a B(a,b)) · 1/(1+ d1/(1+ d2/(1+ …))), evaluated through
-// its even part so that each step is one three-term recurrence.
+// I_x = x^a (1−x)^b/(a B(a,b)) · 1/(1+ d1/(1+ d2/(1+ …))), with
+// d_{2m} = m(b−m)x/((a+2m−1)(a+2m)) and d_{2m+1} = −(a+m)(a+b+m)x/
+// ((a+2m)(a+2m+1)), evaluated through its even part (one three-term
+// recurrence per pair of terms), two pairs per loop sharing one division.
 func betaFraction(a, b, x float64) float64 {
 	n := a + b
 	dOprev := -n * x / (a + 1) // d_1
 	a0, b0 := 0.0, 1.0
 	a1, b1 := 1.0, 1+dOprev
-	for m := 1.0; m < 1e6; m++ {
-		m2 := 2 * m
-		c0, c1, c2 := a+m2-1, a+m2, a+m2+1
-		inv := x / (c0 * c1 * c2)
-		dE := m * (b - m) * c2 * inv        // d_{2m}
-		dO := -(a + m) * (n + m) * c0 * inv // d_{2m+1}
-		beta := 1 + dE + dO
-		alpha := -dE * dOprev
-		a2 := beta*a1 + alpha*a0
-		b2 := beta*b1 + alpha*b0
-		dOprev = dO
+	for m := 1.0; m < 1e6; m += 2 {
+		c0 := a + 2*m - 1
+		c1, c2, c3, c4 := c0+1, c0+2, c0+3, c0+4
+		c01, c34 := c0*c1, c3*c4
+		inv := x / (c01 * c2 * c34)
+		dE := m * (b - m) * c2 * c34 * inv        // d_{2m}
+		dO := -(a + m) * (n + m) * c0 * c34 * inv // d_{2m+1}
+		beta, alpha := 1+dE+dO, -dE*dOprev
+		a2, b2 := beta*a1+alpha*a0, beta*b1+alpha*b0
+		m1 := m + 1
+		dE = m1 * (b - m1) * c01 * c4 * inv            // d_{2m+2}
+		dOprev = -(a + m1) * (n + m1) * c01 * c2 * inv // d_{2m+3}
+		beta, alpha = 1+dE+dOprev, -dE*dO
+		a3, b3 := beta*a2+alpha*a1, beta*b2+alpha*b1
 		// converged when A_k B_{k−1} and A_{k−1} B_k agree
-		p := a2 * b1
-		if math.Abs(math.FMA(a1, -b2, p)) <= 1e-16*math.Abs(p) {
-			return a2 / b2
+		p := a3 * b2
+		if math.Abs(math.FMA(a2, -b3, p)) <= 1e-16*math.Abs(p) {
+			return a3 / b3
 		}
-		a0, b0, a1, b1 = a1, b1, a2, b2
-		if int(m)&15 == 0 {
-			sc := 1 / b1
-			a0, b0, a1, b1 = a0*sc, b0*sc, a1*sc, 1
-		}
+		sc := 1 / b3
+		a0, b0, a1, b1 = a2*sc, b2*sc, a3*sc, 1
 	}
 	return a1 / b1
 }
 
 // betaUpperFraction returns F = 2F1(1−a, 1; b+1; −y/x) by Gauss's continued
-// fraction (even part), so that 1 − I_x(a, b) = x^(a−1) y^b F / (b B(a,b)),
-// with y = 1 − x. For integer a it terminates after a steps.
+// fraction, so that 1 − I_x(a, b) = x^(a−1) y^b F / (b B(a,b)) with
+// y = 1 − x: F = 1/(1+ e1/(1+ e2/(1+ …))) with e_{2m} = m(a+b+m−1)r/
+// ((b+2m−1)(b+2m)) and e_{2m+1} = (m+1−a)(b+m)r/((b+2m)(b+2m+1)),
+// r = y/x, evaluated like betaFraction. For integer a it terminates.
 func betaUpperFraction(a, b, x, y float64) float64 {
 	r := y / x
 	n := a + b
-	dOprev := (1 - a) / (b + 1) * r
+	dOprev := (1 - a) / (b + 1) * r // e_1
 	a0, b0 := 0.0, 1.0
 	a1, b1 := 1.0, 1+dOprev
-	for m := 1.0; m < 1e6; m++ {
-		m2 := 2 * m
-		c0, c1, c2 := b+m2-1, b+m2, b+m2+1
-		inv := r / (c0 * c1 * c2)
-		dE := m * (n + m - 1) * c2 * inv
-		dO := (m + 1 - a) * (b + m) * c0 * inv
-		beta := 1 + dE + dO
-		alpha := -dE * dOprev
-		a2 := beta*a1 + alpha*a0
-		b2 := beta*b1 + alpha*b0
-		dOprev = dO
-		p := a2 * b1
-		if math.Abs(math.FMA(a1, -b2, p)) <= 1e-16*math.Abs(p) {
-			return a2 / b2
+	for m := 1.0; m < 1e6; m += 2 {
+		c0 := b + 2*m - 1
+		c1, c2, c3, c4 := c0+1, c0+2, c0+3, c0+4
+		c01, c34 := c0*c1, c3*c4
+		inv := r / (c01 * c2 * c34)
+		dE := m * (n + m - 1) * c2 * c34 * inv
+		dO := (m + 1 - a) * (b + m) * c0 * c34 * inv
+		beta, alpha := 1+dE+dO, -dE*dOprev
+		a2, b2 := beta*a1+alpha*a0, beta*b1+alpha*b0
+		m1 := m + 1
+		dE = m1 * (n + m1 - 1) * c01 * c4 * inv
+		dOprev = (m1 + 1 - a) * (b + m1) * c01 * c2 * inv
+		beta, alpha = 1+dE+dOprev, -dE*dO
+		a3, b3 := beta*a2+alpha*a1, beta*b2+alpha*b1
+		p := a3 * b2
+		if math.Abs(math.FMA(a2, -b3, p)) <= 1e-16*math.Abs(p) {
+			return a3 / b3
 		}
-		a0, b0, a1, b1 = a1, b1, a2, b2
-		if int(m)&15 == 0 {
-			sc := 1 / b1
-			a0, b0, a1, b1 = a0*sc, b0*sc, a1*sc, 1
-		}
+		sc := 1 / b3
+		a0, b0, a1, b1 = a2*sc, b2*sc, a3*sc, 1
 	}
 	return a1 / b1
 }
@@ -722,12 +734,14 @@ func betaFractionGuess(a, b float64, tl *betaTail) (t0 float64, reflect bool) {
 			}
 			r := math.Exp((tl.logq + lg) / s)
 			if r <= 0.25*(s+1) {
+				// one division: d = 1/(24 s1⁴ s2² s3 s4)
 				s1, s2, s3, s4 := s+1, s+2, s+3, s+4
-				s11 := s1 * s1
-				c2 := 1 / s1
-				c3 := (3*s + 5) / (2 * s11 * s2)
-				c4 := ((8*s+33)*s + 31) / (3 * s11 * s1 * s2 * s3)
-				c5 := ((((125*s+1179)*s+3971)*s+5661)*s + 2888) / (24 * s11 * s11 * s2 * s2 * s3 * s4)
+				s12, s34 := s1*s2, s3*s4
+				d := 1 / (24 * s12 * s12 * s1 * s1 * s34)
+				c2 := 24 * s12 * s12 * s1 * s34 * d // 1/s1
+				c3 := (3*s + 5) * 12 * s12 * s1 * s34 * d
+				c4 := ((8*s+33)*s + 31) * 8 * s12 * s4 * d
+				c5 := ((((125*s+1179)*s+3971)*s+5661)*s + 2888) * d
 				w := r * (1 + r*(c2+r*(c3+r*(c4+r*c5))))
 				if x := oneMinusExpNeg(w / c); x <= 0.5 {
 					return x, false
@@ -750,11 +764,12 @@ func betaFractionGuess(a, b float64, tl *betaTail) (t0 float64, reflect bool) {
 	}
 	if a > 1 && b > 1 {
 		// Carter's approximation, as in AS 109.
-		r := (z*z - 3) / 6
-		s := 1 / (2*a - 1)
-		t := 1 / (2*b - 1)
-		h := 2 / (s + t)
-		w := z*math.Sqrt(h+r)/h - (t-s)*(r+5.0/6-2/(3*h))
+		r := (z*z - 3) * (1.0 / 6)
+		ia, ib := 2*a-1, 2*b-1
+		inv := 1 / (ia * ib)
+		s, t := ib*inv, ia*inv // 1/(2a−1), 1/(2b−1)
+		ih := 0.5 * (s + t)    // 1/h
+		w := z*math.Sqrt(1/ih+r)*ih - (t-s)*(r+5.0/6-(2.0/3)*ih)
 		e := b * math.Exp(2*w)
 		if a <= e {
 			return a / (a + e), false

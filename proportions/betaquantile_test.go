@@ -240,7 +240,8 @@ func TestBetaQuantileSeriesSwitch(t *testing.T) {
 	sides := [2]int{}
 	for _, s := range shapes {
 		m := math.Min(s.a, s.b)
-		// deviates on both sides of the reach (z+1)² = 0.09·4πm, and usual ones
+		// deviates on both sides of the reach (z+1)² = betaSeriesMaxRatio2·4πm,
+		// and usual ones
 		zr := math.Sqrt(betaSeriesMaxRatio2*4*math.Pi*m) - 1
 		for _, z := range []float64{0.6745, 1.96, 3.29, 4.89, zr * 0.98, zr * 1.02} {
 			q := 0.5 * math.Erfc(z/math.Sqrt2)
