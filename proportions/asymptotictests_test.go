@@ -281,3 +281,39 @@ func TestAsymptoticTestsErrors(t *testing.T) {
 		t.Errorf("MN test: %+v, %v", r, err)
 	}
 }
+
+// At δ = 0 the score tests take the pooled z from the table's O − E
+// instead of a restricted fit; over every table up to 25 per group (and a
+// few large ones) it must equal the general restricted-MLE statistic, and
+// its square Pearson's X².
+func TestScoreTestPooledShortcut(t *testing.T) {
+	conf, _ := NewConfidence(0.95)
+	h := Hypothesis{Alternative: TwoSided, Conf: conf}
+	check := func(c Counts) {
+		for _, tc := range []struct {
+			m TestMethod
+			z float64
+		}{{FarringtonManning, FarringtonManningZ(c, 0)}, {MiettinenNurminenTest, MiettinenNurminenZ(c, 0)}} {
+			got := tc.m.Run(c, h).Statistic
+			if math.Abs(got-tc.z) > 1e-12*math.Max(1, math.Abs(tc.z)) {
+				t.Errorf("%+v %s: pooled z %v, restricted-fit z %v", c, tc.m.Key, got, tc.z)
+			}
+		}
+		z := FarringtonManning.Run(c, h).Statistic
+		if x2 := PearsonChiSquare.Run(c, h).Statistic; math.Abs(z*z-x2) > 1e-12*math.Max(1, x2) {
+			t.Errorf("%+v: z² = %v, X² = %v", c, z*z, x2)
+		}
+	}
+	for n1 := int64(1); n1 <= 25; n1++ {
+		for n2 := int64(1); n2 <= 25; n2 += 3 {
+			for x1 := int64(0); x1 <= n1; x1++ {
+				for x2 := int64(0); x2 <= n2; x2++ {
+					check(Counts{x1, n1, x2, n2})
+				}
+			}
+		}
+	}
+	for _, c := range []Counts{{600000, 1000000, 500000, 1000000}, {3, 1 << 30, 9, 1 << 31}, {1<<40 - 5, 1 << 40, 1<<40 - 9, 1 << 40}} {
+		check(c)
+	}
+}

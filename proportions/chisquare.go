@@ -63,14 +63,13 @@ func tableDeviation(c Counts) (d, recip float64) {
 // one-sided convention).
 func chiSquareResult(x2, dev float64, h Hypothesis, key, name, stat string) TestResult {
 	r := TestResult{Method: key, Name: name, Family: Difference}
-	alpha := h.Alpha()
 	if h.Alternative == TwoSided {
-		crit := sq(NormalQuantile(1 - alpha/2)) // χ²₁ quantile = z²
+		crit := sq(h.critical()) // χ²₁ quantile = z²
 		r.StatisticName, r.Statistic, r.DF, r.CriticalValue = stat, x2, 1, &crit
 		r.PValue, r.LogPValue = ChiSquare1UpperTail(x2)
 	} else {
 		z := math.Copysign(math.Sqrt(x2), dev)
-		crit := normalCritical(alpha, h.Alternative)
+		crit := h.critical()
 		r.StatisticName, r.Statistic, r.CriticalValue = "signed √"+stat, z, &crit
 		r.PValue, r.LogPValue = normalPValue(z, h.Alternative)
 	}

@@ -73,7 +73,7 @@ func ratioScoreTest(c Counts, h Hypothesis, f float64, key, name string) TestRes
 // zTestResult fills a TestResult for a z statistic with normal p-values.
 func zTestResult(z float64, h Hypothesis, fam Family, key, name string) TestResult {
 	p, logp := normalPValue(z, h.Alternative)
-	crit := normalCritical(h.Alpha(), h.Alternative)
+	crit := h.critical()
 	r := TestResult{
 		Method: key, Name: name, Family: fam, StatisticName: "z", Statistic: z,
 		PValue: p, LogPValue: logp, CriticalValue: &crit,

@@ -1,5 +1,7 @@
 package proportions
 
+import "math"
+
 // FarringtonManning is the score test of H0: π1 − π2 = δ against the chosen
 // alternative, for any δ in (−1, 1) (δ ≠ 0: non-inferiority, superiority or
 // equivalence margins):
@@ -30,7 +32,21 @@ var FarringtonManning = TestMethod{
 }
 
 func farringtonManningRun(c Counts, h Hypothesis) TestResult {
-	return zTestResult(FarringtonManningZ(c, h.Null), h, Difference, "score", "Farrington–Manning score test")
+	return zTestResult(scoreTestZ(c, h.Null, 1), h, Difference, "score", "Farrington–Manning score test")
+}
+
+// scoreTestZ is the score tests' statistic, z(δ) with variance factor k.
+// At δ = 0 the restricted MLE is the pooled rate, so z is the pooled z,
+// whose square is Pearson's X² = (O − E)²·Σ 1/E: it is computed that way
+// (tableDeviation), without a restricted fit, which also makes z² = X²
+// hold to rounding. The degenerate all-or-none table gives 0, as
+// documented on FarringtonManning.
+func scoreTestZ(c Counts, delta, k float64) float64 {
+	if delta != 0 {
+		return scoreZ(c, delta, k)
+	}
+	d, recip := tableDeviation(c)
+	return math.Copysign(math.Sqrt(d*d*recip/k), d)
 }
 
 // MiettinenNurminenTest is the score test of H0: π1 − π2 = δ with
@@ -55,7 +71,7 @@ var MiettinenNurminenTest = TestMethod{
 }
 
 func miettinenNurminenRun(c Counts, h Hypothesis) TestResult {
-	return zTestResult(MiettinenNurminenZ(c, h.Null), h, Difference, "mn-test", "Miettinen–Nurminen score test")
+	return zTestResult(scoreTestZ(c, h.Null, mnVarianceFactor(c)), h, Difference, "mn-test", "Miettinen–Nurminen score test")
 }
 
 // FarringtonManningPair returns the Farrington–Manning score test and Mee's

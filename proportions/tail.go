@@ -68,3 +68,13 @@ func normalCritical(alpha float64, a Alternative) float64 {
 	}
 	return NormalQuantile(1 - alpha/2)
 }
+
+// critical is normalCritical for the hypothesis's level and alternative;
+// the two-sided value is the one its Confidence already holds, which saves
+// a quantile per test (an analysis runs half a dozen tests).
+func (h Hypothesis) critical() float64 {
+	if h.Alternative == TwoSided && h.Conf.Z > 0 {
+		return h.Conf.Z
+	}
+	return normalCritical(h.Alpha(), h.Alternative)
+}
