@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-
-	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // Unconditional exact tests (Barnard, Boschloo): the p-value is the largest
@@ -248,14 +246,8 @@ func nuisanceRange(c Counts, delta, gamma float64) (a, b float64) {
 // clopperPearson returns the 1 − γ Clopper–Pearson interval for x events
 // of n: the γ/2 quantile of Beta(x, n−x+1) and the 1−γ/2 quantile of
 // Beta(x+1, n−x) (Clopper CJ, Pearson ES (1934), Biometrika 26:404–413),
-// with gonum's beta distribution.
+// from the same beta quantile as ClopperPearson, which stays accurate at
+// the small γ the Berger–Boos restriction uses.
 func clopperPearson(x, n int64, gamma float64) (lo, hi float64) {
-	lo, hi = 0, 1
-	if x > 0 {
-		lo = distuv.Beta{Alpha: float64(x), Beta: float64(n - x + 1)}.Quantile(gamma / 2)
-	}
-	if x < n {
-		hi = distuv.Beta{Alpha: float64(x + 1), Beta: float64(n - x)}.Quantile(1 - gamma/2)
-	}
-	return lo, hi
+	return clopperPearsonLimits(x, n, Confidence{Level: 1 - gamma})
 }
