@@ -41,96 +41,237 @@ func MiettinenNurminenZ(c Counts, delta float64) float64 {
 // k. The upper limit is minus the lower limit of the swapped groups, which
 // makes swapping the groups negate the interval exactly.
 func scoreLimits(c Counts, z, k float64) (lower, upper float64) {
-	return scoreLower(c, z*z*k, z*math.Sqrt(k)), -scoreLower(c.Swapped(), z*z*k, z*math.Sqrt(k))
+	z2k, zk := z*z*k, z*math.Sqrt(k)
+	return scoreLower(c, z2k, zk), -scoreLower(c.Swapped(), z2k, zk)
 }
 
-// scoreLower solves z(δ) = z for δ below p1 − p2, written as the root of
+// scoreLower solves z(δ) = z for δ below p1 − p2 = d without a restricted
+// fit at trial values of δ: it moves along the curve of restricted fits
+// instead. Under π1 − π2 = δ the fit satisfies
 //
-//	G(δ) = (p1 − p2 − δ)² − z²k·V(δ),
+//	ℓ1′(π̃1) = −ℓ2′(π̃2) = λ,  ℓi′(p) = (xi − ni·p)/(p(1 − p)),
 //
-// which is positive below the limit and ≤ 0 between it and p1 − p2 (z(δ)
-// decreases in δ). G is smooth where √V is not (V → 0 as δ → −1 or, when
-// both groups are all-or-none, as δ → p1 − p2), so Newton steps work well
-// on it. The search starts from Newcombe's hybrid limit with z√k, which is
-// usually within 10⁻² of the root, keeps a bracket [a, b] with G(a) > 0 ≥
-// G(b), and bisects whenever a Newton step would leave the bracket. Over
-// tables from 1 to 2^40 trials per group it needs 2.3 evaluations of G per
-// limit on average and at most 5.
+// and δ < d corresponds to λ > 0. For each λ the fitted rates are roots of
+// quadratics, λp² − (λ + n1)p + x1 = 0 and λp² + (n2 − λ)p − x2 = 0:
+//
+//	π̃1 = 2x1/(λ + n1 + s1),  s1 = √((λ + y1 − x1)² + 4x1y1),
+//	π̃2 = 1 − 2y2/(λ + n2 + s2),  s2 = √((λ + x2 − y2)² + 4x2y2),
+//
+// each with its complement also formed without cancellation (see
+// scoreCurveTerm), so rare events keep full relative precision. The
+// likelihood equations give p1 − π̃1 = λπ̃1(1−π̃1)/n1 and π̃2 − p2 =
+// λπ̃2(1−π̃2)/n2, so d − δ(λ) = λ·V(λ) and z(δ) = λ·√V(λ): the limit is
+// where
+//
+//	H(λ) = λ²·V(λ) = z²k,
+//
+// and then δ = d − z²k/λ, whose distance from d has the relative
+// precision of λ. H rises from 0 at λ = 0 to ∞ (δ falls from d to −1) and
+// is smooth on the scale of λ, so Halley steps (see bracketedHalley) on
+// F(λ) = H(λ) − z²k, kept in a bracket (bisecting when a step would leave
+// it), converge fast from λ = z²k/(d − h), h Newcombe's hybrid lower limit
+// with z√k, usually within 10⁻² of the root. The bracket starts as (0, ∞),
+// F(0) = −z²k; until a point with F > 0 is found, a step grows λ at most
+// 16-fold.
+//
+// A group with all events (x1 = n1) or none (x2 = 0) stays on its
+// boundary (π̃1 = 1, π̃2 = 0) until λ reaches its ni, where H has a kink; a
+// step across the kink is replaced by an evaluation at the kink, so each
+// piece is solved where H is smooth. When both groups are all-or-none, H
+// is piecewise linear, [x1 = n1]·(λ − n1)⁺ + [x2 = 0]·(λ − n2)⁺, and the
+// limit is in closed form (for x1 = x2 = 0 it is −z²k/(n2 + z²k)). At
+// levels from 0.8 to 0.999 the search needs 1.4 evaluations of F per limit
+// on average over random tables from 1 to 2^45 trials per group, 2.6 over
+// all tables up to 30 trials per group, and at most 8 per interval.
 func scoreLower(c Counts, z2k, zk float64) float64 {
 	d := c.P1() - c.P2()
-	if d <= -1 {
+	switch {
+	case d <= -1:
 		return -1 // x1 = 0 and x2 = n2: no smaller difference is possible.
+	case !(z2k > 0):
+		return d // z = 0 (or z² below the smallest float)
+	case math.IsInf(z2k, 1):
+		return -1 // z = ∞: every δ is inside
 	}
-	a, b := -1.0, d // G(−1) = (d + 1)² > 0, G(d) = −z²k·V(d) ≤ 0.
-	x := hybridLower(c, zk)
-	if !(x > a && x < b) {
-		x = (a + b) / 2
+	x1, n1, x2, n2 := float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2)
+	y1, y2 := n1-x1, n2-x2
+	inn := 1 / (n1 * n2)
+	in1, in2 := n2*inn, n1*inn
+	top1, bottom2 := c.X1 == c.N1, c.X2 == 0
+	if (c.X1 == 0 || top1) && (bottom2 || c.X2 == c.N2) {
+		return d - z2k/degenerateRoot(top1, bottom2, n1, n2, z2k)
 	}
-	// The limit's distance from p1 − p2 can be as small as 1e−13 (one
-	// event in 2^45 trials), so the tolerance is relative to it, but no
-	// finer than a few units in the last place of x (coarser near ±1).
-	tol := math.Max(scoreTolerance*(d-x), 4e-16*math.Abs(x))
-	// Each fit starts from the previous one extrapolated along its slope.
-	prevX, prev := math.NaN(), restrictedFit{}
+	kink := math.Inf(1) // at most one: x1 = n1 and x2 = 0 is handled above
+	switch {
+	case top1:
+		kink = n1
+	case bottom2:
+		kink = n2
+	}
+	a, b := 0.0, math.Inf(1) // F(0) = −z²k
+	lam := z2k / (d - hybridLower(c, zk))
+	if !(lam > a && lam < b) {
+		// The hybrid limit is at d (tiny z) or rounded outside: the Wald
+		// value λ = z√k/√V(d), exact when V does not change along the curve.
+		lam = zk / math.Sqrt(x1*y1/(n1*n1*n1)+x2*y2/(n2*n2*n2))
+		if !(lam > a && lam < b) {
+			lam = 2 * a
+		}
+	}
 	for range maxScoreSteps {
-		start := math.NaN()
-		if !math.IsNaN(prevX) {
-			start = prev.p1 + prev.slope*(x-prevX)
+		f, d1, d2 := scoreCurve(x1, y1, n1, in1, x2, y2, n2, in2, lam, z2k, false)
+		if lam == kink && f < 0 {
+			// The root is on the piece above the kink: its derivatives.
+			f, d1, d2 = scoreCurve(x1, y1, n1, in1, x2, y2, n2, in2, lam, z2k, true)
 		}
-		f := fitRestrictedFrom(c, x, start)
-		g, dg := scoreEquation(c, f, d, x, z2k)
-		prevX, prev = x, f
 		switch {
-		case g > 0:
-			a = x
-		case g < 0:
-			b = x
+		case f < 0:
+			a = lam
+		case f > 0:
+			b = lam
 		default:
-			return x
+			return scoreLimitAt(d, z2k, lam)
 		}
-		step := g / dg
-		if math.Abs(step) <= tol {
-			// Converged. Checked before the bracket test, which a step
-			// below an ulp of x fails.
-			return x - step
+		id1 := 1 / d1
+		s := f * id1
+		if cr := 0.5 * s * d2 * id1; math.Abs(cr) < 0.5 {
+			s /= 1 - cr
 		}
-		next := x - step
-		if !(next > a && next < b) { // also for NaN and ±Inf
-			next = a + (b-a)/2
+		next := lam - s
+		if math.Abs(s) <= scoreTolerance*lam {
+			// Converged; the error left is of the order of s³.
+			return scoreLimitAt(d, z2k, clampTo(next, a, b))
 		}
-		if b-a <= tol || next == a || next == b {
-			return next
+		switch {
+		case !(next > a && next < b): // also for NaN
+			if math.IsInf(b, 1) {
+				next = 4 * lam
+			} else {
+				next = a + (b-a)/2
+			}
+		case math.IsInf(b, 1) && next > 16*lam:
+			next = 16 * lam
 		}
-		x = next
+		if kink > a && kink < b && (lam < kink) != (next < kink) {
+			next = kink
+		}
+		if next == a || next == b {
+			return scoreLimitAt(d, z2k, next) // the bracket is down to adjacent floats
+		}
+		lam = next
+	}
+	return scoreLimitAt(d, z2k, lam)
+}
+
+// scoreLimitAt is the limit d − z²k/λ for the root λ, kept from rounding
+// below −1.
+func scoreLimitAt(d, z2k, lam float64) float64 {
+	if l := d - z2k/lam; l > -1 {
+		return l
+	}
+	return -1
+}
+
+// clampTo returns x moved into [a, b] (math.Max and math.Min are calls).
+func clampTo(x, a, b float64) float64 {
+	if x < a {
+		return a
+	}
+	if x > b {
+		return b
 	}
 	return x
 }
 
 const (
-	// scoreTolerance stops the search once a Newton step is this small
-	// relative to the limit's distance from p1 − p2; convergence being
-	// quadratic, the relative error left is of order its square.
-	scoreTolerance = 1e-8
-	// maxScoreSteps bounds the search; bisection alone halves [−1, 1] to
-	// below scoreTolerance in 41 steps.
-	maxScoreSteps = 100
+	// scoreTolerance stops the search once a Halley step in λ is this
+	// small relative to λ (and so to the limit's distance from p1 − p2);
+	// convergence being cubic, the relative error left is of order its
+	// cube.
+	scoreTolerance = 1e-6
+	// maxScoreSteps bounds the search.
+	maxScoreSteps = 200
 )
+
+// scoreCurve returns F(λ) = λ²V(λ) − z²k and its first two derivatives in
+// λ (see scoreLower), for the counts xi, yi = ni − xi (ini = 1/ni); at a
+// kink, above says which side's derivatives.
+func scoreCurve(x1, y1, n1, in1, x2, y2, n2, in2, lam, z2k float64, above bool) (f, d1, d2 float64) {
+	a1, a1d, a1dd := scoreCurveTerm(x1, y1, n1, lam, above)
+	// Group 2 is group 1 with events and non-events exchanged: its
+	// complement solves the first quadratic with y2 events.
+	a2, a2d, a2dd := scoreCurveTerm(y2, x2, n2, lam, above)
+	v, vd, vdd := a1*in1+a2*in2, a1d*in1+a2d*in2, a1dd*in1+a2dd*in2
+	return lam*lam*v - z2k, lam * (2*v + lam*vd), 2*v + lam*(4*vd+lam*vdd)
+}
+
+// scoreCurveTerm returns a = p(1 − p) and its first two derivatives in λ
+// for the root p in [0, 1] of λp² − (λ + n)p + x = 0 (y = n − x, λ > 0),
+// the fit of a group whose log-likelihood has slope λ. With
+// t = λ + y − x and s = √(t² + 4xy) = λ + n − 2λp,
+//
+//	p = 2x/(λ + n + s),  1 − p = 2y/(n − λ + s) (λ ≤ n) or (λ − n + s)/(2λ),
+//
+// dp/dλ = −a/s, so a′ = −(1 − 2p)·a/s and a″ = a·(1 − 6a + (1 − 2p)·t/s)/s².
+// With no events p = 0; with no non-events p = 1 up to λ = n and n/λ after,
+// where a = n(λ − n)/λ² has a′ = 1/n and a″ = −4/n² at λ = n (returned at
+// λ = n when above is set).
+func scoreCurveTerm(x, y, n, lam float64, above bool) (a, d1, d2 float64) {
+	if x == 0 {
+		return 0, 0, 0
+	}
+	t := lam + y - x
+	s := math.Sqrt(t*t + 4*x*y)
+	// p = 2x/pd and q = qn/qd, with one division for both.
+	pd, qn, qd := lam+n+s, 2*y, n-lam+s
+	switch {
+	case lam > n:
+		qn, qd = lam-n+s, 2*lam
+	case y > 0:
+	case above && lam == n:
+		return 0, 1 / n, -4 / (n * n)
+	default:
+		return 0, 0, 0
+	}
+	inv := 1 / (pd * qd)
+	p, q := 2*x*qd*inv, qn*pd*inv
+	is := 1 / s
+	a = p * q
+	r := (q - p) * is
+	return a, -r * a, a * (1 - 6*a + r*t) * is * is
+}
+
+// degenerateRoot returns the root of H(λ) = z²k when both groups are
+// all-or-none (see scoreLower): H = [x1 = n1]·(λ − n1)⁺ + [x2 = 0]·(λ − n2)⁺.
+func degenerateRoot(top1, bottom2 bool, n1, n2, z2k float64) float64 {
+	switch {
+	case top1 && bottom2:
+		lo, hi := math.Min(n1, n2), math.Max(n1, n2)
+		if z2k <= hi-lo {
+			return lo + z2k
+		}
+		return (n1 + n2 + z2k) / 2
+	case top1:
+		return n1 + z2k
+	default:
+		return n2 + z2k
+	}
+}
 
 // hybridLower is Newcombe's hybrid lower limit for the quantile z, the
 // starting point of the score search.
 func hybridLower(c Counts, z float64) float64 {
-	l1, _ := wilsonAt(c.X1, c.N1, z)
-	_, u2 := wilsonAt(c.X2, c.N2, z)
+	x1, n1, x2, n2 := float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2)
 	p1, p2 := c.P1(), c.P2()
+	// Wilson's lower limit for the first group and upper for the second
+	// (see wilsonAt), the only ones used.
+	z2 := z * z
+	l1, u2 := 0.0, 1.0
+	if c.X1 > 0 {
+		l1 = (x1 + z2/2 - z*math.Sqrt(x1*(n1-x1)/n1+z2/4)) / (n1 + z2)
+	}
+	if c.X2 < c.N2 {
+		u2 = (x2 + z2/2 + z*math.Sqrt(x2*(n2-x2)/n2+z2/4)) / (n2 + z2)
+	}
 	return p1 - p2 - math.Sqrt(sq(p1-l1)+sq(u2-p2))
-}
-
-// scoreEquation returns G(δ) and G′(δ) = −2(d − δ) − z²k·V′(δ) from the
-// restricted MLE f at δ, with V′ from its slope.
-func scoreEquation(c Counts, f restrictedFit, d, delta, z2k float64) (g, dg float64) {
-	v := f.variance(c)
-	// d/dδ of π(1−π) is (1 − 2π)·dπ/dδ; dπ̃2/dδ = dπ̃1/dδ − 1.
-	dv := (f.q1-f.p1)*f.slope/float64(c.N1) + (f.q2-f.p2)*(f.slope-1)/float64(c.N2)
-	r := d - delta
-	return r*r - z2k*v, -2*r - z2k*dv
 }
