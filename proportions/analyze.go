@@ -134,13 +134,8 @@ func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, lists 
 	out := make([]Interval, 0, n)
 	for _, l := range lists {
 		for _, m := range l {
-			switch run, tooLarge := f.decide(m.Exact, m.SizeLimit); {
-			case run:
+			if a.admit(f, m.Key, m.Name, m.Exact, m.SizeLimit) {
 				out = append(out, m.IntervalAt(c, conf))
-			case tooLarge:
-				a.skip(m.Name, m.SizeLimit, f.total)
-			default:
-				a.Omitted = append(a.Omitted, m.Key)
 			}
 		}
 	}
@@ -154,17 +149,26 @@ func (a *Analysis) testsOf(f methodFilter, c Counts, h Hypothesis, s Settings) [
 			if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.ContinuityCorrection) {
 				continue
 			}
-			switch run, tooLarge := f.decide(m.Exact, m.SizeLimit); {
-			case run:
+			if a.admit(f, m.Key, m.Name, m.Exact, m.SizeLimit) {
 				out = append(out, m.Run(c, h))
-			case tooLarge:
-				a.skip(m.Name, m.SizeLimit, f.total)
-			default:
-				a.Omitted = append(a.Omitted, m.Key)
 			}
 		}
 	}
 	return out
+}
+
+// admit reports whether the analysis runs a method, and otherwise records
+// why not: in a warning when the data exceed its SizeLimit, in Omitted
+// when the scope leaves it out.
+func (a *Analysis) admit(f methodFilter, key, name string, exact bool, sizeLimit int64) bool {
+	run, tooLarge := f.decide(exact, sizeLimit)
+	switch {
+	case tooLarge:
+		a.skip(name, sizeLimit, f.total)
+	case !run:
+		a.Omitted = append(a.Omitted, key)
+	}
+	return run
 }
 
 func (a *Analysis) skip(name string, limit, total int64) {

@@ -22,22 +22,14 @@ import "math"
 
 // stirlerr returns log n! − (n+½)·log n + n − ½·log 2π for n ≥ 1.
 func stirlerr(n float64) float64 {
-	const (
-		s0 = 1.0 / 12
-		s1 = 1.0 / 360
-		s2 = 1.0 / 1260
-		s3 = 1.0 / 1680
-		s4 = 1.0 / 1188
-	)
 	if n <= 15 {
 		// Small n: direct evaluation; every term is below 30, so the
 		// rounding error stays near 10⁻¹⁴ absolute.
 		lg, _ := math.Lgamma(n + 1)
 		return lg - (n+0.5)*math.Log(n) + n - 0.5*math.Log(2*math.Pi)
 	}
-	nn := n * n
 	// Asymptotic Stirling series (the next term is below 10⁻¹⁷ here).
-	return (s0 - (s1-(s2-(s3-s4/nn)/nn)/nn)/nn) / n
+	return stirlerrSeries(n)
 }
 
 // bd0 returns x·log(x/m) + m − x ≥ 0, the deviance term of the saddle-point
