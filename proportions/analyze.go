@@ -71,7 +71,7 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	a.Intervals = a.intervalsOf(run, counts, ivConf, differenceMethods, slowDifferenceMethods)
 	a.Ratios = a.intervalsOf(run, counts, ivConf, ratioMethods)
 	a.OddsRatios = a.intervalsOf(run, counts, ivConf, oddsRatioMethods)
-	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf}
+	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf, shared: &sharedWork{}}
 	a.Tests = a.testsOf(run, counts, h, s)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
 		return Analysis{}, err

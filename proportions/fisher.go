@@ -68,7 +68,8 @@ var FisherMidP = TestMethod{
 }
 
 func fisherRun(c Counts, h Hypothesis, key, name string, mid bool) TestResult {
-	logp, px := fisherLogPs(c, h.Alternative, mid)
+	logs, px := h.shared.fisher(c, h.Alternative)
+	logp := logs.of(mid)
 	r := TestResult{
 		Method: key, Name: name, Family: Difference,
 		StatisticName: "P(observed table)",
@@ -79,14 +80,31 @@ func fisherRun(c Counts, h Hypothesis, key, name string, mid bool) TestResult {
 	return r
 }
 
-// fisherLogP returns the log of Fisher's p-value (or mid-p) for the counts.
-func fisherLogP(c Counts, a Alternative, mid bool) float64 {
-	logp, _ := fisherLogPs(c, a, mid)
-	return logp
+// fisherPair holds a log p-value of Fisher's test (index 0) and of its
+// mid-p (index 1). Both come from the same sums, which differ only in the
+// share w of the tables as extreme as the observed one that is left out
+// of the p-value: w = 0 for Fisher's test, ½ for the mid-p.
+type fisherPair [2]float64
+
+// fisherShares are the shares w of the two members of a fisherPair.
+var fisherShares = [2]float64{0, 0.5}
+
+// of returns the mid-p's log when mid is set, else Fisher's.
+func (l fisherPair) of(mid bool) float64 {
+	if mid {
+		return l[1]
+	}
+	return l[0]
 }
 
-// fisherLogPs returns the log of Fisher's p-value (or mid-p) and the
-// probability P(x) of the observed table.
+// fisherLogP returns the log of Fisher's p-value (or mid-p) for the counts.
+func fisherLogP(c Counts, a Alternative, mid bool) float64 {
+	logs, _ := fisherLogPs(c, a)
+	return logs.of(mid)
+}
+
+// fisherLogPs returns the logs of Fisher's p-value and of the mid-p, and
+// the probability P(x) of the observed table.
 //
 // The table is first oriented so that the pmf does not increase from x
 // upward: otherwise X2 = m − X1, hypergeometric with the groups swapped,
@@ -102,11 +120,11 @@ func fisherLogP(c Counts, a Alternative, mid bool) float64 {
 // H = Σ_{m−x<k<x} ρ_k. The two-sided p-value is logTwoSided. log P(x) is
 // the only log probability evaluated except when the far side of the
 // two-sided set is found by Newton steps (lowerEnd).
-func fisherLogPs(c Counts, a Alternative, mid bool) (logp, px float64) {
+func fisherLogPs(c Counts, a Alternative) (logs fisherPair, px float64) {
 	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
 	lo, hi := hypergeomSupport(n1, n2, m)
 	if lo == hi {
-		return 0, 1 // a single possible table: no evidence either way
+		return fisherPair{}, 1 // a single possible table: no evidence either way
 	}
 	lpx := logHypergeomPMF(x, n1, n2, m)
 	if x < hi && hypergeomRatio(x, n1, n2, m) > 1 {
@@ -119,20 +137,16 @@ func fisherLogPs(c Counts, a Alternative, mid bool) (logp, px float64) {
 		}
 		lo, hi = hypergeomSupport(n1, n2, m)
 	}
-	w := 0.0 // share of the tables as extreme as x left out of the p-value
-	if mid {
-		w = 0.5
-	}
 	f := fisherTables{n1: n1, n2: n2, m: m, x: x, lo: lo, hi: hi, lpx: lpx, px: math.Exp(lpx)}
 	switch a {
 	case Greater:
-		logp = f.logUpper(w)
+		logs = f.logUpper()
 	case Less:
-		logp = f.logLower(w)
+		logs = f.logLower()
 	default:
-		logp = f.logTwoSided(w)
+		logs = f.logTwoSided()
 	}
-	return min(logp, 0), f.px
+	return fisherPair{min(logs[0], 0), min(logs[1], 0)}, f.px
 }
 
 // fisherComplementFloor is the smallest remainder 1 − c for which a
@@ -192,30 +206,52 @@ func (f *fisherTables) centralMirrored(from int64, t float64) float64 {
 	return s
 }
 
-// logUpper returns log(P(X1 ≥ x) − w·P(x)).
-func (f *fisherTables) logUpper(w float64) float64 {
+// logUpper returns log(P(X1 ≥ x) − w·P(x)) for both shares w.
+func (f *fisherTables) logUpper() (logs fisherPair) {
+	done := [2]bool{}
 	if dist, sd := f.spread(); f.mirrored(dist) && dist <= fisherCentralReach*sd {
-		if dist == 0 {
-			return math.Log1p(f.px*(1-2*w)) - math.Ln2 // x = m/2: P(X1 ≥ x) = (1 + P(x))/2
+		if dist == 0 { // x = m/2: P(X1 ≥ x) = (1 + P(x))/2
+			return fisherPair{math.Log1p(f.px) - math.Ln2, -math.Ln2}
 		}
 		// P(X1 ≥ x) − w·P(x) = (1 − c)/2.
-		if c := f.px * (f.centralMirrored(f.x, 1) + 2*w); 1-c >= fisherComplementFloor {
-			return math.Log1p(-c) - math.Ln2
+		h := f.centralMirrored(f.x, 1)
+		for i, w := range fisherShares {
+			if c := f.px * (h + 2*w); 1-c >= fisherComplementFloor {
+				logs[i], done[i] = math.Log1p(-c)-math.Ln2, true
+			}
+		}
+		if done[0] && done[1] {
+			return logs
 		}
 	}
-	return f.lpx + math.Log(hypergeomSumUp(f.x, f.n1, f.n2, f.m)-w)
+	t := hypergeomSumUp(f.x, f.n1, f.n2, f.m)
+	for i, w := range fisherShares {
+		if !done[i] {
+			logs[i] = f.lpx + math.Log(t-w)
+		}
+	}
+	return logs
 }
 
-// logLower returns log(P(X1 ≤ x) − w·P(x)), about log ½ or more here.
-func (f *fisherTables) logLower(w float64) float64 {
+// logLower returns log(P(X1 ≤ x) − w·P(x)) for both shares w, about log ½
+// or more here.
+func (f *fisherTables) logLower() (logs fisherPair) {
 	if dist, sd := f.spread(); f.mirrored(dist) && dist <= 5*sd {
 		if dist == 0 {
-			return math.Log1p(f.px*(1-2*w)) - math.Ln2
+			return fisherPair{math.Log1p(f.px) - math.Ln2, -math.Ln2}
 		}
 		// P(X1 ≤ x) − w·P(x) = 1 − P(X1 ≥ x) + (1−w)·P(x) = (1 + P(x)·(H + 2 − 2w))/2.
-		return math.Log1p(f.px*(f.centralMirrored(f.x, 1)+2-2*w)) - math.Ln2
+		h := f.centralMirrored(f.x, 1)
+		for i, w := range fisherShares {
+			logs[i] = math.Log1p(f.px*(h+2-2*w)) - math.Ln2
+		}
+		return logs
 	}
-	return math.Log1p(-f.px * (hypergeomSumUp(f.x, f.n1, f.n2, f.m) - 1 + w))
+	t := hypergeomSumUp(f.x, f.n1, f.n2, f.m)
+	for i, w := range fisherShares {
+		logs[i] = math.Log1p(-f.px * (t - 1 + w))
+	}
+	return logs
 }
 
 // The two-sided set. With tol = FisherTieTolerance, the pmf being
@@ -237,8 +273,8 @@ func (f *fisherTables) logLower(w float64) float64 {
 // central tables were summed and the remainder is at least
 // fisherComplementFloor, p is one minus them; else the tails are summed.
 
-// logTwoSided returns the log two-sided p-value (w = ½: mid-p).
-func (f *fisherTables) logTwoSided(w float64) float64 {
+// logTwoSided returns the log two-sided p-values of both shares w.
+func (f *fisherTables) logTwoSided() fisherPair {
 	const tolHi, tolLo = 1 + FisherTieTolerance, 1 - FisherTieTolerance
 	n1, n2, m, lo, hi := f.n1, f.n2, f.m, f.lo, f.hi
 	// Ties from x up, and b′ with its ρ (b′ = hi+1: none).
@@ -257,7 +293,7 @@ func (f *fisherTables) logTwoSided(w float64) float64 {
 	bin, rbin := f.x, 1.0
 	for {
 		if bin == lo {
-			return f.logAll(w, ties, bin, rbin)
+			return f.logAll(ties, bin, rbin)
 		}
 		r := hypergeomRatio(bin-1, n1, n2, m) // P(bin)/P(bin−1)
 		next := rbin / r
@@ -265,7 +301,7 @@ func (f *fisherTables) logTwoSided(w float64) float64 {
 			break
 		}
 		if r > 1 {
-			return f.logAll(w, ties, bin, rbin)
+			return f.logAll(ties, bin, rbin)
 		}
 		ties += next
 		bin, rbin = bin-1, next
@@ -282,10 +318,10 @@ func (f *fisherTables) logTwoSided(w float64) float64 {
 		if dist <= fisherCentralReach*sd {
 			c := f.centralMirrored(bin, rbin)
 			if 1-f.px*(c+ties) >= fisherComplementFloor {
-				return math.Log1p(-f.px * (c + w*ties))
+				return f.centralPair(c, ties)
 			}
 		}
-		return f.lpx + math.Log(2*upper()+(1-w)*ties)
+		return f.tailPair(2*upper(), ties)
 	}
 	if dist <= fisherCentralReach*sd || dist <= 128 {
 		a, b, c, d := f.ratioDown(bin)
@@ -294,23 +330,38 @@ func (f *fisherTables) logTwoSided(w float64) float64 {
 			aex, rex, lties := f.lowerTies(bin-j, ra)
 			ties += lties
 			if 1-f.px*(central+ties) >= fisherComplementFloor {
-				return math.Log1p(-f.px * (central + w*ties))
+				return f.centralPair(central, ties)
 			}
-			return f.lpx + math.Log(upper()+f.lowerTail(aex, rex)+(1-w)*ties)
+			return f.tailPair(upper()+f.lowerTail(aex, rex), ties)
 		}
 	}
 	aex, rex, lties := f.lowerTies(f.lowerEnd(bin))
-	return f.lpx + math.Log(upper()+f.lowerTail(aex, rex)+(1-w)*(ties+lties))
+	return f.tailPair(upper()+f.lowerTail(aex, rex), ties+lties)
+}
+
+// centralPair is the two-sided pair from the central tables' Σρ and the
+// ties' Σρ: p = 1 − P(x)·(central + w·ties).
+func (f *fisherTables) centralPair(central, ties float64) (logs fisherPair) {
+	for i, w := range fisherShares {
+		logs[i] = math.Log1p(-f.px * (central + w*ties))
+	}
+	return logs
+}
+
+// tailPair is the two-sided pair from the tails' Σρ and the ties' Σρ:
+// p = P(x)·(tail + (1−w)·ties).
+func (f *fisherTables) tailPair(tail, ties float64) (logs fisherPair) {
+	for i, w := range fisherShares {
+		logs[i] = f.lpx + math.Log(tail+(1-w)*ties)
+	}
+	return logs
 }
 
 // logAll is the two-sided result when no table is more probable than x
 // beyond the tolerance: Fisher's p is 1, and the mid-p is 1 − ½·P(band),
 // the band being the tables with ρ ≥ 1 − tol around the mode. ties holds
 // the band from above x down to k (where ρ is rho); the rest lies below k.
-func (f *fisherTables) logAll(w, ties float64, k int64, rho float64) float64 {
-	if w == 0 {
-		return 0
-	}
+func (f *fisherTables) logAll(ties float64, k int64, rho float64) fisherPair {
 	for ; k > f.lo; k-- {
 		rho /= hypergeomRatio(k-1, f.n1, f.n2, f.m)
 		if rho < 1-FisherTieTolerance {
@@ -318,7 +369,7 @@ func (f *fisherTables) logAll(w, ties float64, k int64, rho float64) float64 {
 		}
 		ties += rho
 	}
-	return math.Log1p(-w * f.px * ties)
+	return fisherPair{0, math.Log1p(-fisherShares[1] * f.px * ties)}
 }
 
 // lowerTies takes the inner end a of the lower run (a < lo: none) and its

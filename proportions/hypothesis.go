@@ -62,6 +62,9 @@ type Hypothesis struct {
 	Null        float64     `json:"null"`
 	Alternative Alternative `json:"alternative"`
 	Conf        Confidence  `json:"confidence"`
+	// shared, set by Analyze, keeps the work that several tests of one
+	// analysis have in common (see sharedWork); nil elsewhere.
+	shared *sharedWork
 }
 
 // Alpha returns the significance level 1 − Conf.Level.
