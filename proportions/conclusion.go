@@ -2,6 +2,7 @@ package proportions
 
 import (
 	"strconv"
+	"strings"
 )
 
 // conclusion reads the headline test and interval in plain language. A
@@ -16,7 +17,8 @@ func conclusion(a Analysis) string {
 	first, second := c.First.Label, c.Second.Label
 	p := FormatP(a.Test.PValue, a.Test.LogPValue)
 	alpha := levelPercent(1 - a.Level)
-	w := prose(make([]byte, 0, 512))
+	var w prose
+	w.Grow(512)
 	w.add(first, ": ")
 	w.int(c.First.Events)
 	w.add(" of ")
@@ -44,7 +46,7 @@ func conclusion(a Analysis) string {
 	default:
 		w.oneSidedVerdict(a, alpha, p, "less than", "upper confidence bound", a.Interval.Upper)
 	}
-	return string(w)
+	return w.String()
 }
 
 func (w *prose) twoSidedVerdict(a Analysis, alpha, p string) {
@@ -139,24 +141,28 @@ func (w *prose) marginReading(a Analysis, shown bool) {
 	}
 }
 
-// prose is a sentence under construction.
-type prose []byte
+// prose is a sentence under construction. A strings.Builder hands over its
+// text without copying it; numbers are formatted in a small scratch buffer.
+type prose struct {
+	strings.Builder
+	scratch [32]byte
+}
 
 func (w *prose) add(parts ...string) {
 	for _, s := range parts {
-		*w = append(*w, s...)
+		w.WriteString(s)
 	}
 }
 
-func (w *prose) int(v int64) { *w = strconv.AppendInt(*w, v, 10) }
+func (w *prose) int(v int64) { w.Write(strconv.AppendInt(w.scratch[:0], v, 10)) }
 
 // points appends a proportion as percentage points with one decimal.
-func (w *prose) points(v float64) { *w = strconv.AppendFloat(*w, 100*v, 'f', 1, 64) }
+func (w *prose) points(v float64) { w.Write(appendFixed1(w.scratch[:0], 100*v)) }
 
 // percent appends a proportion as a percentage with one decimal.
 func (w *prose) percent(v float64) {
 	w.points(v)
-	*w = append(*w, '%')
+	w.WriteByte('%')
 }
 
 func abs(v float64) float64 {
@@ -167,11 +173,13 @@ func abs(v float64) float64 {
 }
 
 func percent(v float64) string {
-	return strconv.FormatFloat(100*v, 'f', 1, 64) + "%"
+	var buf [32]byte
+	return string(append(appendFixed1(buf[:0], 100*v), '%'))
 }
 
 // levelPercent prints a level or α as a percentage with up to 4 significant
 // digits ("95%", "2.5%").
 func levelPercent(v float64) string {
-	return strconv.FormatFloat(100*v, 'g', 4, 64) + "%"
+	var buf [32]byte
+	return string(append(appendSignificant4(buf[:0], 100*v), '%'))
 }

@@ -194,7 +194,8 @@ func FormatP(p, logp float64) string {
 	case p < 1e-4:
 		return strconv.FormatFloat(p, 'e', 3, 64)
 	}
-	return strconv.FormatFloat(p, 'g', 4, 64)
+	var buf [24]byte
+	return string(appendSignificant4(buf[:0], p))
 }
 
 // decide fills the decision fields of a result from its p-value.
