@@ -2,7 +2,7 @@
 SHELL := /bin/bash
 GO ?= go
 
-.PHONY: help notebook reports setup test go-test notebook-test bench bench-coverage bench-charts bench-exact
+.PHONY: help notebook reports setup test go-test notebook-test bench bench-analysis bench-coverage bench-charts bench-exact
 help:
 	@grep -E '^[a-z-]+:.*## ' $(MAKEFILE_LIST) | sed 's/:.*## /\t/'
 
@@ -31,6 +31,9 @@ notebook-test: ## execute every notebook and check it in headless Chromium (scre
 
 bench: ## benchmarks of the numerical core
 	$(GO) test -run '^$$' -bench . -benchmem ./proportions/...
+
+bench-analysis: ## the default analysis and one score interval beside their yardstick, in alternating rounds (min, median, ratio)
+	scripts/bench-analysis.sh
 
 bench-coverage: ## exact coverage engine side by side with a NumPy enumeration (installs python3-numpy)
 	scripts/bench-coverage.sh

@@ -13,15 +13,7 @@ import (
 // events (1% against 2%) and on a table near the null (50% against 51%).
 func BenchmarkAnalyze(b *testing.B) {
 	for _, n := range []int64{50, 1000, 1_000_000} {
-		tables := []struct {
-			name string
-			c    Counts
-		}{
-			{"60-50", Counts{X1: n * 3 / 5, N1: n, X2: n / 2, N2: n}},
-			{"rare", Counts{X1: max(1, n/100), N1: n, X2: max(2, n/50), N2: n}},
-			{"near", Counts{X1: n / 2, N1: n, X2: n * 51 / 100, N2: n}},
-		}
-		for _, t := range tables {
+		for _, t := range analysisBenchTables(n) {
 			c, err := NewComparison(t.c.X1, t.c.N1, t.c.X2, t.c.N2, Labels{})
 			if err != nil {
 				b.Fatal(err)
@@ -43,4 +35,63 @@ func BenchmarkAnalyze(b *testing.B) {
 			}
 		}
 	}
+}
+
+// analysisBenchTables are the tables of BenchmarkAnalyze at n per group.
+func analysisBenchTables(n int64) []struct {
+	name string
+	c    Counts
+} {
+	return []struct {
+		name string
+		c    Counts
+	}{
+		{"60-50", Counts{X1: n * 3 / 5, N1: n, X2: n / 2, N2: n}},
+		{"rare", Counts{X1: max(1, n/100), N1: n, X2: max(2, n/50), N2: n}},
+		{"near", Counts{X1: n / 2, N1: n, X2: n * 51 / 100, N2: n}},
+	}
+}
+
+// BenchmarkPlainBracketing is the yardstick of the speed targets: both
+// limits of Mee's 95% interval by plain bisection of the score statistic
+// to 10⁻⁹, about 60 score evaluations, on the tables of BenchmarkAnalyze.
+// The targets (an analysis under 10 µs, a score interval under 2 µs) were
+// set on machines where this search took 6–7 µs. Shared machines vary by a
+// third from one minute to the next, so scripts/bench-analysis.sh measures
+// both in alternating rounds and reports each time also as a multiple of
+// this one.
+func BenchmarkPlainBracketing(b *testing.B) {
+	conf, err := NewConfidence(0.95)
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, n := range []int64{50, 1000, 1_000_000} {
+		for _, t := range analysisBenchTables(n) {
+			b.Run(fmt.Sprintf("%s/n=%d", t.name, n), func(b *testing.B) {
+				evals := 0
+				for b.Loop() {
+					evals = 0
+					above := func(d float64) bool { evals++; return scoreZ(t.c, d, 1) > conf.Z }
+					below := func(d float64) bool { evals++; return scoreZ(t.c, d, 1) > -conf.Z }
+					d := t.c.P1() - t.c.P2()
+					bracket(above, -1, d)
+					bracket(below, d, 1)
+				}
+				b.ReportMetric(float64(evals), "evals/op")
+			})
+		}
+	}
+}
+
+// bracket halves [a, b] around the point where above turns false, to a
+// width of 10⁻⁹.
+func bracket(above func(float64) bool, a, b float64) float64 {
+	for b-a > 1e-9 {
+		if m := a + (b-a)/2; above(m) {
+			a = m
+		} else {
+			b = m
+		}
+	}
+	return a + (b-a)/2
 }
