@@ -65,12 +65,13 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 		Comparison: c, Level: s.Level, Null: null, Alternative: s.Alternative, Scope: s.Methods,
 		Difference: Difference.Estimate(counts), Caution: Caution,
 	}
-	a.Groups[0] = groupEstimate(c.First, ivConf)
-	a.Groups[1] = groupEstimate(c.Second, ivConf)
+	store := newIntervalStore()
+	a.Groups[0] = groupEstimate(c.First, ivConf, store.take(len(proportionMethods)))
+	a.Groups[1] = groupEstimate(c.Second, ivConf, store.take(len(proportionMethods)))
 	run := methodFilter{scope: s.Methods, total: counts.N1 + counts.N2}
-	a.Intervals = a.intervalsOf(run, counts, ivConf, differenceMethods, slowDifferenceMethods)
-	a.Ratios = a.intervalsOf(run, counts, ivConf, ratioMethods)
-	a.OddsRatios = a.intervalsOf(run, counts, ivConf, oddsRatioMethods)
+	a.Intervals = a.intervalsOf(run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods)
+	a.Ratios = a.intervalsOf(run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods)
+	a.OddsRatios = a.intervalsOf(run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods)
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf, shared: &sharedWork{}}
 	a.Tests = a.testsOf(run, counts, h, s)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
@@ -98,8 +99,27 @@ func analysisConfidences(s Settings) (test, intervals Confidence, err error) {
 	return test, intervals, nil
 }
 
-func groupEstimate(g Group, conf Confidence) GroupEstimate {
-	ge := GroupEstimate{Group: g, Proportion: g.Proportion(), Intervals: make([]Interval, 0, len(proportionMethods))}
+// intervalStore hands out the interval lists of one analysis from a single
+// allocation: an analysis fills about two dozen intervals, and one block
+// costs less than a list per family. Each list is capped at its share, so
+// appending to one later moves it instead of overwriting the next.
+type intervalStore []Interval
+
+func newIntervalStore() *intervalStore {
+	s := make(intervalStore, 2*len(proportionMethods)+len(differenceMethods)+len(slowDifferenceMethods)+
+		len(ratioMethods)+len(oddsRatioMethods))
+	return &s
+}
+
+// take returns an empty list with room for n intervals.
+func (s *intervalStore) take(n int) []Interval {
+	list := (*s)[:0:n]
+	*s = (*s)[n:]
+	return list
+}
+
+func groupEstimate(g Group, conf Confidence, list []Interval) GroupEstimate {
+	ge := GroupEstimate{Group: g, Proportion: g.Proportion(), Intervals: list}
 	for _, m := range proportionMethods {
 		ge.Intervals = append(ge.Intervals, m.IntervalAt(g.Events, g.Trials, conf))
 	}
@@ -126,12 +146,9 @@ func (f methodFilter) decide(exact bool, sizeLimit int64) (run, tooLarge bool) {
 	return true, false
 }
 
-func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, lists ...[]IntervalMethod) []Interval {
-	n := 0
-	for _, l := range lists {
-		n += len(l)
-	}
-	out := make([]Interval, 0, n)
+// intervalsOf fills out (empty, with room for every method of lists) with
+// the intervals the analysis runs.
+func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, out []Interval, lists ...[]IntervalMethod) []Interval {
 	for _, l := range lists {
 		for _, m := range l {
 			if a.admit(f, m.Key, m.Name, m.Exact, m.SizeLimit) {
@@ -166,6 +183,9 @@ func (a *Analysis) admit(f methodFilter, key, name string, exact bool, sizeLimit
 	case tooLarge:
 		a.skip(name, sizeLimit, f.total)
 	case !run:
+		if a.Omitted == nil {
+			a.Omitted = make([]string, 0, 16) // the costly methods, at most a dozen today
+		}
 		a.Omitted = append(a.Omitted, key)
 	}
 	return run

@@ -318,3 +318,31 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 		t.Errorf("unknown scope: %v, want ErrScope", err)
 	}
 }
+
+// TestAnalysisListsAreSeparate checks that the interval lists of an
+// analysis, which share one allocation, behave as separate slices: a
+// caller appending to one list never changes another.
+func TestAnalysisListsAreSeparate(t *testing.T) {
+	c, err := NewComparison(12, 40, 5, 38, Labels{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lists := []*[]Interval{&a.Groups[0].Intervals, &a.Groups[1].Intervals, &a.Intervals, &a.Ratios, &a.OddsRatios}
+	before := make([][]Interval, len(lists))
+	for i, l := range lists {
+		before[i] = slices.Clone(*l)
+	}
+	for i, l := range lists {
+		*l = append(*l, Interval{Method: "appended"}, Interval{Method: "appended"})
+		for j, other := range lists {
+			if j != i && !slices.Equal((*other)[:len(before[j])], before[j]) {
+				t.Fatalf("appending to list %d changed list %d", i, j)
+			}
+		}
+		*l = (*l)[:len(before[i])]
+	}
+}
