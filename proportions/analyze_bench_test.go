@@ -74,24 +74,11 @@ func BenchmarkPlainBracketing(b *testing.B) {
 					above := func(d float64) bool { evals++; return scoreZ(t.c, d, 1) > conf.Z }
 					below := func(d float64) bool { evals++; return scoreZ(t.c, d, 1) > -conf.Z }
 					d := t.c.P1() - t.c.P2()
-					bracket(above, -1, d)
-					bracket(below, d, 1)
+					bisectScoreTo(above, -1, d, 1e-9)
+					bisectScoreTo(below, d, 1, 1e-9)
 				}
 				b.ReportMetric(float64(evals), "evals/op")
 			})
 		}
 	}
-}
-
-// bracket halves [a, b] around the point where above turns false, to a
-// width of 10⁻⁹.
-func bracket(above func(float64) bool, a, b float64) float64 {
-	for b-a > 1e-9 {
-		if m := a + (b-a)/2; above(m) {
-			a = m
-		} else {
-			b = m
-		}
-	}
-	return a + (b-a)/2
 }

@@ -232,11 +232,17 @@ func TestScoreLimitsMatchBisection(t *testing.T) {
 }
 
 // bisectScore returns the point in [a, b] where above switches from true
-// to false.
+// to false, to the last bit.
 func bisectScore(above func(float64) bool, a, b float64) float64 {
+	return bisectScoreTo(above, a, b, 0)
+}
+
+// bisectScoreTo is bisectScore stopped once the bracket is no wider than
+// width (the midpoint of the last bracket is returned).
+func bisectScoreTo(above func(float64) bool, a, b, width float64) float64 {
 	for {
 		m := a + (b-a)/2
-		if m == a || m == b {
+		if m == a || m == b || b-a <= width {
 			return m
 		}
 		if above(m) {
