@@ -15,6 +15,14 @@ cd "$(dirname "${BASH_SOURCE[0]}")/.."
 
 rounds="${ROUNDS:-7}"
 benchtime="${BENCHTIME:-0.3s}"
+if ! [[ "$rounds" =~ ^[1-9][0-9]*$ ]]; then
+	echo "bench-analysis: ROUNDS=$rounds is not a whole number of rounds (1 or more, e.g. ROUNDS=7)" >&2
+	exit 2
+fi
+if ! [[ "$benchtime" =~ ^[0-9]+(\.[0-9]+)?(ns|us|µs|ms|s|m|x)$ ]]; then
+	echo "bench-analysis: BENCHTIME=$benchtime is not a Go benchmark time (a duration such as 0.3s or 1s, or a count such as 1000x)" >&2
+	exit 2
+fi
 bin="$(mktemp)"
 raw="$(mktemp)"
 trap 'rm -f "$bin" "$raw"' EXIT
