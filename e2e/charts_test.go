@@ -19,7 +19,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 )
 
@@ -236,13 +236,13 @@ func analysisCharts(t *testing.T, a proportions.Analysis) []namedChart {
 func designCharts(t *testing.T) []namedChart {
 	t.Helper()
 	ctx := context.Background()
-	d, err := exact.NewDesign(30, 30, 0.95)
+	d, err := operating.NewDesign(30, 30, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}
-	var slices []*exact.Slice
+	var slices []*operating.Slice
 	for _, m := range proportions.IntervalMethods(proportions.Difference) {
-		tab, err := exact.NewTable(ctx, m, d)
+		tab, err := operating.NewTable(ctx, m, d)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -256,7 +256,7 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	wald, err := exact.NewTable(ctx, proportions.Wald, d)
+	wald, err := operating.NewTable(ctx, proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -268,8 +268,8 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	pd := proportions.NewDesign(proportions.Equality, 0.25, 0.55)
-	approx, err := proportions.PowerByN(pd, 10, 80)
+	pd := planning.NewDesign(planning.Equality, 0.25, 0.55)
+	approx, err := planning.PowerByN(pd, 10, 80)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -277,15 +277,15 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	byN, err := notebookui.PowerChart([]proportions.PowerCurve{approx, fisher})
+	byN, err := notebookui.PowerChart([]planning.PowerCurve{approx, fisher})
 	if err != nil {
 		t.Fatal(err)
 	}
-	curve, err := proportions.PowerByDifference(pd, 40, 40, 0.05, 0.95, 91)
+	curve, err := planning.PowerByDifference(pd, 40, 40, 0.05, 0.95, 91)
 	if err != nil {
 		t.Fatal(err)
 	}
-	byDiff, err := notebookui.PowerChart([]proportions.PowerCurve{curve})
+	byDiff, err := notebookui.PowerChart([]planning.PowerCurve{curve})
 	if err != nil {
 		t.Fatal(err)
 	}

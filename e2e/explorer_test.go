@@ -16,7 +16,8 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/propscope/propscope/e2e/nbrun"
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // The explorers notebook (notebooks/explorers.ipynb) holds three live
@@ -61,16 +62,16 @@ func checkExplorersStatic(t *testing.T, ctx context.Context) {
 }
 
 // startPlan is the notebook's plan, computed here with the planning engine.
-func startPlan(t *testing.T) proportions.SampleSizeResult {
+func startPlan(t *testing.T) planning.SampleSizeResult {
 	t.Helper()
 	return planFor(t, 0.04, 0.04)
 }
 
-func planFor(t *testing.T, rate1, rate2 float64) proportions.SampleSizeResult {
+func planFor(t *testing.T, rate1, rate2 float64) planning.SampleSizeResult {
 	t.Helper()
-	d := proportions.NewDesign(proportions.NonInferiority, rate1, rate2)
+	d := planning.NewDesign(planning.NonInferiority, rate1, rate2)
 	d.Alternative, d.Margin = proportions.Less, 0.02
-	r, err := proportions.SampleSize(d)
+	r, err := planning.SampleSize(d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -225,7 +226,7 @@ func (e explorer) shot(name string) {
 // engine's coverage at (π1, π2), computed here for every difference method.
 func (e explorer) checkCoverage(n1, n2 int, pi1, pi2 float64) {
 	e.t.Helper()
-	d, err := exact.NewDesign(n1, n2, 0.95)
+	d, err := operating.NewDesign(n1, n2, 0.95)
 	if err != nil {
 		e.t.Fatal(err)
 	}
@@ -235,7 +236,7 @@ func (e explorer) checkCoverage(n1, n2 int, pi1, pi2 float64) {
 		e.t.Errorf("want a row per difference method (%d), got %v", len(methods), rows)
 	}
 	for _, m := range methods {
-		p, err := exact.Coverage(m, d, pi1, pi2)
+		p, err := operating.Coverage(m, d, pi1, pi2)
 		if err != nil {
 			e.t.Fatal(err)
 		}

@@ -5,7 +5,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // Chart building is on the path of every notebook cell and live explorer
@@ -45,8 +45,8 @@ func BenchmarkDifferenceIntervalsChartHTML(b *testing.B) {
 }
 
 func BenchmarkCoverageMapChartHTML(b *testing.B) {
-	d, _ := exact.NewDesign(50, 50, 0.95)
-	tab, err := exact.NewTable(context.Background(), proportions.Wald, d)
+	d, _ := operating.NewDesign(50, 50, 0.95)
+	tab, err := operating.NewTable(context.Background(), proportions.Wald, d)
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -3,13 +3,14 @@ package notebookui
 import (
 	"encoding/json"
 	"fmt"
-	"github.com/propscope/propscope/proportions"
 	"math"
 	"strconv"
 
+	"github.com/propscope/propscope/proportions"
+
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // coverageBands are the colour classes of the coverage map, as distances
@@ -68,8 +69,8 @@ const coverageMapTooltip = `function (p) {
 // centred on the nominal level (oranges short of it, purples over it) and
 // the lowest coverage marked. Each cell's tooltip gives its coverage and
 // how the misses split between the two sides. The surface is computed by
-// package exact; this function only draws it. Options read: WithHeight.
-func CoverageMapChart(s *exact.Surface, options ...ChartOption) (*Chart, error) {
+// package operating; this function only draws it. Options read: WithHeight.
+func CoverageMapChart(s *operating.Surface, options ...ChartOption) (*Chart, error) {
 	if s == nil || len(s.Pi1) == 0 || len(s.Pi2) == 0 || len(s.Coverage) != len(s.Pi1)*len(s.Pi2) {
 		return nil, fmt.Errorf("coverage map: %w: the surface has no grid", errNoIntervals)
 	}
@@ -194,13 +195,13 @@ const coverageSliceTooltip = `function (ps) {
 }`
 
 // CoverageSliceChart draws the exact coverage of several interval methods
-// along one slice of true rates (computed by package exact, for example with
+// along one slice of true rates (computed by package operating, for example with
 // Table.AlongFirst or Table.AlongEffect), one line per method, with the
 // nominal level as a line inside a band of ±1 percentage point. The slices
 // must share their design and their line of rates. A slice along the first
 // rate runs across π1; a slice at a fixed effect runs across π2.
 // Options read: WithHeight, WithZoom (to open on part of the rates).
-func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, error) {
+func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Chart, error) {
 	if len(slices) == 0 || slices[0] == nil || len(slices[0].Points) == 0 {
 		return nil, fmt.Errorf("coverage slice: %w: no coverage points", errNoIntervals)
 	}
@@ -232,7 +233,7 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 				minK = k
 			}
 			sum, n = sum+p.Coverage, n+1
-			if p.Coverage < nominal-exact.ShortfallMargin {
+			if p.Coverage < nominal-operating.ShortfallMargin {
 				short++
 			}
 			low = math.Min(low, p.Coverage)
@@ -245,8 +246,8 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 		if i == 0 {
 			line["markArea"] = map[string]any{"silent": true, "itemStyle": map[string]any{"color": "rgba(0,0,0,0.07)"},
 				"label": map[string]any{"position": "insideTopLeft", "color": "#444444"},
-				"data": []any{[]any{map[string]any{"yAxis": nominal - exact.ShortfallMargin, "name": "nominal ± 1 point"},
-					map[string]any{"yAxis": math.Min(nominal+exact.ShortfallMargin, 1)}}}}
+				"data": []any{[]any{map[string]any{"yAxis": nominal - operating.ShortfallMargin, "name": "nominal ± 1 point"},
+					map[string]any{"yAxis": math.Min(nominal+operating.ShortfallMargin, 1)}}}}
 			line["markLine"] = map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": []any{
 				map[string]any{"yAxis": nominal, "name": "nominal",
 					"lineStyle": map[string]any{"color": "#000000", "type": "solid", "width": 1},
@@ -290,7 +291,7 @@ func CoverageSliceChart(slices []*exact.Slice, options ...ChartOption) (*Chart, 
 
 // sliceAxis checks that the slices share design and line, and tells which
 // rate varies along them.
-func sliceAxis(slices []*exact.Slice) (along, fixed string, err error) {
+func sliceAxis(slices []*operating.Slice) (along, fixed string, err error) {
 	s0 := slices[0]
 	for _, s := range slices {
 		if s == nil || s.Design != s0.Design || s.Along != s0.Along || s.Fixed != s0.Fixed || s.Family != s0.Family {

@@ -8,21 +8,21 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
-func waldSurface(t *testing.T, n1, n2 int) *exact.Surface {
+func waldSurface(t *testing.T, n1, n2 int) *operating.Surface {
 	t.Helper()
-	d, err := exact.NewDesign(n1, n2, 0.95)
+	d, err := operating.NewDesign(n1, n2, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := exact.NewTable(context.Background(), proportions.Wald, d)
+	tab, err := operating.NewTable(context.Background(), proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
 	grid := []float64{0, 0.1, 0.25, 0.5, 0.9, 1}
-	s, err := tab.Surface(context.Background(), exact.WithGrid(grid, grid))
+	s, err := tab.Surface(context.Background(), operating.WithGrid(grid, grid))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -88,14 +88,14 @@ func TestCoverageMapOption(t *testing.T) {
 }
 
 func TestCoverageSliceOption(t *testing.T) {
-	d, _ := exact.NewDesign(20, 20, 0.95)
-	var slices []*exact.Slice
+	d, _ := operating.NewDesign(20, 20, 0.95)
+	var slices []*operating.Slice
 	for _, m := range []proportions.IntervalMethod{proportions.Wald, proportions.Mee} {
-		tab, err := exact.NewTable(context.Background(), m, d)
+		tab, err := operating.NewTable(context.Background(), m, d)
 		if err != nil {
 			t.Fatal(err)
 		}
-		s, err := tab.AlongFirst(context.Background(), 0.3, exact.WithSteps(11))
+		s, err := tab.AlongFirst(context.Background(), 0.3, operating.WithSteps(11))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -112,7 +112,7 @@ func TestCoverageSliceOption(t *testing.T) {
 		t.Fatalf("series %v, want one line per method", series)
 	}
 	for k, s := range series {
-		var defined []exact.Point
+		var defined []operating.Point
 		for _, p := range slices[k].Points {
 			if p.Defined {
 				defined = append(defined, p)
@@ -135,15 +135,15 @@ func TestCoverageSliceOption(t *testing.T) {
 		t.Errorf("band starts at %v, want 0.94", lo)
 	}
 	// Slices along different lines cannot share a chart.
-	tab, _ := exact.NewTable(context.Background(), proportions.Wald, d)
-	other, err := tab.AlongEffect(context.Background(), 0.1, exact.WithSteps(11))
+	tab, _ := operating.NewTable(context.Background(), proportions.Wald, d)
+	other, err := tab.AlongEffect(context.Background(), 0.1, operating.WithSteps(11))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := CoverageSliceChart([]*exact.Slice{slices[0], other}); !errors.Is(err, proportions.ErrUnsupported) {
+	if _, err := CoverageSliceChart([]*operating.Slice{slices[0], other}); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("mixed slices: %v", err)
 	}
-	if ch, err := CoverageSliceChart([]*exact.Slice{other}); err != nil || !strings.Contains(ch.Title()+ch.Text(), "+10.00 pp") {
+	if ch, err := CoverageSliceChart([]*operating.Slice{other}); err != nil || !strings.Contains(ch.Title()+ch.Text(), "+10.00 pp") {
 		t.Errorf("slice at a fixed difference: %v", err)
 	}
 	zoomed, err := CoverageSliceChart(slices, WithZoom(0, 0.1))

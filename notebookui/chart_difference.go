@@ -7,7 +7,7 @@ import (
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // ChartOption adjusts a chart. Each chart function documents which options
@@ -41,9 +41,9 @@ func WithRecommended(methodKey, reason string) ChartOption {
 }
 
 // WithRecommendation marks the best-ranked method of a coverage-based
-// recommendation (see exact.Recommend) with its one-sentence reason. A nil
+// recommendation (see operating.Recommend) with its one-sentence reason. A nil
 // or empty recommendation leaves the default.
-func WithRecommendation(r *exact.Recommendation) ChartOption {
+func WithRecommendation(r *operating.Recommendation) ChartOption {
 	return func(s *chartSettings) {
 		if r == nil {
 			return

@@ -8,6 +8,7 @@ import (
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // errMixedCurves is returned when curves to be drawn together do not share
@@ -31,7 +32,7 @@ const powerByDifferenceTooltip = `function (ps) {
 }`
 
 // PowerChart draws power curves computed by the planning functions
-// (proportions.PowerByN, PowerByDifference, and the exact-power curves):
+// (planning.PowerByN, PowerByDifference, and the exact-power curves):
 // against the group size when their Axis is "n1", against the true
 // difference π1 − π2 when it is "rate1". Curves drawn together must share
 // the axis; give the asymptotic curve and the exact power of the test you
@@ -42,7 +43,7 @@ const powerByDifferenceTooltip = `function (ps) {
 // at or above it. On a difference chart α marks the power at the null
 // (the test's size) and the design's anticipated difference is drawn.
 // Options read: WithHeight.
-func PowerChart(curves []proportions.PowerCurve, options ...ChartOption) (*Chart, error) {
+func PowerChart(curves []planning.PowerCurve, options ...ChartOption) (*Chart, error) {
 	if len(curves) == 0 || len(curves[0].Points) == 0 {
 		return nil, fmt.Errorf("power chart: %w: no curve points", errNoIntervals)
 	}
@@ -64,7 +65,7 @@ func PowerChart(curves []proportions.PowerCurve, options ...ChartOption) (*Chart
 
 // powerSeries is one curve as a line series; the first curve is solid and
 // smooth-looking, later ones get other colours and dash patterns.
-func powerSeries(i int, c proportions.PowerCurve, data [][]float64) map[string]any {
+func powerSeries(i int, c planning.PowerCurve, data [][]float64) map[string]any {
 	return map[string]any{
 		"type": "line", "name": c.Method, "data": data, "showSymbol": len(data) <= 60, "symbol": markerShape(i),
 		"symbolSize": 5, "step": false,
@@ -73,7 +74,7 @@ func powerSeries(i int, c proportions.PowerCurve, data [][]float64) map[string]a
 	}
 }
 
-func powerBySize(curves []proportions.PowerCurve, s chartSettings) (*Chart, error) {
+func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) {
 	d := curves[0].Design
 	target := d.Power
 	title := "Power against group size"
@@ -144,7 +145,7 @@ func powerBySize(curves []proportions.PowerCurve, s chartSettings) (*Chart, erro
 	return newChart("power-by-size", title, subtitle, s.heightOr(defaultHeight+40), option, table, notes)
 }
 
-func powerByDifference(curves []proportions.PowerCurve, s chartSettings) (*Chart, error) {
+func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, error) {
 	d := curves[0].Design
 	first := curves[0].Points[0]
 	title := "Power against the true difference"
@@ -164,7 +165,7 @@ func powerByDifference(curves []proportions.PowerCurve, s chartSettings) (*Chart
 			ml := targetLine(d.Power, d.Alpha, true)
 			ml["data"] = append(ml["data"].([]any), verticalLine(d.Rate1-d.Rate2, "anticipated", ColorGrey, "dashed",
 				"anticipated "+fmtPP(d.Rate1-d.Rate2), "end"))
-			if d.Goal != proportions.Equality && d.Scale == proportions.Difference && d.Margin != 0 {
+			if d.Goal != planning.Equality && d.Scale == proportions.Difference && d.Margin != 0 {
 				ml["data"] = append(ml["data"].([]any), verticalLine(d.Margin, "margin", ColorPurple, "dotted",
 					"margin "+fmtPP(d.Margin), "end"))
 			}
@@ -199,7 +200,7 @@ func powerByDifference(curves []proportions.PowerCurve, s chartSettings) (*Chart
 
 // reachIndex returns the first point whose power reaches the target, and
 // the first point from which every later point reaches it (−1 if none).
-func reachIndex(points []proportions.PowerPoint, target float64) (first, stays int) {
+func reachIndex(points []planning.PowerPoint, target float64) (first, stays int) {
 	first, stays = -1, -1
 	for k, p := range points {
 		if p.Power >= target {
@@ -216,7 +217,7 @@ func reachIndex(points []proportions.PowerPoint, target float64) (first, stays i
 	return first, stays
 }
 
-func sizeMark(p proportions.PowerPoint, label, color string) map[string]any {
+func sizeMark(p planning.PowerPoint, label, color string) map[string]any {
 	return map[string]any{"coord": []float64{float64(p.N1), p.Power}, "name": label, "value": p.N1,
 		"itemStyle": map[string]any{"color": color},
 		"label":     map[string]any{"formatter": label, "position": "top", "distance": 2, "color": color, "fontSize": 11}}

@@ -4,16 +4,16 @@ import (
 	"errors"
 	"testing"
 
-	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 func TestPowerBySizeChartOption(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.60, 0.75)
-	curve, err := proportions.PowerByN(d, 20, 250)
+	d := planning.NewDesign(planning.Equality, 0.60, 0.75)
+	curve, err := planning.PowerByN(d, 20, 250)
 	if err != nil {
 		t.Fatal(err)
 	}
-	ch, err := PowerChart([]proportions.PowerCurve{curve})
+	ch, err := PowerChart([]planning.PowerCurve{curve})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -32,7 +32,7 @@ func TestPowerBySizeChartOption(t *testing.T) {
 	}
 	// The marked size must be the planning's own sample size for the same
 	// design: the asymptotic power curve and the sample-size formula agree.
-	ss, err := proportions.SampleSize(d)
+	ss, err := planning.SampleSize(d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -47,10 +47,10 @@ func TestPowerBySizeChartOption(t *testing.T) {
 }
 
 func TestReachIndexSawTooth(t *testing.T) {
-	pts := func(powers ...float64) []proportions.PowerPoint {
-		out := make([]proportions.PowerPoint, len(powers))
+	pts := func(powers ...float64) []planning.PowerPoint {
+		out := make([]planning.PowerPoint, len(powers))
 		for i, p := range powers {
-			out[i] = proportions.PowerPoint{N1: int64(10 + i), Power: p}
+			out[i] = planning.PowerPoint{N1: int64(10 + i), Power: p}
 		}
 		return out
 	}
@@ -71,13 +71,13 @@ func TestReachIndexSawTooth(t *testing.T) {
 }
 
 func TestPowerByDifferenceChartOption(t *testing.T) {
-	d := proportions.NewDesign(proportions.NonInferiority, 0.85, 0.85)
+	d := planning.NewDesign(planning.NonInferiority, 0.85, 0.85)
 	d.Margin = -0.1
-	curve, err := proportions.PowerByDifference(d, 200, 200, 0.7, 0.95, 51)
+	curve, err := planning.PowerByDifference(d, 200, 200, 0.7, 0.95, 51)
 	if err != nil {
 		t.Fatal(err)
 	}
-	ch, err := PowerChart([]proportions.PowerCurve{curve})
+	ch, err := PowerChart([]planning.PowerCurve{curve})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -110,10 +110,10 @@ func TestPowerByDifferenceChartOption(t *testing.T) {
 }
 
 func TestPowerChartErrors(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.60, 0.75)
-	byN, _ := proportions.PowerByN(d, 20, 40)
-	byD, _ := proportions.PowerByDifference(d, 50, 50, 0.5, 0.9, 5)
-	if _, err := PowerChart([]proportions.PowerCurve{byN, byD}); !errors.Is(err, errMixedCurves) {
+	d := planning.NewDesign(planning.Equality, 0.60, 0.75)
+	byN, _ := planning.PowerByN(d, 20, 40)
+	byD, _ := planning.PowerByDifference(d, 50, 50, 0.5, 0.9, 5)
+	if _, err := PowerChart([]planning.PowerCurve{byN, byD}); !errors.Is(err, errMixedCurves) {
 		t.Errorf("mixed axes: %v", err)
 	}
 	if _, err := PowerChart(nil); err == nil {

@@ -11,7 +11,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -443,9 +443,9 @@ func TestDifferenceChartWithRecommendation(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d, _ := exact.NewDesign(20, 20, 0.95)
+	d, _ := operating.NewDesign(20, 20, 0.95)
 	grid := []float64{0.05, 0.2, 0.35, 0.5, 0.65, 0.8, 0.95}
-	rec, err := exact.Recommend(context.Background(), proportions.Difference, d, exact.WithGrid(grid, grid))
+	rec, err := operating.Recommend(context.Background(), proportions.Difference, d, operating.WithGrid(grid, grid))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -4,6 +4,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // Redraw cost of the explorers: computing and rendering one frame, what a
@@ -82,7 +83,7 @@ func BenchmarkIntervalExplorerSizeChangeAll(b *testing.B) { benchmarkIntervalSiz
 
 // BenchmarkPlanningExplorerRedraw: one plan change (sample size and power curve).
 func BenchmarkPlanningExplorerRedraw(b *testing.B) {
-	m := planningModel{PlanningExplorer{Design: proportions.NewDesign(proportions.Equality, 0.3, 0.2)}}
+	m := planningModel{PlanningExplorer{Design: planning.NewDesign(planning.Equality, 0.3, 0.2)}}
 	pos := startPositions(m)
 	for i := 0; b.Loop(); i++ {
 		pos[1] = 250 + i%100

@@ -9,7 +9,7 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // sliceSubtitle describes the slice: the design and what is held.
@@ -28,7 +28,7 @@ func coverageSliceChart(sl []CoverageSlice, s sliceSettings) (*Chart, error) {
 	if len(sl) == 0 {
 		return nil, fmt.Errorf("coverage slice chart: %w: no method", errNoIntervals)
 	}
-	slices := make([]*exact.Slice, len(sl))
+	slices := make([]*operating.Slice, len(sl))
 	for i, c := range sl {
 		slices[i] = c.Slice
 	}

@@ -5,7 +5,7 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/notebookui"
-	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // The numbers behind the interval explorer's starting view: the exact
@@ -33,7 +33,7 @@ func ExampleIntervalExplorer_Slice() {
 // a notebook run headless it displays it; in a live notebook it runs until
 // the reader presses Done. Frame gives the view for any settings.
 func ExamplePlanningExplorer_Frame() {
-	start := proportions.NewDesign(proportions.Equality, 0.6, 0.4)
+	start := planning.NewDesign(planning.Equality, 0.6, 0.4)
 	e := notebookui.PlanningExplorer{Design: start}
 	d := start
 	d.Power = 0.9

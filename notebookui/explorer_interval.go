@@ -11,12 +11,12 @@ import (
 	"time"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // IntervalExplorer shows how interval methods behave for a design: the
 // exact coverage along a slice of true rates through a chosen point
-// (π1, π2), computed by the exact engine (package proportions/exact), and
+// (π1, π2), computed by the exact engine (package proportions/operating), and
 // a table of the coverage at the point, the lowest and the mean coverage
 // along the slice and the expected widths. Sliders move n1, n2, the level,
 // π1 and either π2 or the difference π1 − π2 held along the slice; a
@@ -114,7 +114,7 @@ func (e IntervalExplorer) validate() error {
 	if top := e.maxN(); top < 1 || top > MaxExplorerGroupSize {
 		return fmt.Errorf("interval explorer: group sizes up to %d: %w; the sliders can reach at most %d", top, proportions.ErrTooLarge, MaxExplorerGroupSize)
 	}
-	if _, err := exact.NewDesign(e.N1, e.N2, e.level()); err != nil {
+	if _, err := operating.NewDesign(e.N1, e.N2, e.level()); err != nil {
 		return fmt.Errorf("interval explorer: %w", err)
 	}
 	if e.N1 > e.maxN() || e.N2 > e.maxN() {
@@ -178,11 +178,11 @@ func (e IntervalExplorer) model() (*intervalModel, error) {
 type CoverageSlice struct {
 	// Slice holds the points: along π1 at a fixed π2, or along π2 at a
 	// fixed difference.
-	Slice *exact.Slice `json:"slice"`
+	Slice *operating.Slice `json:"slice"`
 	Key   string       `json:"method"`
 	Name  string       `json:"name"`
 	// At is the point the reader chose, when it lies on the slice.
-	At      exact.Point `json:"at"`
+	At      operating.Point `json:"at"`
 	AtValid bool        `json:"at_valid"`
 	// Min is the lowest coverage along the slice, at (MinPi1, MinPi2)
 	// (the first such point along the slice); Mean is the average
@@ -303,7 +303,7 @@ type running struct {
 }
 
 func (m *intervalModel) start(s sliceSettings) (*running, error) {
-	d, err := exact.NewDesign(s.n1, s.n2, s.level)
+	d, err := operating.NewDesign(s.n1, s.n2, s.level)
 	if err != nil {
 		return nil, err
 	}
@@ -347,20 +347,20 @@ func (r *running) soFar() (done []CoverageSlice, pending []string) {
 	return done, pending
 }
 
-func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s sliceSettings) (CoverageSlice, error) {
+func (m *intervalModel) slice(me proportions.IntervalMethod, d operating.Design, s sliceSettings) (CoverageSlice, error) {
 	t, err := m.tables.get(me, d)
 	if err != nil {
 		return CoverageSlice{}, err
 	}
 	ctx := context.Background()
 	// The methods already run in parallel: one worker each.
-	var es *exact.Slice
+	var es *operating.Slice
 	if s.holdDiff {
 		// π2 over its whole range in steps of one percentage point.
 		k := int(math.Round(100*(1-math.Abs(s.difference)))) + 1
-		es, err = t.AlongEffect(ctx, s.difference, exact.WithSteps(k), exact.WithWorkers(1))
+		es, err = t.AlongEffect(ctx, s.difference, operating.WithSteps(k), operating.WithWorkers(1))
 	} else {
-		es, err = t.AlongFirst(ctx, s.pi2, exact.WithSteps(101), exact.WithWorkers(1))
+		es, err = t.AlongFirst(ctx, s.pi2, operating.WithSteps(101), operating.WithWorkers(1))
 	}
 	if err != nil {
 		return CoverageSlice{}, err
@@ -389,7 +389,7 @@ func (m *intervalModel) slice(me proportions.IntervalMethod, d exact.Design, s s
 	return cs, nil
 }
 
-func samePoint(p exact.Point, pi1, pi2 float64) bool {
+func samePoint(p operating.Point, pi1, pi2 float64) bool {
 	return math.Abs(p.Pi1-pi1) < 1e-9 && math.Abs(p.Pi2-pi2) < 1e-9
 }
 
@@ -450,14 +450,14 @@ type tableCache struct {
 	mu    sync.Mutex
 	limit int
 	order []string
-	byKey map[string]*exact.Table
+	byKey map[string]*operating.Table
 }
 
 func newTableCache(limit int) *tableCache {
-	return &tableCache{limit: max(limit, 4), byKey: map[string]*exact.Table{}}
+	return &tableCache{limit: max(limit, 4), byKey: map[string]*operating.Table{}}
 }
 
-func (c *tableCache) get(me proportions.IntervalMethod, d exact.Design) (*exact.Table, error) {
+func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*operating.Table, error) {
 	key := fmt.Sprintf("%s/%d/%d/%v", me.Key, d.N1, d.N2, d.Level)
 	c.mu.Lock()
 	if t, ok := c.byKey[key]; ok {
@@ -466,7 +466,7 @@ func (c *tableCache) get(me proportions.IntervalMethod, d exact.Design) (*exact.
 		return t, nil
 	}
 	c.mu.Unlock()
-	t, err := exact.NewTable(context.Background(), me, d)
+	t, err := operating.NewTable(context.Background(), me, d)
 	if err != nil {
 		return nil, err
 	}

@@ -9,21 +9,22 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // PlanningExplorer lets the reader move the inputs of a study plan (the
 // goal, the two anticipated rates, the margin and the target power) and
-// see the required group sizes (proportions.SampleSize) and the power
-// curve against group size (proportions.PowerByN, drawn by PowerChart)
+// see the required group sizes (planning.SampleSize) and the power
+// curve against group size (planning.PowerByN, drawn by PowerChart)
 // follow. The other fields of the design (scale, α for the starting goal,
 // allocation, drop-out, variance rule, continuity correction) stay as
 // given.
 //
-// Build it as a literal; Design is required (proportions.NewDesign gives
+// Build it as a literal; Design is required (planning.NewDesign gives
 // one with the usual defaults).
 type PlanningExplorer struct {
 	// Design is the starting plan.
-	Design proportions.Design
+	Design planning.Design
 }
 
 // Slider ranges of the planning explorer.
@@ -50,7 +51,7 @@ func (e PlanningExplorer) validate() error {
 	if !(d.Power >= 0.5 && d.Power < 1) {
 		return fmt.Errorf("planning explorer: target power %v: %w; the slider runs from 50%% to 99%%", d.Power, proportions.ErrDesign)
 	}
-	if d.Goal < proportions.Equality || d.Goal > proportions.Equivalence {
+	if d.Goal < planning.Equality || d.Goal > planning.Equivalence {
 		return fmt.Errorf("planning explorer: goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrDesign)
 	}
 	return nil
@@ -69,7 +70,7 @@ func (e PlanningExplorer) Run(opts ...LiveOption) error {
 // Frame returns what the explorer shows for a design (its goal, rates,
 // margin and power; the other fields are those of e.Design), as the live
 // explorer would draw it. The values are rounded to the sliders' steps.
-func (e PlanningExplorer) Frame(d proportions.Design) (Frame, error) {
+func (e PlanningExplorer) Frame(d planning.Design) (Frame, error) {
 	if err := e.validate(); err != nil {
 		return Frame{}, err
 	}
@@ -79,13 +80,13 @@ func (e PlanningExplorer) Frame(d proportions.Design) (Frame, error) {
 
 type planningModel struct{ e PlanningExplorer }
 
-var planGoals = []proportions.Goal{proportions.Equality, proportions.Superiority, proportions.NonInferiority, proportions.Equivalence}
+var planGoals = []planning.Goal{planning.Equality, planning.Superiority, planning.NonInferiority, planning.Equivalence}
 
 func (planningModel) name() string  { return "planning" }
 func (planningModel) title() string { return "Study plan: required group size and power" }
 
 // positions maps a design to slider positions.
-func (m planningModel) positions(d proportions.Design) []int {
+func (m planningModel) positions(d planning.Design) []int {
 	cs := m.controls()
 	pos := []int{int(d.Goal), rateStep(d.Rate1), rateStep(d.Rate2), m.marginStep(d.Margin), int(math.Round(100 * d.Power))}
 	for i := range pos {
@@ -141,20 +142,20 @@ func (m planningModel) controls() []control {
 
 // unused marks the margin of a test of equality, which has none.
 func (m planningModel) unused(pos []int, i int) bool {
-	return i == 3 && planGoals[pos[0]] == proportions.Equality
+	return i == 3 && planGoals[pos[0]] == planning.Equality
 }
 
 // design builds the plan at the positions. The starting goal keeps the
 // starting α and direction; another goal takes NewDesign's α for it, and
 // a one-sided goal keeps a one-sided starting direction (Less for defect
 // rates, say) or else Greater.
-func (m planningModel) design(pos []int) proportions.Design {
+func (m planningModel) design(pos []int) planning.Design {
 	d := m.e.Design
 	goal := planGoals[pos[0]]
 	if goal != d.Goal {
-		d.Alpha = proportions.NewDesign(goal, 0.5, 0.5).Alpha
+		d.Alpha = planning.NewDesign(goal, 0.5, 0.5).Alpha
 		switch {
-		case goal == proportions.Equality || goal == proportions.Equivalence:
+		case goal == planning.Equality || goal == planning.Equivalence:
 			d.Alternative = proportions.TwoSided
 		case d.Alternative == proportions.TwoSided:
 			d.Alternative = proportions.Greater
@@ -164,11 +165,11 @@ func (m planningModel) design(pos []int) proportions.Design {
 	d.Rate1 = float64(pos[1]) / planRateSteps
 	d.Rate2 = float64(pos[2]) / planRateSteps
 	d.Margin = m.marginValue(pos[3])
-	if goal == proportions.Equality {
+	if goal == planning.Equality {
 		d.Margin = 0
 	}
 	d.Power = float64(pos[4]) / 100
-	if d.Goal != proportions.Equality && d.ContinuityCorrection && d.Margin != d.Scale.NoEffect() {
+	if d.Goal != planning.Equality && d.ContinuityCorrection && d.Margin != d.Scale.NoEffect() {
 		d.ContinuityCorrection = false // published for a zero margin only
 	}
 	return d
@@ -179,15 +180,15 @@ func (m planningModel) design(pos []int) proportions.Design {
 // of the wrong sign) is shown as the planning package's explanation.
 func (m planningModel) render(pos []int) Displayable {
 	d := m.design(pos)
-	res, err := proportions.SampleSize(d)
+	res, err := planning.SampleSize(d)
 	if err != nil {
 		return message{kind: "planning", text: "No sample size for these settings: " + err.Error()}
 	}
-	curve, err := proportions.PowerByN(d, 2, max(2*res.N1, 10))
+	curve, err := planning.PowerByN(d, 2, max(2*res.N1, 10))
 	if err != nil {
 		return message{kind: "planning", text: "No power curve for these settings: " + err.Error()}
 	}
-	ch, err := PowerChart([]proportions.PowerCurve{curve}, WithHeight(380))
+	ch, err := PowerChart([]planning.PowerCurve{curve}, WithHeight(380))
 	if err != nil {
 		return message{kind: "planning", text: "The power curve cannot be drawn: " + err.Error()}
 	}
@@ -196,7 +197,7 @@ func (m planningModel) render(pos []int) Displayable {
 
 // planFigures shows a sample-size result: the group sizes, the power they
 // reach, the method and formula, notes and the planning caution.
-type planFigures struct{ r proportions.SampleSizeResult }
+type planFigures struct{ r planning.SampleSizeResult }
 
 func (p planFigures) Kind() string { return "plan" }
 
@@ -253,8 +254,8 @@ func (p planFigures) Text() string { return p.r.String() }
 
 func (p planFigures) JSON() ([]byte, error) {
 	return json.Marshal(struct {
-		Kind   string                       `json:"kind"`
-		Result proportions.SampleSizeResult `json:"sample_size"`
+		Kind   string                    `json:"kind"`
+		Result planning.SampleSizeResult `json:"sample_size"`
 	}{"plan", p.r})
 }
 

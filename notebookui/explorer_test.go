@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -231,7 +232,7 @@ func fleissEquality(p1, p2, alpha, power float64) int {
 }
 
 func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
-	start := proportions.NewDesign(proportions.Equality, 0.6, 0.4)
+	start := planning.NewDesign(planning.Equality, 0.6, 0.4)
 	e := PlanningExplorer{Design: start}
 	m := planningModel{e}
 	for _, c := range []struct{ r1, r2, power float64 }{{0.6, 0.4, 0.8}, {0.3, 0.2, 0.9}, {0.15, 0.1, 0.8}} {
@@ -266,16 +267,16 @@ func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
 }
 
 func TestPlanningExplorerGoalSwitch(t *testing.T) {
-	start := proportions.NewDesign(proportions.NonInferiority, 0.04, 0.04)
+	start := planning.NewDesign(planning.NonInferiority, 0.04, 0.04)
 	start.Alternative, start.Margin = proportions.Less, 0.02 // defect rates: lower is better
 	m := planningModel{PlanningExplorer{Design: start}}
 	pos := m.positions(start)
-	pos[0] = int(proportions.Superiority)
-	if d := m.design(pos); d.Alternative != proportions.Less || d.Alpha != proportions.DefaultOneSidedAlpha {
+	pos[0] = int(planning.Superiority)
+	if d := m.design(pos); d.Alternative != proportions.Less || d.Alpha != planning.DefaultOneSidedAlpha {
 		t.Errorf("switching to superiority keeps the direction Less and one-sided α: %+v", d)
 	}
-	pos[0] = int(proportions.Equality)
-	if d := m.design(pos); d.Alternative != proportions.TwoSided || d.Margin != 0 || d.Alpha != proportions.DefaultTwoSidedAlpha {
+	pos[0] = int(planning.Equality)
+	if d := m.design(pos); d.Alternative != proportions.TwoSided || d.Margin != 0 || d.Alpha != planning.DefaultTwoSidedAlpha {
 		t.Errorf("switching to equality: %+v", d)
 	}
 }

@@ -1,6 +1,11 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/root"
+	"github.com/propscope/propscope/internal/special"
+)
 
 // BaptistaPike is the exact interval for the odds ratio of Baptista and
 // Pike: the odds ratios ψ at which the observed table lies in the acceptance
@@ -71,17 +76,17 @@ func baptistaPikeLower(c Counts, alpha float64) float64 {
 	// p(ψ) ≤ (x1 − lo + 1)·P(X1 ≥ x1; ψ), which rises with ψ: below ta,
 	// where that bound equals α, p(ψ) ≤ α.
 	bound := alpha / float64(x-d.lo+1)
-	ta := decreasingCrossing(func(t float64) float64 { return bound - upperTail(t) }, t0, se)
+	ta := root.DecreasingCrossing(func(t float64) float64 { return bound - upperTail(t) }, t0, se)
 	// At tb x1 is a median, so p is large; move up until p(tb) > α.
-	tb := decreasingCrossing(func(t float64) float64 { return 0.5 - upperTail(t) }, t0, se)
+	tb := root.DecreasingCrossing(func(t float64) float64 { return 0.5 - upperTail(t) }, t0, se)
 	if math.IsInf(ta, 0) || math.IsInf(tb, 0) {
 		return math.Exp(ta)
 	}
 	for step := 1.0; ; step *= 2 {
-		if set := d.sterneSetAt(x, tb); d.setProbability(tb, set) > alpha || tb >= maxLogScale {
+		if set := d.sterneSetAt(x, tb); d.setProbability(tb, set) > alpha || tb >= root.MaxLogScale {
 			break
 		}
-		tb = math.Min(tb+step, maxLogScale)
+		tb = math.Min(tb+step, root.MaxLogScale)
 	}
 	t, _ := d.firstAccepted(x, ta, tb, alpha, 0)
 	return math.Exp(t)
@@ -104,7 +109,7 @@ func (d noncentralHypergeom) sterneSetAt(x int64, t float64) sterneSet {
 	dk := 0.0 // D(k+1) while scanning down
 	for k := x - 1; k >= d.lo; k-- {
 		next := dk
-		dk -= math.Log(hypergeomRatio(k, d.n1, d.n2, d.m))
+		dk -= math.Log(special.HypergeomRatio(k, d.n1, d.n2, d.m))
 		if dk+float64(k-x)*t <= 0 {
 			s.j, s.dNext = k, next
 			break
@@ -113,7 +118,7 @@ func (d noncentralHypergeom) sterneSetAt(x int64, t float64) sterneSet {
 	}
 	dk = 0
 	for k := x + 1; k <= d.hi; k++ {
-		dk += math.Log(hypergeomRatio(k-1, d.n1, d.n2, d.m))
+		dk += math.Log(special.HypergeomRatio(k-1, d.n1, d.n2, d.m))
 		if dk+float64(k-x)*t <= 0 {
 			s.u, s.dU = k, dk
 			break
@@ -141,7 +146,7 @@ func (d noncentralHypergeom) advance(s sterneSet, t float64) sterneSet {
 	for s.j+1 < s.x && s.dNext/float64(s.x-s.j-1) <= t {
 		s.j++
 		if s.j+1 < s.x {
-			s.dNext += math.Log(hypergeomRatio(s.j, d.n1, d.n2, d.m))
+			s.dNext += math.Log(special.HypergeomRatio(s.j, d.n1, d.n2, d.m))
 		}
 	}
 	for !math.IsInf(s.dU, 1) && -s.dU/float64(s.u-s.x) <= t {
@@ -149,7 +154,7 @@ func (d noncentralHypergeom) advance(s sterneSet, t float64) sterneSet {
 			s.u, s.dU = d.hi+1, math.Inf(1)
 			break
 		}
-		s.dU += math.Log(hypergeomRatio(s.u, d.n1, d.n2, d.m))
+		s.dU += math.Log(special.HypergeomRatio(s.u, d.n1, d.n2, d.m))
 		s.u++
 	}
 	return s
@@ -219,7 +224,7 @@ func (d noncentralHypergeom) sweepLower(s sterneSet, ta, tb, alpha float64) (flo
 			pr := d.setProbability(next, s)
 			if pr > alpha {
 				set := s
-				return brentRoot(func(u float64) float64 { return alpha - d.setProbability(u, set) }, t, next, alpha-pl, alpha-pr), true
+				return root.Brent(func(u float64) float64 { return alpha - d.setProbability(u, set) }, t, next, alpha-pl, alpha-pr), true
 			}
 		}
 		s = d.advance(s, next)

@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/special"
+)
 
 // The region of Boschloo's test: tables whose Fisher p-value is at most the
 // observed one. Fisher's p-value depends on a table only through its
@@ -26,7 +30,7 @@ func fisherSliceCuts(n1, n2 int64, logThr float64, side regionSide) (left, right
 	n := n1 + n2
 	left, right = make([]int64, n+1), make([]int64, n+1)
 	for m := int64(0); m <= n; m++ {
-		lo, hi := hypergeomSupport(n1, n2, m)
+		lo, hi := special.HypergeomSupport(n1, n2, m)
 		switch side {
 		case sideGreater:
 			left[m], right[m] = lo-1, fisherUpperCut(n1, n2, m, logThr)
@@ -44,7 +48,7 @@ func fisherSliceCuts(n1, n2 int64, logThr float64, side regionSide) (left, right
 // the top in linear scale relative to the top table's probability (terms
 // grow toward the mode, so nothing underflows), rescaled before overflow.
 func fisherUpperCut(n1, n2, m int64, logThr float64) int64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	k, _ := fisherWalk(n1, n2, m, hi, lo, -1, logThr)
 	return k
 }
@@ -52,7 +56,7 @@ func fisherUpperCut(n1, n2, m int64, logThr float64) int64 {
 // fisherLowerCut returns the largest k with log P(X1 ≤ k | m) ≤ logThr
 // (lo−1 when even the bottom table's tail exceeds it).
 func fisherLowerCut(n1, n2, m int64, logThr float64) int64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	k, _ := fisherWalk(n1, n2, m, lo, hi, 1, logThr)
 	return k
 }
@@ -63,7 +67,7 @@ func fisherLowerCut(n1, n2, m int64, logThr float64) int64 {
 // walking up, −1 when walking down.
 func fisherWalk(n1, n2, m, from, to, step int64, logThr float64) (last int64, logSum float64) {
 	const big = 1e280
-	base := logHypergeomPMF(from, n1, n2, m)
+	base := special.LogHypergeomPMF(from, n1, n2, m)
 	if base > logThr {
 		return from - step, math.Inf(-1)
 	}
@@ -72,9 +76,9 @@ func fisherWalk(n1, n2, m, from, to, step int64, logThr float64) (last int64, lo
 	k := from
 	for k != to {
 		if step > 0 {
-			term *= hypergeomRatio(k, n1, n2, m)
+			term *= special.HypergeomRatio(k, n1, n2, m)
 		} else {
-			term /= hypergeomRatio(k-1, n1, n2, m)
+			term /= special.HypergeomRatio(k-1, n1, n2, m)
 		}
 		if sum+term > limit {
 			break
@@ -99,21 +103,21 @@ func fisherWalk(n1, n2, m, from, to, step int64, logThr float64) (last int64, lo
 // are in the region, and their mass is nil at double precision) unless the
 // threshold itself is that small, in which case the merge runs in log space.
 func fisherTwoSidedCut(n1, n2, m int64, logThr float64) (left, right int64) {
-	lo, hi := hypergeomSupport(n1, n2, m)
-	ref := max(logHypergeomPMF(lo, n1, n2, m), logHypergeomPMF(hi, n1, n2, m))
+	lo, hi := special.HypergeomSupport(n1, n2, m)
+	ref := max(special.LogHypergeomPMF(lo, n1, n2, m), special.LogHypergeomPMF(hi, n1, n2, m))
 	if logThr-ref < -600 {
 		return fisherTwoSidedCutLog(n1, n2, m, logThr)
 	}
 	const floor, big = -700.0, 1e280
-	mode := hypergeomMode(n1, n2, m)
+	mode := special.HypergeomMode(n1, n2, m)
 	i, j := lo, hi
-	if logHypergeomPMF(lo, n1, n2, m)-ref < floor {
-		i = firstAbove(lo, mode, func(k int64) bool { return logHypergeomPMF(k, n1, n2, m)-ref >= floor })
+	if special.LogHypergeomPMF(lo, n1, n2, m)-ref < floor {
+		i = firstAbove(lo, mode, func(k int64) bool { return special.LogHypergeomPMF(k, n1, n2, m)-ref >= floor })
 	}
-	if logHypergeomPMF(hi, n1, n2, m)-ref < floor {
-		j = -firstAbove(-hi, -mode, func(k int64) bool { return logHypergeomPMF(-k, n1, n2, m)-ref >= floor })
+	if special.LogHypergeomPMF(hi, n1, n2, m)-ref < floor {
+		j = -firstAbove(-hi, -mode, func(k int64) bool { return special.LogHypergeomPMF(-k, n1, n2, m)-ref >= floor })
 	}
-	vi, vj := math.Exp(logHypergeomPMF(i, n1, n2, m)-ref), math.Exp(logHypergeomPMF(j, n1, n2, m)-ref)
+	vi, vj := math.Exp(special.LogHypergeomPMF(i, n1, n2, m)-ref), math.Exp(special.LogHypergeomPMF(j, n1, n2, m)-ref)
 	limit, cum := math.Exp(min(logThr-ref, 700)), 0.0
 	tie := 1 + FisherTieTolerance
 	for i <= j {
@@ -124,14 +128,14 @@ func fisherTwoSidedCut(n1, n2, m int64, logThr float64) (left, right int64) {
 			group += nvi
 			ni++
 			if ni <= hi {
-				nvi *= hypergeomRatio(ni-1, n1, n2, m)
+				nvi *= special.HypergeomRatio(ni-1, n1, n2, m)
 			}
 		}
 		for nj >= ni && nvj <= t {
 			group += nvj
 			nj--
 			if nj >= lo {
-				nvj /= hypergeomRatio(nj, n1, n2, m)
+				nvj /= special.HypergeomRatio(nj, n1, n2, m)
 			}
 		}
 		if cum+group > limit {
@@ -163,30 +167,30 @@ func firstAbove(a, b int64, ok func(int64) bool) int64 {
 // fisherTwoSidedCutLog is fisherTwoSidedCut in log space, for thresholds
 // far below the slice's largest end probability.
 func fisherTwoSidedCutLog(n1, n2, m int64, logThr float64) (left, right int64) {
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	tieTol := math.Log1p(FisherTieTolerance)
 	i, j := lo, hi
-	li, lj := logHypergeomPMF(lo, n1, n2, m), logHypergeomPMF(hi, n1, n2, m)
+	li, lj := special.LogHypergeomPMF(lo, n1, n2, m), special.LogHypergeomPMF(hi, n1, n2, m)
 	cum := math.Inf(-1)
 	for i <= j {
 		tie := min(li, lj) + tieTol
 		group := math.Inf(-1)
 		ni, nj, nli, nlj := i, j, li, lj
 		for ni <= nj && nli <= tie {
-			group = logAddExp(group, nli)
+			group = special.LogAddExp(group, nli)
 			ni++
 			if ni <= hi {
-				nli += math.Log(hypergeomRatio(ni-1, n1, n2, m))
+				nli += math.Log(special.HypergeomRatio(ni-1, n1, n2, m))
 			}
 		}
 		for nj >= ni && nlj <= tie {
-			group = logAddExp(group, nlj)
+			group = special.LogAddExp(group, nlj)
 			nj--
 			if nj >= lo {
-				nlj -= math.Log(hypergeomRatio(nj, n1, n2, m))
+				nlj -= math.Log(special.HypergeomRatio(nj, n1, n2, m))
 			}
 		}
-		next := logAddExp(cum, group)
+		next := special.LogAddExp(cum, group)
 		if next > logThr {
 			break
 		}

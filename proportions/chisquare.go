@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/special"
+)
 
 // PearsonChiSquare is Pearson's chi-square test of H0: π1 = π2 on the 2×2
 // table, with one degree of freedom:
@@ -66,7 +70,7 @@ func chiSquareResult(x2, dev float64, h Hypothesis, key, name, stat string) Test
 	if h.Alternative == TwoSided {
 		crit := sq(h.critical()) // χ²₁ quantile = z²
 		r.StatisticName, r.Statistic, r.DF, r.CriticalValue = stat, x2, 1, &crit
-		r.PValue, r.LogPValue = ChiSquare1UpperTail(x2)
+		r.PValue, r.LogPValue = special.ChiSquare1UpperTail(x2)
 	} else {
 		z := math.Copysign(math.Sqrt(x2), dev)
 		crit := h.critical()

@@ -1,5 +1,7 @@
 package proportions
 
+import "github.com/propscope/propscope/internal/special"
+
 // ClopperPearson is the "exact" interval for one proportion, inverting two
 // one-sided binomial tests each at level α/2: the lower limit is the π with
 // P(X ≥ x | π) = α/2 and the upper the π with P(X ≤ x | π) = α/2, which by
@@ -13,7 +15,7 @@ package proportions
 // Biometrika 26:404–413; method 5 of Newcombe (1998a). Its coverage is at
 // least the nominal level for every π, at the price of width.
 //
-// The beta quantiles come from betaLowerQuantile (betaquantile.go): a
+// The beta quantiles come from special.BetaLowerQuantile (betaquantile.go): a
 // uniform asymptotic expansion for large shapes, continued fractions with an
 // exact Taylor step otherwise, to about 1e-15 relative precision in each
 // limit and in its distance from 1; the shapes 1 (x = 0, 1, n − 1, n) have
@@ -28,16 +30,16 @@ var ClopperPearson = ProportionMethod{
 }
 
 func clopperPearsonLimits(x, n int64, conf Confidence) (lower, upper float64) {
-	t := newBetaTail(conf.Alpha()/2, conf.Z)
+	t := special.NewBetaTail(conf.Alpha()/2, conf.Z)
 	fx, fn := float64(x), float64(n)
 	lower, upper = 0, 1
 	if x > 0 {
-		lower, _ = betaLowerQuantile(fx, fn-fx+1, &t)
+		lower, _ = special.BetaLowerQuantile(fx, fn-fx+1, &t)
 	}
 	if x < n {
 		// The 1 − α/2 quantile of Beta(x+1, n−x) is 1 minus the α/2 quantile
 		// of Beta(n−x, x+1), which the solver returns directly.
-		_, upper = betaLowerQuantile(fn-fx, fx+1, &t)
+		_, upper = special.BetaLowerQuantile(fn-fx, fx+1, &t)
 	}
 	return lower, upper
 }

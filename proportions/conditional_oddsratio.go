@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/root"
+)
 
 // ConditionalMLE returns the conditional maximum-likelihood estimate of the
 // odds ratio: the ψ at which the mean of Fisher's noncentral hypergeometric
@@ -31,7 +35,7 @@ func conditionalMLE(c Counts) float64 {
 	}
 	t0, se := adjustedLogOddsRatio(c)
 	x := float64(c.X1)
-	return math.Exp(decreasingCrossing(func(t float64) float64 {
+	return math.Exp(root.DecreasingCrossing(func(t float64) float64 {
 		return x - d.split(math.Exp(t), c.X1).mean
 	}, t0, se))
 }
@@ -48,13 +52,13 @@ func conditionalTailLimits(c Counts, conf Confidence, w float64) (lower, upper f
 	t0, se := adjustedLogOddsRatio(c)
 	step := conf.Z * se
 	if c.X1 > d.lo {
-		lower = math.Exp(decreasingCrossing(func(t float64) float64 {
+		lower = math.Exp(root.DecreasingCrossing(func(t float64) float64 {
 			s := d.split(math.Exp(t), c.X1)
 			return half - (s.above + w*s.at)
 		}, t0, step))
 	}
 	if c.X1 < d.hi {
-		upper = math.Exp(decreasingCrossing(func(t float64) float64 {
+		upper = math.Exp(root.DecreasingCrossing(func(t float64) float64 {
 			s := d.split(math.Exp(t), c.X1)
 			return s.below + w*s.at - half
 		}, t0, step))

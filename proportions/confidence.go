@@ -1,8 +1,6 @@
 package proportions
 
-import (
-	"gonum.org/v1/gonum/stat/distuv"
-)
+import "github.com/propscope/propscope/internal/special"
 
 // Confidence is a two-sided confidence level with its normal quantile
 // z = Φ⁻¹((1 + Level)/2) computed once, so methods called for every outcome
@@ -18,11 +16,8 @@ func NewConfidence(level float64) (Confidence, error) {
 	if err := ValidateLevel(level); err != nil {
 		return Confidence{}, err
 	}
-	return Confidence{Level: level, Z: NormalQuantile((1 + level) / 2)}, nil
+	return Confidence{Level: level, Z: special.NormalQuantile((1 + level) / 2)}, nil
 }
 
 // Alpha returns 1 − Level.
 func (c Confidence) Alpha() float64 { return 1 - c.Level }
-
-// NormalQuantile returns Φ⁻¹(p) for the standard normal distribution.
-func NormalQuantile(p float64) float64 { return distuv.UnitNormal.Quantile(p) }

@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/special"
+)
 
 // FisherTieTolerance is the relative tolerance under which two tables count
 // as equally probable in the two-sided Fisher test: a table belongs to the
@@ -109,7 +113,7 @@ func fisherLogP(c Counts, a Alternative, mid bool) float64 {
 // The table is first oriented so that the pmf does not increase from x
 // upward: otherwise X2 = m − X1, hypergeometric with the groups swapped,
 // takes its place (Greater and Less swap too). Then, with ρ_k = P(k)/P(x)
-// and T = Σ_{k≥x} ρ_k (the tail from x, summed by hypergeomSumUp),
+// and T = Σ_{k≥x} ρ_k (the tail from x, summed by special.HypergeomSumUp),
 //
 //	Greater: p = P(x)·(T − w),   Less: p = 1 − P(x)·(T − 1 + w),
 //
@@ -122,12 +126,12 @@ func fisherLogP(c Counts, a Alternative, mid bool) float64 {
 // two-sided set is found by Newton steps (lowerEnd).
 func fisherLogPs(c Counts, a Alternative) (logs fisherPair, px float64) {
 	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	if lo == hi {
 		return fisherPair{}, 1 // a single possible table: no evidence either way
 	}
-	lpx := logHypergeomPMF(x, n1, n2, m)
-	if x < hi && hypergeomRatio(x, n1, n2, m) > 1 {
+	lpx := special.LogHypergeomPMF(x, n1, n2, m)
+	if x < hi && special.HypergeomRatio(x, n1, n2, m) > 1 {
 		x, n1, n2 = m-x, n2, n1
 		switch a {
 		case Greater:
@@ -135,7 +139,7 @@ func fisherLogPs(c Counts, a Alternative) (logs fisherPair, px float64) {
 		case Less:
 			a = Greater
 		}
-		lo, hi = hypergeomSupport(n1, n2, m)
+		lo, hi = special.HypergeomSupport(n1, n2, m)
 	}
 	f := fisherTables{n1: n1, n2: n2, m: m, x: x, lo: lo, hi: hi, lpx: lpx, px: math.Exp(lpx)}
 	switch a {
@@ -171,7 +175,7 @@ type fisherTables struct {
 	lpx, px              float64
 }
 
-// ratioDown returns the parameters of ratioWalk and ratioSeries for
+// ratioDown returns the parameters of special.RatioWalk and special.RatioSeries for
 // stepping down from k (see the ratio series in hypergeom.go).
 func (f *fisherTables) ratioDown(k int64) (a, b, c, d float64) {
 	return float64(k), float64(f.n2 - f.m + k), float64(f.n1 - k + 1), float64(f.m - k + 1)
@@ -197,7 +201,7 @@ func (f *fisherTables) mirrored(dist float64) bool { return f.n1 == f.n2 && dist
 func (f *fisherTables) centralMirrored(from int64, t float64) float64 {
 	half := f.m / 2
 	a, b, c, d := f.ratioDown(from)
-	s, _, last, _ := ratioWalk(a, b, c, d, t, 0, from-half-1)
+	s, _, last, _ := special.RatioWalk(a, b, c, d, t, 0, from-half-1)
 	s *= 2
 	if f.m%2 == 0 {
 		a, b, c, d = f.ratioDown(half + 1)
@@ -224,7 +228,7 @@ func (f *fisherTables) logUpper() (logs fisherPair) {
 			return logs
 		}
 	}
-	t := hypergeomSumUp(f.x, f.n1, f.n2, f.m)
+	t := special.HypergeomSumUp(f.x, f.n1, f.n2, f.m)
 	for i, w := range fisherShares {
 		if !done[i] {
 			logs[i] = f.lpx + math.Log(t-w)
@@ -247,7 +251,7 @@ func (f *fisherTables) logLower() (logs fisherPair) {
 		}
 		return logs
 	}
-	t := hypergeomSumUp(f.x, f.n1, f.n2, f.m)
+	t := special.HypergeomSumUp(f.x, f.n1, f.n2, f.m)
 	for i, w := range fisherShares {
 		logs[i] = math.Log1p(-f.px * (t - 1 + w))
 	}
@@ -281,7 +285,7 @@ func (f *fisherTables) logTwoSided() fisherPair {
 	ties, rho := 1.0, 1.0
 	bex, rbex := hi+1, 0.0
 	for k := f.x; k < hi; k++ {
-		rho *= hypergeomRatio(k, n1, n2, m)
+		rho *= special.HypergeomRatio(k, n1, n2, m)
 		if rho < tolLo {
 			bex, rbex = k+1, rho
 			break
@@ -295,7 +299,7 @@ func (f *fisherTables) logTwoSided() fisherPair {
 		if bin == lo {
 			return f.logAll(ties, bin, rbin)
 		}
-		r := hypergeomRatio(bin-1, n1, n2, m) // P(bin)/P(bin−1)
+		r := special.HypergeomRatio(bin-1, n1, n2, m) // P(bin)/P(bin−1)
 		next := rbin / r
 		if next > tolHi {
 			break
@@ -310,7 +314,7 @@ func (f *fisherTables) logTwoSided() fisherPair {
 		if bex > hi {
 			return 0
 		}
-		return rbex * hypergeomSumUp(bex, n1, n2, m)
+		return rbex * special.HypergeomSumUp(bex, n1, n2, m)
 	}
 	dist, sd := f.spread()
 	if f.mirrored(dist) {
@@ -325,7 +329,7 @@ func (f *fisherTables) logTwoSided() fisherPair {
 	}
 	if dist <= fisherCentralReach*sd || dist <= 128 {
 		a, b, c, d := f.ratioDown(bin)
-		central, j, ra, ok := ratioWalk(a, b, c, d, rbin, tolHi, bin-lo)
+		central, j, ra, ok := special.RatioWalk(a, b, c, d, rbin, tolHi, bin-lo)
 		if ok {
 			aex, rex, lties := f.lowerTies(bin-j, ra)
 			ties += lties
@@ -363,7 +367,7 @@ func (f *fisherTables) tailPair(tail, ties float64) (logs fisherPair) {
 // the band from above x down to k (where ρ is rho); the rest lies below k.
 func (f *fisherTables) logAll(ties float64, k int64, rho float64) fisherPair {
 	for ; k > f.lo; k-- {
-		rho /= hypergeomRatio(k-1, f.n1, f.n2, f.m)
+		rho /= special.HypergeomRatio(k-1, f.n1, f.n2, f.m)
 		if rho < 1-FisherTieTolerance {
 			break
 		}
@@ -380,7 +384,7 @@ func (f *fisherTables) lowerTies(a int64, rho float64) (int64, float64, float64)
 	for a >= f.lo && rho >= 1-FisherTieTolerance {
 		ties += rho
 		if a > f.lo {
-			rho /= hypergeomRatio(a-1, f.n1, f.n2, f.m)
+			rho /= special.HypergeomRatio(a-1, f.n1, f.n2, f.m)
 		}
 		a--
 	}
@@ -392,7 +396,7 @@ func (f *fisherTables) lowerTail(a int64, rho float64) float64 {
 	if a < f.lo {
 		return 0
 	}
-	return rho * hypergeomSumDown(a, f.n1, f.n2, f.m)
+	return rho * special.HypergeomSumDown(a, f.n1, f.n2, f.m)
 }
 
 // lowerEnd returns the inner end a of the lower run, the largest k below
@@ -411,8 +415,8 @@ func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
 	const tolHi = 1 + FisherTieTolerance
 	n1, n2, m, lo := f.n1, f.n2, f.m, f.lo
 	lt := math.Log1p(FisherTieTolerance)
-	top := min(hypergeomMode(n1, n2, m), b-1) // g(top) > 0: top is more probable than x
-	g := func(k int64) float64 { return logHypergeomPMF(k, n1, n2, m) - f.lpx - lt }
+	top := min(special.HypergeomMode(n1, n2, m), b-1) // g(top) > 0: top is more probable than x
+	g := func(k int64) float64 { return special.LogHypergeomPMF(k, n1, n2, m) - f.lpx - lt }
 	k := int64(math.Round(2*float64(n1)*float64(m)/float64(n1+n2) - float64(f.x)))
 	k = min(max(k, lo), top)
 	gk := g(k)
@@ -421,7 +425,7 @@ func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
 			return lo - 1, 0
 		}
 		step := 1.0
-		if s := math.Log(hypergeomRatio(k-1, n1, n2, m)); s > 0 {
+		if s := math.Log(special.HypergeomRatio(k-1, n1, n2, m)); s > 0 {
 			step = max(1, math.Ceil(gk/s))
 		}
 		if step >= float64(k-lo) {
@@ -433,7 +437,7 @@ func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
 	}
 	for range 64 {
 		step := 0.0
-		if s := math.Log(hypergeomRatio(k, n1, n2, m)); s > 0 {
+		if s := math.Log(special.HypergeomRatio(k, n1, n2, m)); s > 0 {
 			step = math.Floor(-gk / s)
 		}
 		if step < 8 || float64(k)+step >= float64(top) {
@@ -444,7 +448,7 @@ func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
 			// Rounding put k just past the root: step back by ratios.
 			rho := math.Exp(gk + lt)
 			for k > lo && rho > tolHi {
-				rho /= hypergeomRatio(k-1, n1, n2, m)
+				rho /= special.HypergeomRatio(k-1, n1, n2, m)
 				k--
 			}
 			if rho > tolHi {
@@ -455,7 +459,7 @@ func (f *fisherTables) lowerEnd(b int64) (int64, float64) {
 	}
 	rho := math.Exp(gk + lt) // ρ_k; walk up while ρ stays within 1 + tol
 	for k < top {
-		next := rho * hypergeomRatio(k, n1, n2, m)
+		next := rho * special.HypergeomRatio(k, n1, n2, m)
 		if next > tolHi {
 			break
 		}

@@ -6,6 +6,9 @@ import (
 	"math/big"
 	"math/rand/v2"
 	"testing"
+
+	"github.com/propscope/propscope/internal/bigref"
+	"github.com/propscope/propscope/internal/special"
 )
 
 // TestFisherReference checks Fisher's test and its mid-p against published
@@ -56,7 +59,7 @@ func TestFisherReference(t *testing.T) {
 // probability C(n1,k)C(n2,m−k)/C(n,m) as a big.Rat.
 func fisherBrute(c Counts, a Alternative, mid bool) float64 {
 	m := c.X1 + c.X2
-	lo, hi := hypergeomSupport(c.N1, c.N2, m)
+	lo, hi := special.HypergeomSupport(c.N1, c.N2, m)
 	total := new(big.Int).Binomial(c.N1+c.N2, m)
 	prob := func(k int64) *big.Rat {
 		num := new(big.Int).Mul(new(big.Int).Binomial(c.N1, k), new(big.Int).Binomial(c.N2, m-k))
@@ -169,7 +172,7 @@ func TestFisherTinyP(t *testing.T) {
 	m := c.X1 + c.X2
 	lt := math.Inf(-1)
 	for k := m - n; k <= c.X1; k++ {
-		lt = logAddExp(lt, logChoose(n, float64(k))+logChoose(n, float64(m-k))-logChoose(2*n, float64(m)))
+		lt = special.LogAddExp(lt, logChoose(n, float64(k))+logChoose(n, float64(m-k))-logChoose(2*n, float64(m)))
 	}
 	r, err := Fisher.Test(c, WithAlternative(Less))
 	if err != nil {
@@ -193,31 +196,6 @@ func TestFisherZeroMargin(t *testing.T) {
 			}
 		}
 	}
-}
-
-// hypergeomWeights returns W(k) = C(n1,k)·C(n2,m−k) for k = lo … hi as
-// exact integers (P(X1 = k) = W(k)/C(n1+n2, m)), by the exact recurrence
-// W(k+1) = W(k)·(n1−k)(m−k)/((k+1)(n2−m+k+1)). For n1+n2 below 3·10⁹.
-func hypergeomWeights(n1, n2, m int64) (lo int64, w []*big.Int) {
-	lo, hi := hypergeomSupport(n1, n2, m)
-	w = make([]*big.Int, hi-lo+1)
-	w[0] = new(big.Int).Mul(new(big.Int).Binomial(n1, lo), new(big.Int).Binomial(n2, m-lo))
-	for k := lo; k < hi; k++ {
-		v := new(big.Int).Mul(w[k-lo], big.NewInt((n1-k)*(m-k)))
-		w[k-lo+1] = v.Quo(v, big.NewInt((k+1)*(n2-m+k+1)))
-	}
-	return lo, w
-}
-
-// bigRatLog returns the log of a positive rational through its float64
-// mantissa and binary exponent, so far below the float64 range too (error
-// about one ulp of the result).
-func bigRatLog(r *big.Rat) float64 {
-	f := new(big.Float).SetPrec(128).SetRat(r)
-	mant := new(big.Float)
-	e := f.MantExp(mant)
-	mf, _ := mant.Float64()
-	return math.Log(mf) + float64(e)*math.Ln2
 }
 
 // fisherSets sums exact or high-precision weights (w[i] is the weight of
@@ -247,7 +225,7 @@ func fisherSets[W any](w []W, from, x int64, a Alternative, add func(acc, v W), 
 // for the mid-p; p near 1 as log1p(−rest/C).
 func fisherEnumLog(c Counts, a Alternative, mid bool) float64 {
 	m := c.X1 + c.X2
-	lo, w := hypergeomWeights(c.N1, c.N2, m)
+	lo, w := bigref.HypergeomWeights(c.N1, c.N2, m)
 	if len(w) == 1 {
 		return 0
 	}
@@ -274,7 +252,7 @@ func fisherEnumLog(c Counts, a Alternative, mid bool) float64 {
 		q, _ := new(big.Rat).SetFrac(rest, den).Float64()
 		return math.Log1p(-q)
 	}
-	return bigRatLog(new(big.Rat).SetFrac(num, den))
+	return bigref.RatLog(new(big.Rat).SetFrac(num, den))
 }
 
 // fisherWindow returns log p as a function of the alternative and the
@@ -285,13 +263,13 @@ func fisherEnumLog(c Counts, a Alternative, mid bool) float64 {
 // For the large tables, where exact enumeration is out of reach.
 func fisherWindow(c Counts) func(a Alternative, mid bool) float64 {
 	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	if lo == hi {
 		return func(Alternative, bool) float64 { return 0 }
 	}
 	const prec = 128
 	newF := func() *big.Float { return new(big.Float).SetPrec(prec) }
-	mode := hypergeomMode(n1, n2, m)
+	mode := special.HypergeomMode(n1, n2, m)
 	lp := func(k int64) float64 {
 		return logChoose(float64(n1), float64(k)) + logChoose(float64(n2), float64(m-k))
 	}
@@ -348,7 +326,7 @@ func fisherWindow(c Counts) func(a Alternative, mid bool) float64 {
 			return math.Log1p(-q)
 		}
 		r, _ := newF().Quo(num, total).Rat(nil)
-		return bigRatLog(r)
+		return bigref.RatLog(r)
 	}
 }
 
@@ -425,7 +403,7 @@ func TestFisherLowerEnd(t *testing.T) {
 	for range 3000 {
 		n1, n2 := 1+r.Int64N(400), 1+r.Int64N(400)
 		m := r.Int64N(n1 + n2 + 1)
-		lo, w := hypergeomWeights(n1, n2, m)
+		lo, w := bigref.HypergeomWeights(n1, n2, m)
 		hi := lo + int64(len(w)) - 1
 		x := lo + r.Int64N(hi-lo+1)
 		if x < hi && w[x+1-lo].Cmp(w[x-lo]) > 0 {
@@ -446,7 +424,7 @@ func TestFisherLowerEnd(t *testing.T) {
 		for want >= lo && !within(want) {
 			want--
 		}
-		lpx := logHypergeomPMF(x, n1, n2, m)
+		lpx := special.LogHypergeomPMF(x, n1, n2, m)
 		f := fisherTables{n1: n1, n2: n2, m: m, x: x, lo: lo, hi: hi, lpx: lpx, px: math.Exp(lpx)}
 		got, rho := f.lowerEnd(b)
 		tested++
@@ -535,7 +513,7 @@ func TestFisherDoesNotAllocate(t *testing.T) {
 // twice, with and without the tie tolerance.
 
 func logHypergeomPMFOld(k, n1, n2, m int64) float64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	if k < lo || k > hi {
 		return math.Inf(-1)
 	}
@@ -545,14 +523,14 @@ func logHypergeomPMFOld(k, n1, n2, m int64) float64 {
 	n := float64(n1 + n2)
 	p := float64(m) / n
 	q := float64(n1+n2-m) / n
-	return logBinomPMF(float64(k), float64(n1), p, q) +
-		logBinomPMF(float64(m-k), float64(n2), p, q) -
-		logBinomPMF(float64(m), n, p, q)
+	return special.LogBinomPMF(float64(k), float64(n1), p, q) +
+		special.LogBinomPMF(float64(m-k), float64(n2), p, q) -
+		special.LogBinomPMF(float64(m), n, p, q)
 }
 
 func oldFisherLogP(c Counts, a Alternative, mid bool) float64 {
 	n1, n2, m, x := c.N1, c.N2, c.X1+c.X2, c.X1
-	if lo, hi := hypergeomSupport(n1, n2, m); lo == hi {
+	if lo, hi := special.HypergeomSupport(n1, n2, m); lo == hi {
 		return 0
 	}
 	var incl, excl float64
@@ -571,12 +549,12 @@ func oldFisherLogP(c Counts, a Alternative, mid bool) float64 {
 	if !mid {
 		return min(incl, 0)
 	}
-	return min(logAddExp(incl, excl)-math.Ln2, 0)
+	return min(special.LogAddExp(incl, excl)-math.Ln2, 0)
 }
 
 func oldLogTwoSided(n1, n2, m int64, thr float64) float64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
-	mode := hypergeomMode(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
+	mode := special.HypergeomMode(n1, n2, m)
 	if logHypergeomPMFOld(mode, n1, n2, m) <= thr {
 		return 0
 	}
@@ -603,14 +581,14 @@ func oldLogTwoSided(n1, n2, m int64, thr float64) float64 {
 				a = mid
 			}
 		}
-		total = logAddExp(total, oldLogOuter(b, n1, n2, m, true))
+		total = special.LogAddExp(total, oldLogOuter(b, n1, n2, m, true))
 	}
 	return total
 }
 
 func oldLogTail(k, n1, n2, m int64, upper bool) float64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
-	mode := hypergeomMode(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
+	mode := special.HypergeomMode(n1, n2, m)
 	if upper {
 		switch {
 		case k <= lo:
@@ -634,11 +612,11 @@ func oldLogTail(k, n1, n2, m int64, upper bool) float64 {
 }
 
 func oldLogOuter(k, n1, n2, m int64, up bool) float64 {
-	lo, hi := hypergeomSupport(n1, n2, m)
+	lo, hi := special.HypergeomSupport(n1, n2, m)
 	sum, term := 1.0, 1.0
 	if up {
 		for j := k; j < hi; j++ {
-			term *= hypergeomRatio(j, n1, n2, m)
+			term *= special.HypergeomRatio(j, n1, n2, m)
 			sum += term
 			if term < sum*1e-17 {
 				break
@@ -646,7 +624,7 @@ func oldLogOuter(k, n1, n2, m int64, up bool) float64 {
 		}
 	} else {
 		for j := k; j > lo; j-- {
-			term /= hypergeomRatio(j-1, n1, n2, m)
+			term /= special.HypergeomRatio(j-1, n1, n2, m)
 			sum += term
 			if term < sum*1e-17 {
 				break

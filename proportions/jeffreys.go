@@ -1,5 +1,7 @@
 package proportions
 
+import "github.com/propscope/propscope/internal/special"
+
 // Jeffreys is the equal-tailed interval of the posterior of π under
 // Jeffreys' prior Beta(½, ½), which after x events in n trials is
 // Beta(x + ½, n − x + ½):
@@ -14,7 +16,7 @@ package proportions
 // since the posterior quantile there would exclude the observed extreme and
 // coverage near π = 0 and 1 would suffer.
 //
-// The beta quantiles come from betaLowerQuantile (betaquantile.go), to about
+// The beta quantiles come from special.BetaLowerQuantile (betaquantile.go), to about
 // 1e-15 relative precision in each limit and in its distance from 1.
 // (gonum's distuv.Beta quantiles, used before, put the 99.9999% upper limit
 // at x = 0 near 1 once n ≥ 60.)
@@ -27,15 +29,15 @@ var Jeffreys = ProportionMethod{
 }
 
 func jeffreysLimits(x, n int64, conf Confidence) (lower, upper float64) {
-	t := newBetaTail(conf.Alpha()/2, conf.Z)
+	t := special.NewBetaTail(conf.Alpha()/2, conf.Z)
 	a, b := float64(x)+0.5, float64(n-x)+0.5
 	lower, upper = 0, 1
 	if x > 0 {
-		lower, _ = betaLowerQuantile(a, b, &t)
+		lower, _ = special.BetaLowerQuantile(a, b, &t)
 	}
 	if x < n {
 		// upper tail of Beta(a, b) = lower tail of Beta(b, a) at 1 − x
-		_, upper = betaLowerQuantile(b, a, &t)
+		_, upper = special.BetaLowerQuantile(b, a, &t)
 	}
 	return lower, upper
 }

@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/root"
+)
 
 // oddsRatioScore returns the signed score statistic for H0: OR = ψ,
 //
@@ -112,7 +116,7 @@ func oddsRatioScoreLimits(c Counts, z2f float64) (lower, upper float64) {
 //	F(r) = A·D·(r²S(r) − z²f) = r²(A + D) + A·D·(r²/B + r²/C − z²f) = 0,
 //
 // which has no pole in [0, min(a, d)], F(0) = −z²f·ad < 0 and
-// F(min(a, d)) > 0, by bracketedHalley from
+// F(min(a, d)) > 0, by root.BracketedHalley from
 //
 //	r0 = r1r2/√(r1² + r2²),
 //
@@ -131,7 +135,7 @@ func oddsRatioLowerLimit(a, b, c, d, z2f float64) (num, den float64) {
 		r0 := r1 * r2 / math.Sqrt(r1*r1+r2*r2)
 		// With G = r²/B + r²/C: r²/B = B − 2b + b²/B, so (r²/B)′ = 1 − b²/B²
 		// and (r²/B)″ = 2b²/B³; (AD)′ = −(A + D), (AD)″ = 2.
-		r = bracketedHalley(func(r float64) (f, d1, d2 float64) {
+		r = root.BracketedHalley(func(r float64) (f, d1, d2 float64) {
 			A, D := a-r, d-r
 			iB, iC := 1/(b+r), 1/(c+r)
 			sb, sc := b*iB, c*iC

@@ -1,5 +1,7 @@
 package proportions
 
+import "github.com/propscope/propscope/internal/special"
+
 // noncentralHypergeom is Fisher's noncentral hypergeometric distribution:
 // the distribution of X1, the events in the first group, given both group
 // sizes and the total number of events m = x1 + x2, when the odds ratio is
@@ -30,13 +32,13 @@ type noncentralHypergeom struct {
 // margins of the counts.
 func newNoncentralHypergeom(c Counts) noncentralHypergeom {
 	m := c.X1 + c.X2
-	lo, hi := hypergeomSupport(c.N1, c.N2, m)
+	lo, hi := special.HypergeomSupport(c.N1, c.N2, m)
 	return noncentralHypergeom{n1: c.N1, n2: c.N2, m: m, lo: lo, hi: hi}
 }
 
 // ratio returns P(k+1)/P(k) under ψ for lo ≤ k < hi.
 func (d noncentralHypergeom) ratio(k int64, psi float64) float64 {
-	return hypergeomRatio(k, d.n1, d.n2, d.m) * psi
+	return special.HypergeomRatio(k, d.n1, d.n2, d.m) * psi
 }
 
 // mode returns a most probable value under ψ: the smallest k whose ratio

@@ -3,6 +3,8 @@ package proportions
 import (
 	"math"
 	"testing"
+
+	"github.com/propscope/propscope/internal/root"
 )
 
 // benchTables are typical tables for the speed targets: every asymptotic
@@ -139,14 +141,14 @@ func previousRatioLimitsFrom(c Counts, conf Confidence, z func(t float64) float6
 	if c.X1 > 0 && c.X2 > 0 {
 		// Start at the estimate, where the statistic is 0.
 		t0 = math.Log(c.P1()) - math.Log(c.P2())
-		return math.Exp(decreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
-			math.Exp(decreasingCrossingFrom(upperFn, t0, conf.Z, step))
+		return math.Exp(root.DecreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
+			math.Exp(root.DecreasingCrossingFrom(upperFn, t0, conf.Z, step))
 	}
 	if c.X1 > 0 {
-		lower = math.Exp(decreasingCrossing(lowerFn, t0, step))
+		lower = math.Exp(root.DecreasingCrossing(lowerFn, t0, step))
 	}
 	if c.X2 > 0 {
-		upper = math.Exp(decreasingCrossing(upperFn, t0, step))
+		upper = math.Exp(root.DecreasingCrossing(upperFn, t0, step))
 	}
 	return lower, upper
 }
@@ -167,14 +169,14 @@ func previousOddsRatioLimitsFrom(c Counts, conf Confidence, z func(t float64) fl
 		a, b := float64(c.X1), float64(c.N1-c.X1)
 		cc, d := float64(c.X2), float64(c.N2-c.X2)
 		t0 = math.Log(a) + math.Log(d) - math.Log(b) - math.Log(cc)
-		return math.Exp(decreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
-			math.Exp(decreasingCrossingFrom(upperFn, t0, conf.Z, step))
+		return math.Exp(root.DecreasingCrossingFrom(lowerFn, t0, -conf.Z, step)),
+			math.Exp(root.DecreasingCrossingFrom(upperFn, t0, conf.Z, step))
 	}
 	if hasLower {
-		lower = math.Exp(decreasingCrossing(lowerFn, t0, step))
+		lower = math.Exp(root.DecreasingCrossing(lowerFn, t0, step))
 	}
 	if hasUpper {
-		upper = math.Exp(decreasingCrossing(upperFn, t0, step))
+		upper = math.Exp(root.DecreasingCrossing(upperFn, t0, step))
 	}
 	return lower, upper
 }

@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/root"
+)
 
 // ratioScore returns the signed score statistic for H0: π1/π2 = θ,
 //
@@ -132,7 +136,7 @@ func ratioScoreLimits(c Counts, conf Confidence, f float64) (lower, upper float6
 //	F(k) = (x1 − k)·(U(k) − z²f) = q1k² + (x1 − k)·(q2k²/(x2 + k) − z²f) = 0,
 //
 // which has the root of U(k) = z²f but no pole in [0, x1], F(0) = −z²f·x1 < 0
-// and F(x1) = q1x1² > 0, by bracketedHalley from
+// and F(x1) = q1x1² > 0, by root.BracketedHalley from
 //
 //	k0 = k1k2/√(k1² + k2²),
 //
@@ -176,7 +180,7 @@ func ratioLowerRoot(x1, x2, q1, q2, z2f float64) float64 {
 	}
 	// With g(k) = q2k²/(x2 + k): g′ = q2(1 − x2²/(x2 + k)²), g″ =
 	// 2q2x2²/(x2 + k)³; F = q1k² + (x1 − k)(g − z²f).
-	return bracketedHalley(func(k float64) (f, d1, d2 float64) {
+	return root.BracketedHalley(func(k float64) (f, d1, d2 float64) {
 		u, iw := x1-k, 1/(x2+k)
 		r := x2 * iw
 		g := q2 * k * k * iw

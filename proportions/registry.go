@@ -36,7 +36,7 @@ type IntervalMethod struct {
 	// (x2, n2), or counting non-events in both groups (difference and odds
 	// ratio only), turns the interval (L, U) into its mirror image, (−U, −L)
 	// for the difference and (1/U, 1/L) for the ratio and the odds ratio.
-	// The exact coverage engine (proportions/exact) then computes one
+	// The exact coverage engine (proportions/operating) then computes one
 	// outcome of each mirror set, up to 4 times fewer; its tests check the
 	// claim for every registered method.
 	Symmetric bool `json:"symmetric,omitempty"`

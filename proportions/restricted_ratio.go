@@ -19,12 +19,14 @@ import "math"
 // 2C / (−B + √(B² − 4AC)), free of cancellation since −B > 0, after dividing
 // the equation by max(θ, 1) so that B² cannot overflow.
 func restrictedUnderRatio(c Counts, theta float64) (p1, p2 float64) {
-	return restrictedRatioRates(float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2), theta)
+	return RestrictedRatioRates(float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2), theta)
 }
 
-// restrictedRatioRates is restrictedUnderRatio for real-valued counts (study
-// planning calls it with the anticipated rates, x = n·π).
-func restrictedRatioRates(x1, n1, x2, n2, theta float64) (p1, p2 float64) {
+// RestrictedRatioRates returns the maximum-likelihood estimates (p̃1, p̃2)
+// under π1 = θ·π2 for real-valued counts: the root of the quadratic stated at
+// restrictedUnderRatio (Miettinen & Nurminen 1985; Farrington & Manning 1990).
+// Study planning calls it with the anticipated rates as counts, x = n·π.
+func RestrictedRatioRates(x1, n1, x2, n2, theta float64) (p1, p2 float64) {
 	s := math.Max(theta, 1)
 	a := (n1 + n2) * theta / s
 	b := -(n1*theta + x1 + n2 + x2*theta) / s

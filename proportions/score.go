@@ -67,7 +67,7 @@ func scoreLimits(c Counts, z, k float64) (lower, upper float64) {
 //
 // and then δ = d − z²k/λ, whose distance from d has the relative
 // precision of λ. H rises from 0 at λ = 0 to ∞ (δ falls from d to −1) and
-// is smooth on the scale of λ, so Halley steps (see bracketedHalley) on
+// is smooth on the scale of λ, so Halley steps (see root.BracketedHalley) on
 // F(λ) = H(λ) − z²k, kept in a bracket (bisecting when a step would leave
 // it), converge fast from λ = z²k/(d − h), h Newcombe's hybrid lower limit
 // with z√k, usually within 10⁻² of the root. The bracket starts as (0, ∞),

@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/special"
+)
 
 // tailWork holds the scratch arrays for evaluating a region's probability
 // under two independent binomials, reused across nuisance values.
@@ -42,7 +46,7 @@ func fillBinomial(b []float64, n int, p, cutoff float64, recip []float64) (lo, h
 		return n, n
 	}
 	mode := min(int(float64(n+1)*p), n)
-	b[mode] = math.Exp(logBinomPMF(float64(mode), float64(n), p, q))
+	b[mode] = math.Exp(special.LogBinomPMF(float64(mode), float64(n), p, q))
 	odds := p / q
 	hi = mode
 	for k := mode; k < n; k++ {
@@ -118,10 +122,10 @@ func (w *tailWork) logProb(r *region, p1, p2 float64) float64 {
 		w.lb1, w.lb2 = make([]float64, r.n1+1), make([]float64, r.n2+1)
 	}
 	for k := range w.lb1 {
-		w.lb1[k] = logBinomPMF(float64(k), float64(r.n1), p1, 1-p1)
+		w.lb1[k] = special.LogBinomPMF(float64(k), float64(r.n1), p1, 1-p1)
 	}
 	for k := range w.lb2 {
-		w.lb2[k] = logBinomPMF(float64(k), float64(r.n2), p2, 1-p2)
+		w.lb2[k] = special.LogBinomPMF(float64(k), float64(r.n2), p2, 1-p2)
 	}
 	total := math.Inf(-1)
 	for x1 := 0; x1 <= r.n1; x1++ {
@@ -144,7 +148,7 @@ func (w *tailWork) logProb(r *region, p1, p2 float64) float64 {
 				sum += math.Exp(w.lb2[x2] - top)
 			}
 		}
-		total = logAddExp(total, w.lb1[x1]+top+math.Log(sum))
+		total = special.LogAddExp(total, w.lb1[x1]+top+math.Log(sum))
 	}
 	return total
 }

@@ -4,10 +4,10 @@
 // The asymptotic formulas (normal approximation with pooled or unpooled
 // variance, Farrington–Manning restricted-MLE variance for margins,
 // continuity correction) live in package proportions with the Design type
-// (proportions.SampleSize, PowerAt, DetectableDifference, PowerByN,
+// (SampleSize, PowerAt, DetectableDifference, PowerByN,
 // PowerByDifference). This package takes the same Design and a registered
 // proportions.TestMethod and, through the operating-characteristics engine
-// (package exact), enumerates every outcome of the two binomial
+// (package operating), enumerates every outcome of the two binomial
 // distributions:
 //
 //	power = Σ_{x1} Σ_{x2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)}.

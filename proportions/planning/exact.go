@@ -6,17 +6,17 @@ import (
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
-	"github.com/propscope/propscope/proportions/exact"
+	"github.com/propscope/propscope/proportions/operating"
 )
 
 // MaxExactGroup is the largest group size for which exact power is
-// computed: that of the operating-characteristics engine (package exact).
-const MaxExactGroup = exact.MaxGroupSize
+// computed: that of the operating-characteristics engine (package operating).
+const MaxExactGroup = operating.MaxGroupSize
 
 // ExactPowerResult is the exact power of the test the user will run, for a
 // design and group sizes.
 type ExactPowerResult struct {
-	Design proportions.Design `json:"design"`
+	Design Design `json:"design"`
 	// Test is the key of the test, TestName its published name.
 	Test       string                   `json:"test"`
 	TestName   string                   `json:"test_name"`
@@ -25,7 +25,7 @@ type ExactPowerResult struct {
 	N1         int64                    `json:"n1"`
 	N2         int64                    `json:"n2"`
 	// Power is the exact power; Asymptotic the normal approximation of
-	// proportions.PowerAt at the same sizes, for comparison.
+	// PowerAt at the same sizes, for comparison.
 	Power      float64  `json:"power"`
 	Asymptotic float64  `json:"asymptotic_power"`
 	Notes      []string `json:"notes"`
@@ -42,13 +42,13 @@ type ExactPowerResult struct {
 //
 // b the binomial probability, by running the test on every outcome (tails of
 // total probability below 10⁻¹⁶ left out) with the operating-characteristics
-// engine (exact.Decision.Power). Design.Power, Allocation,
+// engine (operating.Decision.Power). Design.Power, Allocation,
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
-// its own statistic). Errors wrap the sentinels of proportions.SampleSize
+// its own statistic). Errors wrap the sentinels of SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the
 // design, ErrDesign for sizes outside [1, MaxExactGroup], or the context's
 // error when it is cancelled.
-func ExactPower(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
+func ExactPower(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return ExactPowerResult{}, err
@@ -56,7 +56,7 @@ func ExactPower(ctx context.Context, d proportions.Design, m proportions.TestMet
 	if err := checkSizes(n1, n2); err != nil {
 		return ExactPowerResult{}, err
 	}
-	asym, err := proportions.PowerAt(d, n1, n2)
+	asym, err := PowerAt(d, n1, n2)
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
@@ -65,24 +65,24 @@ func ExactPower(ctx context.Context, d proportions.Design, m proportions.TestMet
 		return ExactPowerResult{}, err
 	}
 	return ExactPowerResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Hypotheses: dc.Hypotheses,
-		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: proportions.PlanningCaution}, nil
+		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: PlanningCaution}, nil
 }
 
 // newDecision validates the design's fields and rates (not its power) and
 // the test, and returns the decision rule for the engine.
-func newDecision(d proportions.Design, m proportions.TestMethod) (exact.Decision, error) {
+func newDecision(d Design, m proportions.TestMethod) (operating.Decision, error) {
 	if err := d.Validate(); err != nil {
-		return exact.Decision{}, err
+		return operating.Decision{}, err
 	}
 	hs, err := d.TestHypotheses(m)
 	if err != nil {
-		return exact.Decision{}, err
+		return operating.Decision{}, err
 	}
-	return exact.Decision{Test: m, Hypotheses: hs}, nil
+	return operating.Decision{Test: m, Hypotheses: hs}, nil
 }
 
 // exactPower is the engine's exact power, cancelled with ctx.
-func exactPower(ctx context.Context, dc exact.Decision, n1, n2 int64, p1, p2 float64) (float64, error) {
+func exactPower(ctx context.Context, dc operating.Decision, n1, n2 int64, p1, p2 float64) (float64, error) {
 	return dc.PowerContext(ctx, int(n1), int(n2), p1, p2)
 }
 
@@ -110,22 +110,22 @@ func testNotes(m proportions.TestMethod) []string {
 // is the smallest size from which every size up to Horizon reaches it (the
 // safer plan). Curve holds the exact power at every size scanned.
 type ExactSampleSizeResult struct {
-	Design   proportions.Design `json:"design"`
-	Test     string             `json:"test"`
-	TestName string             `json:"test_name"`
-	Citation string             `json:"citation"`
-	// Asymptotic is the normal-approximation answer of proportions.SampleSize.
-	Asymptotic proportions.SampleSizeResult `json:"asymptotic"`
-	From       int64                        `json:"from"`
-	Horizon    int64                        `json:"horizon"`
-	First      ExactSize                    `json:"first"`
+	Design   Design `json:"design"`
+	Test     string `json:"test"`
+	TestName string `json:"test_name"`
+	Citation string `json:"citation"`
+	// Asymptotic is the normal-approximation answer of SampleSize.
+	Asymptotic SampleSizeResult `json:"asymptotic"`
+	From       int64            `json:"from"`
+	Horizon    int64            `json:"horizon"`
+	First      ExactSize        `json:"first"`
 	// Stable is the zero ExactSize with StableFound false when the power at
 	// a horizon set in Search falls below the target.
-	Stable      ExactSize              `json:"stable"`
-	StableFound bool                   `json:"stable_found"`
-	Curve       proportions.PowerCurve `json:"curve"`
-	Notes       []string               `json:"notes"`
-	Caution     string                 `json:"caution"`
+	Stable      ExactSize  `json:"stable"`
+	StableFound bool       `json:"stable_found"`
+	Curve       PowerCurve `json:"curve"`
+	Notes       []string   `json:"notes"`
+	Caution     string     `json:"caution"`
 }
 
 // ExactSize is one group-size answer of the exact search.
@@ -144,12 +144,12 @@ type ExactSize struct {
 // stays at or above the target up to the horizon (see Search for the
 // defaults). It reads every field of the design; Variance and
 // ContinuityCorrection shape only the asymptotic answer reported beside.
-// Errors are those of proportions.SampleSize and ExactPower, ErrUnreachable
+// Errors are those of SampleSize and ExactPower, ErrUnreachable
 // when no size up to Search.MaxN1 reaches the target, ErrTooLarge when the
 // asymptotic size is above 1.5·MaxN1 (checked first, to fail fast), and
 // ErrDesign for a bad Search.
-func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
-	asym, err := proportions.SampleSize(d)
+func ExactSampleSize(ctx context.Context, d Design, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
+	asym, err := SampleSize(d)
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
@@ -172,8 +172,8 @@ func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.Te
 		return ExactSampleSizeResult{}, err
 	}
 	res := ExactSampleSizeResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Asymptotic: asym,
-		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: proportions.PlanningCaution,
-		Curve: proportions.PowerCurve{Design: d, Method: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: proportions.PlanningCaution}}
+		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: PlanningCaution,
+		Curve: PowerCurve{Design: d, Method: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: PlanningCaution}}
 	res.First = sizeAt(d, sc.curve, sc.first)
 	if sc.stableFound {
 		res.Stable = sizeAt(d, sc.curve, sc.stable)
@@ -183,7 +183,7 @@ func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.Te
 }
 
 // sizeAt picks the curve point at n1.
-func sizeAt(d proportions.Design, curve []proportions.PowerPoint, n1 int64) ExactSize {
+func sizeAt(d Design, curve []PowerPoint, n1 int64) ExactSize {
 	for _, p := range curve {
 		if p.N1 == n1 {
 			return ExactSize{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
@@ -206,25 +206,25 @@ func searchNotes(r ExactSampleSizeResult) []string {
 }
 
 // ExactPowerByN returns the exact power of test m for every n1 from n1From
-// to n1To (in equal steps when that is more than proportions.MaxCurvePoints
+// to n1To (in equal steps when that is more than MaxCurvePoints
 // sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Design.Power is
 // not used.
-func ExactPowerByN(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1From, n1To int64) (proportions.PowerCurve, error) {
+func ExactPowerByN(ctx context.Context, d Design, m proportions.TestMethod, n1From, n1To int64) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
-	grid, err := proportions.PowerByN(d, n1From, n1To) // validates the range, gives the sizes
+	grid, err := PowerByN(d, n1From, n1To) // validates the range, gives the sizes
 	if err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
 	grid.Method = "exact power of " + m.Name
 	for i, p := range grid.Points {
 		if err := checkSizes(p.N1, p.N2); err != nil {
-			return proportions.PowerCurve{}, err
+			return PowerCurve{}, err
 		}
 		if grid.Points[i].Power, err = exactPower(ctx, dc, p.N1, p.N2, d.Rate1, d.Rate2); err != nil {
-			return proportions.PowerCurve{}, err
+			return PowerCurve{}, err
 		}
 	}
 	return grid, nil
@@ -233,28 +233,28 @@ func ExactPowerByN(ctx context.Context, d proportions.Design, m proportions.Test
 // ExactPowerByDifference returns the exact power of test m with n1 and n2
 // units against the first group's true rate, at points rates evenly spaced
 // from rate1From to rate1To, π2 = Design.Rate2 fixed. The test runs once on
-// every outcome (exact.NewRejectionRegion, which stops when ctx is
+// every outcome (operating.NewRejectionRegion, which stops when ctx is
 // cancelled); each rate then costs one sum over the region's runs.
-func ExactPowerByDifference(ctx context.Context, d proportions.Design, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (proportions.PowerCurve, error) {
+func ExactPowerByDifference(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
 	if err := checkSizes(n1, n2); err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
-	grid, err := proportions.PowerByDifference(d, n1, n2, rate1From, rate1To, points)
+	grid, err := PowerByDifference(d, n1, n2, rate1From, rate1To, points)
 	if err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
-	region, err := exact.NewRejectionRegion(ctx, dc, int(n1), int(n2))
+	region, err := operating.NewRejectionRegion(ctx, dc, int(n1), int(n2))
 	if err != nil {
-		return proportions.PowerCurve{}, err
+		return PowerCurve{}, err
 	}
 	grid.Method = "exact power of " + m.Name
 	for i, p := range grid.Points {
 		if grid.Points[i].Power, err = region.Power(p.Rate1, d.Rate2); err != nil {
-			return proportions.PowerCurve{}, err
+			return PowerCurve{}, err
 		}
 	}
 	return grid, nil
@@ -283,11 +283,4 @@ func (r ExactSampleSizeResult) String() string {
 	fmt.Fprintf(&b, "  normal approximation: %d + %d (%s)\n", r.Asymptotic.N1, r.Asymptotic.N2, r.Asymptotic.Method)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()
-}
-
-func writeNotes(b *strings.Builder, notes []string, caution string) {
-	for _, n := range notes {
-		fmt.Fprintf(b, "  note: %s\n", n)
-	}
-	fmt.Fprintf(b, "  %s\n", caution)
 }

@@ -47,7 +47,7 @@ var waldDifference = proportions.TestMethod{
 
 // bruteRejects decides through the public Test entry point with options,
 // independently of Design.TestHypotheses.
-func bruteRejects(t *testing.T, d proportions.Design, m proportions.TestMethod, c proportions.Counts) bool {
+func bruteRejects(t *testing.T, d Design, m proportions.TestMethod, c proportions.Counts) bool {
 	t.Helper()
 	type one struct {
 		null float64
@@ -55,9 +55,9 @@ func bruteRejects(t *testing.T, d proportions.Design, m proportions.TestMethod, 
 	}
 	var runs []one
 	switch d.Goal {
-	case proportions.Equality:
+	case Equality:
 		runs = []one{{m.Family.NoEffect(), proportions.TwoSided}}
-	case proportions.Equivalence:
+	case Equivalence:
 		runs = []one{{-d.Margin, proportions.Greater}, {d.Margin, proportions.Less}}
 		if d.Scale == proportions.Ratio {
 			runs = []one{{1 / d.Margin, proportions.Greater}, {d.Margin, proportions.Less}}
@@ -81,7 +81,7 @@ func bruteRejects(t *testing.T, d proportions.Design, m proportions.TestMethod, 
 }
 
 // brutePower enumerates every outcome with gonum's binomial probabilities.
-func brutePower(t *testing.T, d proportions.Design, m proportions.TestMethod, n1, n2 int64) float64 {
+func brutePower(t *testing.T, d Design, m proportions.TestMethod, n1, n2 int64) float64 {
 	t.Helper()
 	b1 := distuv.Binomial{N: float64(n1), P: d.Rate1}
 	b2 := distuv.Binomial{N: float64(n2), P: d.Rate2}
@@ -98,23 +98,23 @@ func brutePower(t *testing.T, d proportions.Design, m proportions.TestMethod, n1
 
 func exactDesigns() []struct {
 	name string
-	d    proportions.Design
+	d    Design
 	m    proportions.TestMethod
 } {
-	eq := proportions.NewDesign(proportions.Equality, 0.6, 0.75)
-	ni := proportions.NewDesign(proportions.NonInferiority, 0.8, 0.8)
+	eq := NewDesign(Equality, 0.6, 0.75)
+	ni := NewDesign(NonInferiority, 0.8, 0.8)
 	ni.Margin = -0.15
-	sup := proportions.NewDesign(proportions.Superiority, 0.1, 0.3)
+	sup := NewDesign(Superiority, 0.1, 0.3)
 	sup.Alternative = proportions.Less
-	equiv := proportions.NewDesign(proportions.Equivalence, 0.5, 0.5)
+	equiv := NewDesign(Equivalence, 0.5, 0.5)
 	equiv.Margin = 0.2
-	ratioNI := proportions.NewDesign(proportions.NonInferiority, 0.5, 0.5)
+	ratioNI := NewDesign(NonInferiority, 0.5, 0.5)
 	ratioNI.Scale, ratioNI.Margin, ratioNI.Allocation = proportions.Ratio, 0.75, 1.5
-	ratioEquiv := proportions.NewDesign(proportions.Equivalence, 0.5, 0.5)
+	ratioEquiv := NewDesign(Equivalence, 0.5, 0.5)
 	ratioEquiv.Scale, ratioEquiv.Margin = proportions.Ratio, 1.4
 	return []struct {
 		name string
-		d    proportions.Design
+		d    Design
 		m    proportions.TestMethod
 	}{
 		{"equality score (ratio scale)", eq, proportions.FarringtonManningRatio},
@@ -183,14 +183,14 @@ func TestExactPowerAgainstMonteCarlo(t *testing.T) {
 // horizon = max(first + 10, ⌈1.25·first⌉) (default); stable = the smallest
 // n1 from which every size up to the horizon reaches the target.
 func TestExactSampleSizeDefinition(t *testing.T) {
-	smooth := proportions.NewDesign(proportions.Equality, 0.2, 0.7)
+	smooth := NewDesign(Equality, 0.2, 0.7)
 	smooth.Power = 0.9
 	// Fisher's power at 0.7 vs 0.2 reaches 0.85 at n1 = 19, dips below at
 	// 20 and stays above from 21 (the brute force below confirms).
-	toothed := proportions.NewDesign(proportions.Equality, 0.7, 0.2)
+	toothed := NewDesign(Equality, 0.7, 0.2)
 	toothed.Power = 0.85
 	for _, tc := range []struct {
-		d proportions.Design
+		d Design
 		m proportions.TestMethod
 	}{{smooth, proportions.Fisher}, {smooth, proportions.FarringtonManningRatio}, {toothed, proportions.Fisher}} {
 		d, m := tc.d, tc.m
@@ -236,7 +236,7 @@ func TestExactSampleSizeDefinition(t *testing.T) {
 // the smallest size reaching a target and the size from which it stays
 // there can differ. Checked against brute force, not the code's own curve.
 func TestExactPowerSawTooth(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.2, 0.7)
+	d := NewDesign(Equality, 0.2, 0.7)
 	prev, drops := 0.0, 0
 	for n := int64(1); n <= 40; n++ {
 		p := brutePower(t, d, proportions.Fisher, n, n)
@@ -283,9 +283,9 @@ func TestExactPowerByDifference(t *testing.T) {
 }
 
 // At large n the exact power of the score test approaches the normal
-// approximation (the model behind proportions.PowerAt).
+// approximation (the model behind PowerAt).
 func TestExactPowerNearAsymptoticAtLargeN(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.6, 0.75)
+	d := NewDesign(Equality, 0.6, 0.75)
 	res, err := ExactPower(context.Background(), d, proportions.FarringtonManningRatio, 400, 400)
 	if err != nil {
 		t.Fatal(err)
@@ -297,7 +297,7 @@ func TestExactPowerNearAsymptoticAtLargeN(t *testing.T) {
 
 func TestExactPlanningErrors(t *testing.T) {
 	ctx := context.Background()
-	ni := proportions.NewDesign(proportions.NonInferiority, 0.8, 0.8)
+	ni := NewDesign(NonInferiority, 0.8, 0.8)
 	ni.Margin = -0.1
 	if _, err := ExactPower(ctx, ni, proportions.Fisher, 20, 20); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("Fisher with a margin: %v", err)
@@ -313,15 +313,15 @@ func TestExactPlanningErrors(t *testing.T) {
 	if _, err := ExactPower(ctx, bad, waldDifference, 20, 20); !errors.Is(err, proportions.ErrDesign) {
 		t.Errorf("rate 1.2: %v", err)
 	}
-	same := proportions.NewDesign(proportions.Superiority, 0.5, 0.5)
+	same := NewDesign(Superiority, 0.5, 0.5)
 	if _, err := ExactSampleSize(ctx, same, waldDifference, Search{}); !errors.Is(err, proportions.ErrUnreachable) {
 		t.Errorf("equal rates superiority: %v", err)
 	}
-	eq := proportions.NewDesign(proportions.Equality, 0.5, 0.7)
+	eq := NewDesign(Equality, 0.5, 0.7)
 	if _, err := ExactSampleSize(ctx, eq, waldDifference, Search{MaxN1: 65}); !errors.Is(err, proportions.ErrUnreachable) {
 		t.Errorf("cap below the answer: %v", err)
 	}
-	if _, err := ExactSampleSize(ctx, proportions.NewDesign(proportions.Equality, 0.5, 0.51), waldDifference, Search{}); !errors.Is(err, proportions.ErrTooLarge) {
+	if _, err := ExactSampleSize(ctx, NewDesign(Equality, 0.5, 0.51), waldDifference, Search{}); !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("asymptotic size far above the cap: %v", err)
 	}
 	if _, err := ExactSampleSize(ctx, eq, waldDifference, Search{From: 50, Horizon: 10}); !errors.Is(err, proportions.ErrDesign) {
@@ -338,7 +338,7 @@ func TestExactPlanningErrors(t *testing.T) {
 // stable size, and says so (Fisher, 0.7 vs 0.2, target 0.85: the power at
 // n1 = 20 is below the target, see TestExactSampleSizeDefinition).
 func TestExactSampleSizeUserHorizon(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.7, 0.2)
+	d := NewDesign(Equality, 0.7, 0.2)
 	d.Power = 0.85
 	res, err := ExactSampleSize(context.Background(), d, proportions.Fisher, Search{Horizon: 20})
 	if err != nil {
@@ -378,7 +378,7 @@ func TestExactPowerFisherAgainstSciPy(t *testing.T) {
 		t.Fatalf("only %d checks", len(f.Checks))
 	}
 	for _, c := range f.Checks {
-		d := proportions.NewDesign(proportions.Equality, c.P1, c.P2)
+		d := NewDesign(Equality, c.P1, c.P2)
 		d.Alpha = c.Alpha
 		res, err := ExactPower(context.Background(), d, proportions.Fisher, c.N1, c.N2)
 		if err != nil {
@@ -391,7 +391,7 @@ func TestExactPowerFisherAgainstSciPy(t *testing.T) {
 }
 
 func TestExactResultsPrintAndMarshal(t *testing.T) {
-	d := proportions.NewDesign(proportions.Equality, 0.7, 0.2)
+	d := NewDesign(Equality, 0.7, 0.2)
 	d.Power, d.Dropout, d.Allocation = 0.85, 0.1, 2
 	res, err := ExactSampleSize(context.Background(), d, proportions.Fisher, Search{})
 	if err != nil {
@@ -417,7 +417,7 @@ func TestExactResultsPrintAndMarshal(t *testing.T) {
 		t.Errorf("ExactPower String: %v %v", p, err)
 	}
 	// A large allocation keeps group 2 within the engine's limit.
-	wide := proportions.NewDesign(proportions.Equality, 0.5, 0.7)
+	wide := NewDesign(Equality, 0.5, 0.7)
 	wide.Allocation = 30
 	if _, err := ExactSampleSize(context.Background(), wide, proportions.PearsonChiSquare, Search{}); err != nil {
 		t.Errorf("allocation 50: %v", err)

@@ -12,7 +12,7 @@ import (
 // of plots, the old one 20%. The analysis will use Fisher's exact test at
 // two-sided 5%; how many plots per treatment give 85% power?
 func ExampleExactSampleSize() {
-	d := proportions.NewDesign(proportions.Equality, 0.70, 0.20)
+	d := planning.NewDesign(planning.Equality, 0.70, 0.20)
 	d.Power = 0.85
 	res, err := planning.ExactSampleSize(context.Background(), d, proportions.Fisher, planning.Search{})
 	if err != nil {
@@ -31,7 +31,7 @@ func ExampleExactSampleSize() {
 // The exact power of the test that will be run, beside the normal
 // approximation, for 40 plots per treatment.
 func ExampleExactPower() {
-	d := proportions.NewDesign(proportions.Equality, 0.45, 0.20)
+	d := planning.NewDesign(planning.Equality, 0.45, 0.20)
 	res, err := planning.ExactPower(context.Background(), d, proportions.Fisher, 40, 40)
 	if err != nil {
 		fmt.Println(err)
@@ -45,7 +45,7 @@ func ExampleExactPower() {
 // The saw-tooth of exact power as data for a chart: Fisher's exact test,
 // 70% against 20%, for 17 to 22 plots per treatment.
 func ExampleExactPowerByN() {
-	d := proportions.NewDesign(proportions.Equality, 0.70, 0.20)
+	d := planning.NewDesign(planning.Equality, 0.70, 0.20)
 	curve, err := planning.ExactPowerByN(context.Background(), d, proportions.Fisher, 17, 22)
 	if err != nil {
 		fmt.Println(err)

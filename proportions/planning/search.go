@@ -33,7 +33,7 @@ type Search struct {
 
 // maxN1 is the cap of the scan: MaxN1 (default DefaultMaxN1), lowered so
 // that group 2 stays within MaxExactGroup.
-func (s Search) maxN1(d proportions.Design) int64 {
+func (s Search) maxN1(d Design) int64 {
 	maxN := s.MaxN1
 	if maxN == 0 {
 		maxN = DefaultMaxN1
@@ -51,7 +51,7 @@ type powerFunc func(ctx context.Context, n1, n2 int64) (float64, error)
 type scanResult struct {
 	first, stable, horizon int64
 	from                   int64
-	curve                  []proportions.PowerPoint
+	curve                  []PowerPoint
 	// stableFound is false when the power at a user-set horizon is below
 	// the target, so no size is stable up to it.
 	stableFound bool
@@ -60,7 +60,7 @@ type scanResult struct {
 // scan walks n1 upward from s.From until the power reaches the target, then
 // on to the horizon, and finds the smallest size from which every size up
 // to the horizon reaches the target.
-func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) (scanResult, error) {
+func scan(ctx context.Context, d Design, s Search, power powerFunc) (scanResult, error) {
 	from, maxN := s.From, s.maxN1(d)
 	if from == 0 {
 		from = 1
@@ -76,7 +76,7 @@ func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) 
 		if err != nil {
 			return 0, err
 		}
-		res.curve = append(res.curve, proportions.PowerPoint{N1: n1, N2: n2, Rate1: d.Rate1,
+		res.curve = append(res.curve, PowerPoint{N1: n1, N2: n2, Rate1: d.Rate1,
 			Difference: d.Rate1 - d.Rate2, Ratio: d.Rate1 / d.Rate2, Power: p})
 		return p, nil
 	}
@@ -119,7 +119,7 @@ func scan(ctx context.Context, d proportions.Design, s Search, power powerFunc) 
 
 // stableFrom returns the smallest n1 from which every point of the curve
 // (ordered by n1, ending at the horizon) reaches the target.
-func stableFrom(curve []proportions.PowerPoint, target float64) (int64, bool) {
+func stableFrom(curve []PowerPoint, target float64) (int64, bool) {
 	i := len(curve)
 	for i > 0 && curve[i-1].Power >= target {
 		i--

@@ -1,0 +1,54 @@
+package operating
+
+import (
+	"context"
+	"strings"
+	"testing"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// Fact of the trade (common practice; Newcombe 1998, Stat Med 17:873–890,
+// and Brown & Li 2005 on coverage): at small n with a rate near 0 the Wald
+// interval undercovers badly while the score intervals stay near nominal.
+func TestCheckAnalysisFlagsWaldAtSmallN(t *testing.T) {
+	c, err := proportions.NewComparison(1, 15, 4, 18, proportions.Labels{First: "A", Second: "B", Event: "defective"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := proportions.Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := CheckAnalysis(context.Background(), &a); err != nil {
+		t.Fatal(err)
+	}
+	var flagged []string
+	for _, w := range a.Warnings {
+		if w.Code == proportions.WarnUndercoverage {
+			flagged = append(flagged, w.Message)
+		}
+	}
+	joined := strings.Join(flagged, "\n")
+	t.Log(joined)
+	if !strings.Contains(joined, "the Wald interval") {
+		t.Errorf("Wald not flagged at n = 15/18 with rates near 0: %v", flagged)
+	}
+	for _, score := range []string{"Miettinen–Nurminen score interval", "Mee score interval", "Agresti–Caffo interval"} {
+		if strings.Contains(joined, score) {
+			t.Errorf("%s flagged: %v", score, flagged)
+		}
+	}
+}
+
+func TestCheckAnalysisSkipsLargeDesigns(t *testing.T) {
+	c, _ := proportions.NewComparison(300, 5000, 280, 5000, proportions.Labels{})
+	a, err := proportions.Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	before := len(a.Warnings)
+	if err := CheckAnalysis(context.Background(), &a); err != nil || len(a.Warnings) != before {
+		t.Errorf("large design: err %v, %d → %d warnings", err, before, len(a.Warnings))
+	}
+}

@@ -1,0 +1,108 @@
+package operating
+
+import (
+	"fmt"
+	"sync"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// Progress receives the amount of work done out of the total, for a
+// progress bar. It is called from worker goroutines, never concurrently,
+// with done increasing up to total.
+type Progress func(done, total int)
+
+// Option tunes a long computation. Each function documents which options
+// it reads; the others are ignored.
+type Option func(*config)
+
+type config struct {
+	progress  Progress
+	pi1, pi2  []float64
+	steps     int
+	tolerance float64
+	workers   int
+}
+
+// WithProgress reports progress to f.
+func WithProgress(f Progress) Option { return func(c *config) { c.progress = f } }
+
+// WithGrid sets the success rates of a surface: π1 takes the values pi1,
+// π2 the values pi2 (each in [0, 1]). The default is 0, 0.01, …, 1 for both.
+func WithGrid(pi1, pi2 []float64) Option {
+	return func(c *config) { c.pi1, c.pi2 = pi1, pi2 }
+}
+
+// WithSteps sets the number of evenly spaced points of a slice or of a
+// size curve (at least 2; default 101 for slices and 1001 for size curves).
+func WithSteps(k int) Option { return func(c *config) { c.steps = k } }
+
+// WithTolerance sets how far below the nominal level a method's minimum
+// coverage may fall and still count as holding its level in [Recommend]
+// (default 0.02, that is 2 percentage points; between 0 and the level).
+func WithTolerance(t float64) Option { return func(c *config) { c.tolerance = t } }
+
+// WithWorkers sets the number of goroutines (default GOMAXPROCS).
+func WithWorkers(n int) Option { return func(c *config) { c.workers = n } }
+
+func newConfig(opts []Option) config {
+	c := config{tolerance: DefaultTolerance}
+	for _, o := range opts {
+		if o != nil {
+			o(&c)
+		}
+	}
+	return c
+}
+
+// stepsOr returns the configured number of steps or def, validated.
+func (c config) stepsOr(def int) (int, error) {
+	k := c.steps
+	if k == 0 {
+		k = def
+	}
+	if k < 2 || k > 1_000_001 {
+		return 0, fmt.Errorf("%d steps: %w; use between 2 and 1000001 points", k, proportions.ErrEmptyInput)
+	}
+	return k, nil
+}
+
+// reporter serialises progress calls from several workers.
+type reporter struct {
+	mu          sync.Mutex
+	f           Progress
+	done, total int
+}
+
+func newReporter(f Progress, total int) *reporter { return &reporter{f: f, total: total} }
+
+func (r *reporter) add(k int) {
+	if r == nil || r.f == nil {
+		return
+	}
+	r.mu.Lock()
+	r.done += k
+	r.f(r.done, r.total)
+	r.mu.Unlock()
+}
+
+// evenly returns k evenly spaced values from lo to hi inclusive, computed
+// as lo + i·(hi − lo)/(k − 1) so that the ends are exact.
+func evenly(lo, hi float64, k int) []float64 {
+	v := make([]float64, k)
+	for i := range v {
+		v[i] = lo + float64(i)*(hi-lo)/float64(k-1)
+	}
+	v[k-1] = hi
+	return v
+}
+
+// DefaultGrid returns the default success rates of a surface: 0, 0.01, …, 1,
+// each value computed as i/100.
+func DefaultGrid() []float64 {
+	v := make([]float64, 101)
+	for i := range v {
+		v[i] = float64(i) / 100
+	}
+	return v
+}

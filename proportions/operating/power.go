@@ -1,0 +1,226 @@
+package operating
+
+import (
+	"context"
+	"fmt"
+	"slices"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// Decision is how a study decides: Test is run with each of Hypotheses
+// and the study rejects when every run rejects. Equality, superiority and
+// non-inferiority designs have one hypothesis; an equivalence design has
+// two one-sided ones (the two one-sided tests procedure).
+type Decision struct {
+	Test       proportions.TestMethod   `json:"test"`
+	Hypotheses []proportions.Hypothesis `json:"hypotheses"`
+}
+
+// Rejects reports whether the decision rejects for counts c.
+func (d Decision) Rejects(c proportions.Counts) bool {
+	for _, h := range d.Hypotheses {
+		if !d.Test.Run(c, h).Reject {
+			return false
+		}
+	}
+	return len(d.Hypotheses) > 0
+}
+
+// Validate checks that the decision can be run.
+func (d Decision) Validate() error {
+	if d.Test.Run == nil {
+		return fmt.Errorf("test %q: %w; it has no Run function", d.Test.Key, proportions.ErrUnsupported)
+	}
+	if len(d.Hypotheses) == 0 {
+		return fmt.Errorf("test %q: %w; give at least one hypothesis", d.Test.Key, proportions.ErrEmptyInput)
+	}
+	for _, h := range d.Hypotheses {
+		if err := h.Alternative.Validate(); err != nil {
+			return err
+		}
+		if err := proportions.ValidateLevel(h.Conf.Level); err != nil {
+			return err
+		}
+		if err := proportions.ValidateNull(d.Test.Family, h.Null); err != nil {
+			return err
+		}
+		if !d.Test.Margins && h.Null != d.Test.Family.NoEffect() {
+			return fmt.Errorf("%s with null %v: %w; this test is defined only for a null of %v",
+				d.Test.Name, h.Null, proportions.ErrUnsupported, d.Test.Family.NoEffect())
+		}
+	}
+	return nil
+}
+
+// Power returns the exact power of test t with hypothesis h for a study of
+// n1 and n2 trials when the true rates are (π1, π2): the probability of
+// the outcomes for which t rejects,
+//
+//	Σ_{x1, x2} b(x1; n1, π1) b(x2; n2, π2) · 1{t rejects at (x1, x2)}.
+//
+// It runs the test only on the outcomes whose probability is not
+// negligible at (π1, π2) (binomial tails below 1e-16 are skipped), on every
+// core. This is the function for sample-size searches; to evaluate one
+// design at many (π1, π2), build a [RejectionRegion] once instead.
+func Power(t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, pi1, pi2 float64) (float64, error) {
+	return Decision{Test: t, Hypotheses: []proportions.Hypothesis{h}}.Power(n1, n2, pi1, pi2)
+}
+
+// Power is the exact power of the decision (see the function [Power]).
+func (d Decision) Power(n1, n2 int, pi1, pi2 float64) (float64, error) {
+	return d.PowerContext(context.Background(), n1, n2, pi1, pi2)
+}
+
+// PowerContext is Power with cancellation, for tests slow enough to need
+// it (exact tests that search a nuisance parameter at every outcome).
+func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64) (float64, error) {
+	if err := validateSizes(n1, n2); err != nil {
+		return 0, err
+	}
+	if err := validateRates(pi1, pi2); err != nil {
+		return 0, err
+	}
+	if err := d.Validate(); err != nil {
+		return 0, err
+	}
+	var b1, b2 binomial
+	b1.fill(n1, pi1, make([]float64, n1+1))
+	b2.fill(n2, pi2, make([]float64, n2+1))
+	rows := b1.hi - b1.lo + 1
+	sums := make([]float64, rows)
+	workers := 0 // every core
+	if rows*(b2.hi-b2.lo+1) < 4096 {
+		workers = 1
+	}
+	err := parallel(ctx, workers, rows, func(i int) error {
+		c := proportions.Counts{X1: int64(b1.lo + i), N1: int64(n1), N2: int64(n2)}
+		var s float64
+		for x2 := b2.lo; x2 <= b2.hi; x2++ {
+			c.X2 = int64(x2)
+			if d.Rejects(c) {
+				s += b2.p[x2]
+			}
+		}
+		sums[i] = s
+		return nil
+	})
+	if err != nil {
+		return 0, err
+	}
+	var power float64
+	for i, s := range sums {
+		power += b1.p[b1.lo+i] * s
+	}
+	return min(power, 1), nil
+}
+
+// RejectionRegion is the set of outcomes (x1, x2) of a study with N1 and
+// N2 trials for which a decision rejects, stored as runs of consecutive
+// x2 in each row x1, so that the power at any (π1, π2) costs O(n1 + n2 +
+// runs). Build it with [NewRejectionRegion]; it is read-only afterwards.
+type RejectionRegion struct {
+	Decision Decision `json:"decision"`
+	N1       int      `json:"n1"`
+	N2       int      `json:"n2"`
+	// rowRuns[x1] .. rowRuns[x1+1] index the runs of row x1 in runs, which
+	// holds pairs (first x2, last x2 + 1).
+	rowRuns []int32
+	runs    []int32
+	size    int
+}
+
+// NewRejectionRegion runs the decision on every outcome of the design,
+// on every core. It reads WithProgress (rows done out of n1+1) and
+// WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
+// tests that search a nuisance parameter at each outcome make this slow at
+// large n; their SizeLimit is a guide.
+func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Option) (*RejectionRegion, error) {
+	if err := validateSizes(n1, n2); err != nil {
+		return nil, err
+	}
+	if err := d.Validate(); err != nil {
+		return nil, err
+	}
+	cfg := newConfig(opts)
+	rowRuns := make([][]int32, n1+1)
+	rep := newReporter(cfg.progress, n1+1)
+	err := parallel(ctx, cfg.workers, n1+1, func(x1 int) error {
+		c := proportions.Counts{X1: int64(x1), N1: int64(n1), N2: int64(n2)}
+		var runs []int32
+		inRun := false
+		for x2 := 0; x2 <= n2; x2++ {
+			c.X2 = int64(x2)
+			r := d.Rejects(c)
+			switch {
+			case r && !inRun:
+				runs = append(runs, int32(x2))
+			case !r && inRun:
+				runs = append(runs, int32(x2))
+			}
+			inRun = r
+		}
+		if inRun {
+			runs = append(runs, int32(n2+1))
+		}
+		rowRuns[x1] = runs
+		rep.add(1)
+		return nil
+	})
+	if err != nil {
+		return nil, err
+	}
+	r := &RejectionRegion{Decision: d, N1: n1, N2: n2, rowRuns: make([]int32, n1+2)}
+	for x1, runs := range rowRuns {
+		r.rowRuns[x1] = int32(len(r.runs))
+		r.runs = append(r.runs, runs...)
+		for k := 0; k < len(runs); k += 2 {
+			r.size += int(runs[k+1] - runs[k])
+		}
+	}
+	r.rowRuns[n1+1] = int32(len(r.runs))
+	return r, nil
+}
+
+// Contains reports whether the decision rejects at outcome (x1, x2).
+func (r *RejectionRegion) Contains(x1, x2 int) bool {
+	if x1 < 0 || x1 > r.N1 || x2 < 0 || x2 > r.N2 {
+		return false
+	}
+	runs := r.runs[r.rowRuns[x1]:r.rowRuns[x1+1]]
+	k, _ := slices.BinarySearch(runs, int32(x2)+1)
+	return k%2 == 1
+}
+
+// Outcomes returns the number of outcomes in the region.
+func (r *RejectionRegion) Outcomes() int { return r.size }
+
+// Runs returns the number of runs of consecutive x2 the region is made of
+// (n1+1 or fewer for a region that is one run per row).
+func (r *RejectionRegion) Runs() int { return len(r.runs) / 2 }
+
+// Power returns the exact probability of the region at (π1, π2).
+func (r *RejectionRegion) Power(pi1, pi2 float64) (float64, error) {
+	if err := validateRates(pi1, pi2); err != nil {
+		return 0, err
+	}
+	var b1, b2 binomial
+	b1.fill(r.N1, pi1, make([]float64, r.N1+1))
+	cum := make([]float64, r.N2+2)
+	b2.fill(r.N2, pi2, make([]float64, r.N2+1))
+	b2.prefix(cum)
+	return r.power(&b1, cum), nil
+}
+
+func (r *RejectionRegion) power(b1 *binomial, cum []float64) float64 {
+	var power float64
+	for x1 := b1.lo; x1 <= b1.hi; x1++ {
+		var s float64
+		runs := r.runs[r.rowRuns[x1]:r.rowRuns[x1+1]]
+		for k := 0; k+1 < len(runs); k += 2 {
+			s += cum[runs[k+1]] - cum[runs[k]]
+		}
+		power += b1.p[x1] * s
+	}
+	return min(power, 1)
+}
