@@ -241,8 +241,8 @@ func designCharts(t *testing.T) []namedChart {
 		t.Fatal(err)
 	}
 	var slices []*operating.Slice
-	for _, m := range proportions.IntervalMethods(proportions.Difference) {
-		tab, err := operating.NewTable(ctx, m, d)
+	for _, m := range proportions.EnumerableIntervalMethods(proportions.Difference) {
+		tab, err := operating.NewOutcomeLimits(ctx, m, d)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -256,7 +256,7 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	wald, err := operating.NewTable(ctx, proportions.Wald, d)
+	wald, err := operating.NewOutcomeLimits(ctx, proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -268,12 +268,12 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	pd := planning.NewDesign(planning.Equality, 0.25, 0.55)
-	approx, err := planning.PowerByN(pd, 10, 80)
+	pd := planning.NewPlan(planning.Equality, 0.25, 0.55)
+	approx, err := planning.PowerByTrials(pd, 10, 80)
 	if err != nil {
 		t.Fatal(err)
 	}
-	fisher, err := planning.ExactPowerByN(ctx, pd, proportions.Fisher, 10, 80)
+	fisher, err := planning.ExactPowerByTrials(ctx, pd, proportions.FisherTest, 10, 80)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -336,10 +336,10 @@ func TestChartTooltipsShowNumbers(t *testing.T) {
 	b.open(t, "file://"+page, len(charts))
 	wilson := a.Groups[0].Intervals[0]
 	if tip := b.tooltip(t, 0, 0, 0); !strings.Contains(tip, "41 of 50") || !strings.Contains(tip, fmt.Sprintf("%.2f%%", 100*wilson.Lower)) {
-		t.Errorf("rates tooltip %q lacks the counts or the %s lower limit", tip, wilson.Name)
+		t.Errorf("rates tooltip %q lacks the counts or the %s lower limit", tip, wilson.MethodName)
 	}
-	first := a.Intervals[0]
-	if tip := b.tooltip(t, 1, 0, 0); !strings.Contains(tip, first.Name) || !strings.Contains(tip, fmt.Sprintf("%.2f pp", 100*first.Width())) {
+	first := a.DifferenceIntervals[0]
+	if tip := b.tooltip(t, 1, 0, 0); !strings.Contains(tip, first.MethodName) || !strings.Contains(tip, fmt.Sprintf("%.2f pp", 100*first.Width())) {
 		t.Errorf("difference tooltip %q lacks the method or its width", tip)
 	}
 	if tip := b.tooltip(t, 2, 0, -1); !strings.Contains(tip, "pp") || !strings.Contains(tip, "p-value") {

@@ -69,8 +69,8 @@ func startPlan(t *testing.T) planning.SampleSizeResult {
 
 func planFor(t *testing.T, rate1, rate2 float64) planning.SampleSizeResult {
 	t.Helper()
-	d := planning.NewDesign(planning.NonInferiority, rate1, rate2)
-	d.Alternative, d.Margin = proportions.Less, 0.02
+	d := planning.NewPlan(planning.NonInferiority, rate1, rate2)
+	d.Better, d.Margin = proportions.LowerIsBetter, 0.02
 	r, err := planning.SampleSize(d)
 	if err != nil {
 		t.Fatal(err)
@@ -231,7 +231,7 @@ func (e explorer) checkCoverage(n1, n2 int, pi1, pi2 float64) {
 		e.t.Fatal(err)
 	}
 	rows := eval[map[string]string](e.t, e.ctx, `Object.fromEntries([...`+e.frame()+`.querySelectorAll('tr[data-method]')].map(r => [r.dataset.method, r.dataset.coverage]))`)
-	methods := proportions.IntervalMethods(proportions.Difference)
+	methods := proportions.EnumerableIntervalMethods(proportions.Difference)
 	if len(rows) != len(methods) {
 		e.t.Errorf("want a row per difference method (%d), got %v", len(methods), rows)
 	}

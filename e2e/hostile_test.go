@@ -31,14 +31,14 @@ func hostileAnalysis(t *testing.T) proportions.Analysis {
 	if err != nil {
 		t.Fatal(err)
 	}
-	test, err := proportions.Fisher.Test(c.Counts())
+	test, err := proportions.FisherTest.Test(c.Counts())
 	if err != nil {
 		t.Fatal(err)
 	}
 	return proportions.Analysis{
 		Comparison: c, Level: 0.95, Difference: c.Counts().P1() - c.Counts().P2(),
-		Groups:   [2]proportions.GroupEstimate{{Group: c.First, Proportion: 0.3}, {Group: c.Second, Proportion: 0.7}},
-		Interval: iv, Intervals: []proportions.Interval{iv},
+		Groups:   [2]proportions.GroupEstimate{{Group: c.First, Rate: 0.3}, {Group: c.Second, Rate: 0.7}},
+		Interval: iv, DifferenceIntervals: []proportions.Interval{iv},
 		Test: test, Tests: []proportions.TestResult{test},
 		Conclusion: "In " + hostile.First + " the rate of " + hostile.Event + " differs from " + hostile.Second,
 		Warnings:   []proportions.Warning{{Code: "test", Message: hostile.Second}},

@@ -27,7 +27,7 @@ const stripLeft, stripRight = 24.0, 376.0
 
 func stripOf(a proportions.Analysis) *strip {
 	lo, hi, est, null := a.Interval.Lower, a.Interval.Upper, a.Difference, a.Null
-	if a.Interval.Name == "" || anyNaN(lo, hi, est, null) {
+	if a.Interval.MethodName == "" || anyNaN(lo, hi, est, null) {
 		return nil
 	}
 	min, max := math.Min(lo, null), math.Max(hi, null)

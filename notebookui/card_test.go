@@ -303,7 +303,7 @@ func TestStripPlacesTheIntervalOnTheAxis(t *testing.T) {
 		t.Errorf("aria-label %q does not spell out the interval", s.Label)
 	}
 	a := germinationAnalysis()
-	a.Interval.Name = ""
+	a.Interval.MethodName = ""
 	if stripOf(a) != nil {
 		t.Error("a picture was drawn without a headline interval")
 	}
@@ -312,7 +312,7 @@ func TestStripPlacesTheIntervalOnTheAxis(t *testing.T) {
 func TestClippedIntervalIsExplained(t *testing.T) {
 	a := germinationAnalysis()
 	// A Wald interval of 1.02 cut to 1 (the limit rule in proportions/interval.go).
-	a.Intervals[1].Upper, a.Intervals[1].RawUpper, a.Intervals[1].Clipped = 1, 1.02, true
+	a.DifferenceIntervals[1].Upper, a.DifferenceIntervals[1].RawUpper, a.DifferenceIntervals[1].Clipped = 1, 1.02, true
 	c := ResultCard{Analysis: a, lookup: fixedReferences}
 	for form, s := range map[string]string{"html": html.UnescapeString(c.HTML()), "text": c.Text()} {
 		if !strings.Contains(s, "cut to the possible range; formula gave +3.80 to +102.00") {
@@ -358,11 +358,11 @@ func TestCardNamesMethodsNotRun(t *testing.T) {
 		scope proportions.MethodScope
 		want  []string
 	}{
-		{proportions.QuickMethods, []string{"Quick analysis", "Barnard", "Boschloo", "Chan", "WithMethods(AllMethods)"}},
-		{proportions.LargeSampleMethods, []string{"Large-sample analysis", "Fisher exact", "Barnard"}},
-		{proportions.AllMethods, nil},
+		{proportions.ScopeQuick, []string{"Quick analysis", "Barnard", "Boschloo", "Chan", "WithMethods(AllMethods)"}},
+		{proportions.ScopeLargeSample, []string{"Large-sample analysis", "Fisher exact", "Barnard"}},
+		{proportions.ScopeAll, nil},
 	} {
-		a, err := proportions.Analyze(c, proportions.WithMethods(tc.scope))
+		a, err := proportions.Analyze(c, proportions.WithScope(tc.scope))
 		if err != nil {
 			t.Fatal(err)
 		}

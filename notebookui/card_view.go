@@ -82,7 +82,7 @@ type Reference struct {
 }
 
 // referenceLookup finds a method's reference by the kind of method
-// ("interval", "proportion" or "test") and its key.
+// ("interval", "rate" or "test") and its key.
 type referenceLookup func(kind, key string) (Reference, bool)
 
 // registryReference looks a method up in the proportions registry.
@@ -92,8 +92,8 @@ func registryReference(kind, key string) (Reference, bool) {
 		if m, err := proportions.LookupInterval(key); err == nil {
 			return Reference{m.Name, m.Citation}, true
 		}
-	case "proportion":
-		if m, err := proportions.LookupProportion(key); err == nil {
+	case "rate":
+		if m, err := proportions.LookupRate(key); err == nil {
 			return Reference{m.Name, m.Citation}, true
 		}
 	case "test":
@@ -116,7 +116,7 @@ func (c ResultCard) view() cardView {
 		Level:      levelText(a.Interval.Level),
 		Lower:      points(a.Interval.Lower, 1),
 		Upper:      points(a.Interval.Upper, 1),
-		Method:     a.Interval.Name,
+		Method:     a.Interval.MethodName,
 		Verdict:    verdict(a),
 		Strip:      stripOf(a),
 		Groups:     groupsOf(a),
@@ -147,14 +147,14 @@ func (c ResultCard) view() cardView {
 // verdict is the headline test in one line, its decision in words.
 func verdict(a proportions.Analysis) string {
 	t := a.Test
-	if t.Name == "" {
+	if t.MethodName == "" {
 		return ""
 	}
 	stat := ""
 	if s := statistic(t); s != "—" {
 		stat = s + ", "
 	}
-	return fmt.Sprintf("%s: %sp = %s; %s at the %s level.", t.Name, stat,
+	return fmt.Sprintf("%s: %sp = %s; %s at the %s level.", t.MethodName, stat,
 		proportions.FormatP(t.PValue, t.LogPValue), decision(a, t), levelText(1-t.Level))
 }
 
@@ -203,14 +203,14 @@ func groupsOf(a proportions.Analysis) groupTable {
 		ShareHeader: "Share " + a.Comparison.Event,
 	}
 	if ivs := a.Groups[0].Intervals; len(ivs) > 0 {
-		t.IntervalHeader = fmt.Sprintf("%s interval (%s)", levelText(ivs[0].Level), ivs[0].Name)
+		t.IntervalHeader = fmt.Sprintf("%s interval (%s)", levelText(ivs[0].Level), ivs[0].MethodName)
 	}
 	for _, g := range a.Groups {
 		row := groupRow{
 			Label:  g.Group.Label,
 			Events: fmt.Sprint(g.Group.Events),
 			Trials: fmt.Sprint(g.Group.Trials),
-			Share:  percent(g.Proportion, 1),
+			Share:  percent(g.Rate, 1),
 		}
 		if len(g.Intervals) > 0 {
 			iv := g.Intervals[0]
@@ -225,7 +225,7 @@ func testsOf(a proportions.Analysis) []testRow {
 	rows := make([]testRow, 0, len(a.Tests))
 	for _, t := range a.Tests {
 		rows = append(rows, testRow{
-			Name:      t.Name,
+			Name:      t.MethodName,
 			Statistic: statistic(t),
 			P:         proportions.FormatP(t.PValue, t.LogPValue),
 			Decision:  decision(a, t),
@@ -237,10 +237,10 @@ func testsOf(a proportions.Analysis) []testRow {
 
 func sectionsOf(a proportions.Analysis) []methodSection {
 	var out []methodSection
-	if len(a.Intervals) > 0 {
+	if len(a.DifferenceIntervals) > 0 {
 		s := methodSection{Title: "Difference " + a.Comparison.First.Label + " − " + a.Comparison.Second.Label, Unit: "percentage points"}
-		for _, iv := range a.Intervals {
-			r := methodRow{Name: iv.Name, Estimate: points(iv.Estimate, 2), Lower: points(iv.Lower, 2), Upper: points(iv.Upper, 2),
+		for _, iv := range a.DifferenceIntervals {
+			r := methodRow{Name: iv.MethodName, Estimate: points(iv.Estimate, 2), Lower: points(iv.Lower, 2), Upper: points(iv.Upper, 2),
 				Headline: iv.Method == a.Interval.Method}
 			if iv.Clipped {
 				r.Note = fmt.Sprintf("cut to the possible range; formula gave %s to %s", points(iv.RawLower, 2), points(iv.RawUpper, 2))
@@ -252,14 +252,14 @@ func sectionsOf(a proportions.Analysis) []methodSection {
 	for _, f := range []struct {
 		title string
 		ivs   []proportions.Interval
-	}{{"Ratio of rates " + a.Comparison.First.Label + " / " + a.Comparison.Second.Label, a.Ratios},
-		{"Odds ratio " + a.Comparison.First.Label + " / " + a.Comparison.Second.Label, a.OddsRatios}} {
+	}{{"Ratio of rates " + a.Comparison.First.Label + " / " + a.Comparison.Second.Label, a.RatioIntervals},
+		{"Odds ratio " + a.Comparison.First.Label + " / " + a.Comparison.Second.Label, a.OddsRatioIntervals}} {
 		if len(f.ivs) == 0 {
 			continue
 		}
 		s := methodSection{Title: f.title, Unit: "1 = no difference"}
 		for _, iv := range f.ivs {
-			r := methodRow{Name: iv.Name, Estimate: ratio(iv.Estimate), Lower: ratio(iv.Lower), Upper: ratio(iv.Upper)}
+			r := methodRow{Name: iv.MethodName, Estimate: ratio(iv.Estimate), Lower: ratio(iv.Lower), Upper: ratio(iv.Upper)}
 			if !iv.Defined {
 				r.Note = "not estimable from these counts (0/0)"
 			}
@@ -289,7 +289,7 @@ func notRun(a proportions.Analysis, lookup referenceLookup) string {
 		names = append(names, name)
 	}
 	list := strings.Join(names, ", ")
-	if a.Scope == proportions.LargeSampleMethods {
+	if a.Scope == proportions.ScopeLargeSample {
 		return "Large-sample analysis. Left out: the exact and conditional methods (" + list + ")."
 	}
 	return "Quick analysis. Left out, as each takes milliseconds or more: " + list +
@@ -312,13 +312,13 @@ func referencesOf(a proportions.Analysis, lookup referenceLookup) []Reference {
 	add("test", a.Test.Method)
 	for _, g := range a.Groups {
 		for _, iv := range g.Intervals {
-			add("proportion", iv.Method)
+			add("rate", iv.Method)
 		}
 	}
 	for _, t := range a.Tests {
 		add("test", t.Method)
 	}
-	for _, ivs := range [][]proportions.Interval{a.Intervals, a.Ratios, a.OddsRatios} {
+	for _, ivs := range [][]proportions.Interval{a.DifferenceIntervals, a.RatioIntervals, a.OddsRatioIntervals} {
 		for _, iv := range ivs {
 			add("interval", iv.Method)
 		}

@@ -46,12 +46,12 @@ type dataTable struct {
 // drawing element in HTML.
 func (c *Chart) ID() string { return c.id }
 
-// Kind returns "chart" (see [Displayable]); [Chart.ChartType] tells which.
+// Kind returns "chart" (see [Displayable]); [Chart.Name] tells which.
 func (c *Chart) Kind() string { return "chart" }
 
-// ChartType returns which chart this is, such as "rates" or
+// Name returns which chart this is, such as "rates" or
 // "confidence-curve".
-func (c *Chart) ChartType() string { return c.kind }
+func (c *Chart) Name() string { return c.kind }
 
 // Title returns the chart's title.
 func (c *Chart) Title() string { return c.title }

@@ -46,7 +46,7 @@ func BenchmarkDifferenceIntervalsChartHTML(b *testing.B) {
 
 func BenchmarkCoverageMapChartHTML(b *testing.B) {
 	d, _ := operating.NewDesign(50, 50, 0.95)
-	tab, err := operating.NewTable(context.Background(), proportions.Wald, d)
+	tab, err := operating.NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if err != nil {
 		b.Fatal(err)
 	}

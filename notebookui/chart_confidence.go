@@ -17,9 +17,9 @@ import (
 // interval at that level that inverts the test, read off as where the
 // curve crosses α; the same curve gives the interval at every other level.
 type ConfidenceCurve struct {
-	// Test and TestName identify the test (its registry key and name).
-	Test     string `json:"test"`
-	TestName string `json:"test_name"`
+	// Method and TestName identify the test (its registry key and name).
+	Method     string `json:"method"`
+	MethodName string `json:"method_name"`
 	// Level is the confidence level whose interval is read off.
 	Level float64 `json:"level"`
 	// Deltas and PValues are the curve's points, Deltas increasing.
@@ -75,7 +75,7 @@ func ConfidenceCurveOf(c proportions.Counts, test proportions.TestMethod, level,
 	if err := proportions.ValidateNull(proportions.Difference, null); err != nil {
 		return ConfidenceCurve{}, err
 	}
-	if test.Family != proportions.Difference || !test.Margins || test.Run == nil {
+	if test.Scale != proportions.Difference || !test.Margins || test.Run == nil {
 		return ConfidenceCurve{}, fmt.Errorf("confidence curve with %s: %w; it needs a test of the difference that accepts any null value",
 			test.Name, proportions.ErrUnsupported)
 	}
@@ -92,7 +92,7 @@ func ConfidenceCurveOf(c proportions.Counts, test proportions.TestMethod, level,
 	est := proportions.Difference.Estimate(c)
 	alpha := 1 - level
 	nullResult := test.Run(c, proportions.Hypothesis{Null: null, Alternative: proportions.TwoSided, Conf: conf})
-	cc := ConfidenceCurve{Test: test.Key, TestName: test.Name, Level: level, Estimate: est, Null: null,
+	cc := ConfidenceCurve{Method: test.Key, MethodName: test.Name, Level: level, Estimate: est, Null: null,
 		NullPValue: nullResult.PValue, NullLogPValue: nullResult.LogPValue}
 	cc.Lower = crossing(p, alpha, est, -1)
 	cc.Upper = crossing(p, alpha, est, 1)
@@ -185,19 +185,19 @@ func ConfidenceCurveChart(a proportions.Analysis, options ...ChartOption) (*Char
 	if err != nil {
 		return nil, fmt.Errorf("confidence curve chart: %w", err)
 	}
-	return CurveChart(cc, a.Comparison, options...)
+	return ConfidenceCurveChartFrom(cc, a.Comparison, options...)
 }
 
-// CurveChart draws a confidence curve computed by [ConfidenceCurveOf] for
+// ConfidenceCurveChartFrom draws a confidence curve computed by [ConfidenceCurveOf] for
 // the comparison whose labels it uses. Options read: WithHeight, WithZoom.
-func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...ChartOption) (*Chart, error) {
+func ConfidenceCurveChartFrom(cc ConfidenceCurve, cmp proportions.Comparison, options ...ChartOption) (*Chart, error) {
 	if len(cc.Deltas) == 0 || len(cc.Deltas) != len(cc.PValues) {
 		return nil, fmt.Errorf("confidence curve chart: %w: the curve has no points", errNoIntervals)
 	}
 	s := newChartSettings(options)
 	alpha := 1 - cc.Level
 	first, second := cmp.First.Label, cmp.Second.Label
-	title := fmt.Sprintf("How compatible is each difference with the data? (%s)", cc.TestName)
+	title := fmt.Sprintf("How compatible is each difference with the data? (%s)", cc.MethodName)
 	subtitle := fmt.Sprintf("p-value of “%s − %s = δ” for every δ; the %s interval is where the curve is above %s",
 		first, second, fmtLevel(cc.Level), fmtP(alpha))
 
@@ -259,7 +259,7 @@ func CurveChart(cc ConfidenceCurve, cmp proportions.Comparison, options ...Chart
 		Caption: "Read off the curve",
 		Header:  []string{"quantity", "value"},
 		Rows: [][]string{
-			{"test", cc.TestName},
+			{"test", cc.MethodName},
 			{"estimate " + first + " − " + second, fmtPP(cc.Estimate)},
 			{ivLabel + " (where p > " + fmtP(alpha) + ")", fmtPP(cc.Lower) + " to " + fmtPP(cc.Upper)},
 			{"p-value at " + nullName(cc.Null) + " (" + fmtPP(cc.Null) + ")", proportions.FormatP(cc.NullPValue, cc.NullLogPValue)},

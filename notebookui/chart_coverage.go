@@ -77,7 +77,7 @@ func CoverageMapChart(s *operating.Surface, options ...ChartOption) (*Chart, err
 	set := newChartSettings(options)
 	nominal := s.Design.Level
 	sum := s.Summary()
-	title := fmt.Sprintf("Exact coverage of %s over all true rates", s.Name)
+	title := fmt.Sprintf("Exact coverage of %s over all true rates", s.MethodName)
 	subtitle := fmt.Sprintf("%d and %d units per group, nominal %s; each cell is one pair (π1, π2)", s.Design.N1, s.Design.N2, fmtLevel(nominal))
 
 	xs := make([]string, len(s.Pi1))
@@ -137,7 +137,7 @@ func CoverageMapChart(s *operating.Surface, options ...ChartOption) (*Chart, err
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(coverageMapTooltip)}
 	option["legend"] = map[string]any{"show": false}
 	table := dataTable{Caption: "Summary of the map", Header: []string{"quantity", "value"}, Rows: [][]string{
-		{"method", s.Name},
+		{"method", s.MethodName},
 		{"design", fmt.Sprintf("n1 = %d, n2 = %d, nominal %s", s.Design.N1, s.Design.N2, fmtLevel(nominal))},
 		{"grid", fmt.Sprintf("%d × %d points, %d with a defined truth", len(s.Pi1), len(s.Pi2), sum.Points)},
 		{"lowest coverage", fmt.Sprintf("%s at π1 = %s, π2 = %s", fmtPct(sum.Min), fmtPct(sum.MinPi1), fmtPct(sum.MinPi2))},
@@ -145,7 +145,7 @@ func CoverageMapChart(s *operating.Surface, options ...ChartOption) (*Chart, err
 		{"share of points more than 1 point short", fmtPct(sum.ShareBelow)},
 	}}
 	notes := []string{fmt.Sprintf("Coverage is the chance that the %s interval contains the true difference, computed exactly "+
-		"over every possible outcome of a study with these group sizes; it depends on the design, not on your data.", s.Name)}
+		"over every possible outcome of a study with these group sizes; it depends on the design, not on your data.", s.MethodName)}
 	return newChart("coverage-map", title, subtitle, set.heightOr(560), option, table, notes)
 }
 
@@ -239,7 +239,7 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 			low = math.Min(low, p.Coverage)
 		}
 		line := map[string]any{
-			"type": "line", "name": c.Name, "data": data, "showSymbol": false,
+			"type": "line", "name": c.MethodName, "data": data, "showSymbol": false,
 			"lineStyle": map[string]any{"color": paletteColor(i), "width": 2, "type": lineStyle(i)},
 			"itemStyle": map[string]any{"color": paletteColor(i)},
 		}
@@ -254,10 +254,10 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 					"label":     map[string]any{"formatter": "nominal " + fmtLevel(nominal), "position": "insideEndTop", "color": "#000000"}}}}
 		}
 		series = append(series, line)
-		legend = append(legend, map[string]any{"name": c.Name, "icon": "path://M0,6 L24,6 L24,9 L0,9 Z"})
+		legend = append(legend, map[string]any{"name": c.MethodName, "icon": "path://M0,6 L24,6 L24,9 L0,9 Z"})
 		if minK >= 0 {
 			p := c.Points[minK]
-			table.Rows = append(table.Rows, []string{c.Name, fmtPct(p.Coverage), fmt.Sprintf("π1 = %s, π2 = %s", fmtPct(p.Pi1), fmtPct(p.Pi2)),
+			table.Rows = append(table.Rows, []string{c.MethodName, fmtPct(p.Coverage), fmt.Sprintf("π1 = %s, π2 = %s", fmtPct(p.Pi1), fmtPct(p.Pi2)),
 				fmtPct(sum / float64(n)), fmt.Sprintf("%d of %d", short, n)})
 		}
 	}
@@ -294,7 +294,7 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 func sliceAxis(slices []*operating.Slice) (along, fixed string, err error) {
 	s0 := slices[0]
 	for _, s := range slices {
-		if s == nil || s.Design != s0.Design || s.Along != s0.Along || s.Fixed != s0.Fixed || s.Family != s0.Family {
+		if s == nil || s.Design != s0.Design || s.Along != s0.Along || s.Fixed != s0.Fixed || s.Scale != s0.Scale {
 			return "", "", fmt.Errorf("coverage slice: %w: the slices differ in design or line of rates; draw each in its own chart",
 				proportions.ErrUnsupported)
 		}
@@ -302,10 +302,10 @@ func sliceAxis(slices []*operating.Slice) (along, fixed string, err error) {
 	switch {
 	case s0.Along == "first":
 		return "pi1", "along π1 at π2 = " + fmtPct(s0.Fixed), nil
-	case s0.Along == "effect" && s0.Family == proportions.Difference:
+	case s0.Along == "effect" && s0.Scale == proportions.Difference:
 		return "pi2", "along π2 at a true difference of " + fmtPP(s0.Fixed), nil
 	case s0.Along == "effect":
-		return "pi2", fmt.Sprintf("along π2 at a true %s of %s", s0.Family, strconv.FormatFloat(s0.Fixed, 'g', 4, 64)), nil
+		return "pi2", fmt.Sprintf("along π2 at a true %s of %s", s0.Scale, strconv.FormatFloat(s0.Fixed, 'g', 4, 64)), nil
 	}
 	return "", "", fmt.Errorf("coverage slice: %w: unknown line %q", proportions.ErrUnsupported, s0.Along)
 }

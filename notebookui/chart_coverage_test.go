@@ -17,7 +17,7 @@ func waldSurface(t *testing.T, n1, n2 int) *operating.Surface {
 	if err != nil {
 		t.Fatal(err)
 	}
-	tab, err := operating.NewTable(context.Background(), proportions.Wald, d)
+	tab, err := operating.NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -91,7 +91,7 @@ func TestCoverageSliceOption(t *testing.T) {
 	d, _ := operating.NewDesign(20, 20, 0.95)
 	var slices []*operating.Slice
 	for _, m := range []proportions.IntervalMethod{proportions.Wald, proportions.Mee} {
-		tab, err := operating.NewTable(context.Background(), m, d)
+		tab, err := operating.NewOutcomeLimits(context.Background(), m, d)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -120,13 +120,13 @@ func TestCoverageSliceOption(t *testing.T) {
 		}
 		items := s["data"].([]any)
 		if len(items) != len(defined) {
-			t.Fatalf("%s: %d points drawn, %d defined", slices[k].Name, len(items), len(defined))
+			t.Fatalf("%s: %d points drawn, %d defined", slices[k].MethodName, len(items), len(defined))
 		}
 		for i, item := range items {
 			v := values(t, item)
 			p := defined[i]
 			if v[0] != p.Pi1 || !near7(v[1], p.Coverage) || !near7(v[4], p.Below) || !near7(v[5], p.Above) {
-				t.Errorf("%s point %d = %v, want π1 %v coverage %v", slices[k].Name, i, v, p.Pi1, p.Coverage)
+				t.Errorf("%s point %d = %v, want π1 %v coverage %v", slices[k].MethodName, i, v, p.Pi1, p.Coverage)
 			}
 		}
 	}
@@ -135,7 +135,7 @@ func TestCoverageSliceOption(t *testing.T) {
 		t.Errorf("band starts at %v, want 0.94", lo)
 	}
 	// Slices along different lines cannot share a chart.
-	tab, _ := operating.NewTable(context.Background(), proportions.Wald, d)
+	tab, _ := operating.NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	other, err := tab.AlongEffect(context.Background(), 0.1, operating.WithSteps(11))
 	if err != nil {
 		t.Fatal(err)

@@ -32,11 +32,11 @@ func newChartSettings(options []ChartOption) chartSettings {
 	return s
 }
 
-// WithRecommended marks the interval method with the given key as the
+// WithHighlightedMethod marks the interval method with the given key as the
 // recommended one, with a one-sentence reason shown under the chart (for
 // example the reason given by the coverage-based recommendation for the
 // design).
-func WithRecommended(methodKey, reason string) ChartOption {
+func WithHighlightedMethod(methodKey, reason string) ChartOption {
 	return func(s *chartSettings) { s.recommended, s.reason = methodKey, reason }
 }
 
@@ -54,7 +54,7 @@ func WithRecommendation(r *operating.Recommendation) ChartOption {
 		}
 		s.recommended = best.Method
 		s.reason = fmt.Sprintf("%s is recommended for a design of %d and %d units at %s: %s",
-			best.Name, r.Design.N1, r.Design.N2, fmtLevel(r.Design.Level), best.Reason)
+			best.MethodName, r.Design.N1, r.Design.N2, fmtLevel(r.Design.Level), best.Reason)
 	}
 }
 
@@ -111,39 +111,39 @@ func (s chartSettings) heightOr(px int) int {
 // Options read: WithRecommended or WithRecommendation (default: the
 // analysis's headline interval, the one that matches its test), WithHeight.
 func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) {
-	if len(a.Intervals) == 0 {
+	if len(a.DifferenceIntervals) == 0 {
 		return nil, fmt.Errorf("difference intervals chart: %w: the analysis has no interval for the difference", errNoIntervals)
 	}
 	s := newChartSettings(options)
 	rec, reason := s.recommended, s.reason
 	if rec == "" {
 		rec = a.Interval.Method
-		reason = fmt.Sprintf("%s is marked: it is the interval that matches the headline test (it excludes the null value exactly when the test rejects).", a.Interval.Name)
+		reason = fmt.Sprintf("%s is marked: it is the interval that matches the headline test (it excludes the null value exactly when the test rejects).", a.Interval.MethodName)
 	}
-	if _, ok := findInterval(a.Intervals, rec); !ok && s.recommended != "" {
+	if _, ok := findInterval(a.DifferenceIntervals, rec); !ok && s.recommended != "" {
 		return nil, fmt.Errorf("difference intervals chart: recommended method %q: %w; the analysis has %v",
-			rec, proportions.ErrUnknownMethod, intervalKeys(a.Intervals))
+			rec, proportions.ErrUnknownMethod, intervalKeys(a.DifferenceIntervals))
 	}
 	first, second := a.Comparison.First.Label, a.Comparison.Second.Label
-	level := a.Intervals[0].Level
+	level := a.DifferenceIntervals[0].Level
 	title := fmt.Sprintf("Difference in share %s: every method", a.Comparison.Event)
 	subtitle := fmt.Sprintf("%s − %s, %s intervals", first, second, fmtLevel(level))
 
-	names := make([]any, len(a.Intervals))
-	data := make([]any, len(a.Intervals))
+	names := make([]any, len(a.DifferenceIntervals))
+	data := make([]any, len(a.DifferenceIntervals))
 	table := dataTable{
 		Caption: fmt.Sprintf("%s intervals for the difference %s − %s", fmtLevel(level), first, second),
 		Header:  []string{"method", "estimate", "lower", "upper", "width", "note"},
 	}
 	lo, hi := a.Null, a.Null
-	for i, iv := range a.Intervals {
+	for i, iv := range a.DifferenceIntervals {
 		strong := iv.Method == rec
 		color := ColorBlue
 		if strong {
 			color = ColorVermillion
-			names[i] = map[string]any{"value": iv.Name, "textStyle": map[string]any{"fontWeight": "bold"}}
+			names[i] = map[string]any{"value": iv.MethodName, "textStyle": map[string]any{"fontWeight": "bold"}}
 		} else {
-			names[i] = iv.Name
+			names[i] = iv.MethodName
 		}
 		note := clipNote(iv)
 		if iv.Method == a.Interval.Method {
@@ -153,18 +153,18 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 			note = joinNotes("recommended", note)
 		}
 		tip := fmt.Sprintf("<b>%s</b><br>%s interval for %s − %s:<br>%s to %s (width %s)<br>estimate %s",
-			esc(iv.Name), fmtLevel(iv.Level), esc(first), esc(second), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), fmtPP(iv.Estimate))
+			esc(iv.MethodName), fmtLevel(iv.Level), esc(first), esc(second), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), fmtPP(iv.Estimate))
 		if note != "" {
 			tip += "<br><i>" + esc(note) + "</i>"
 		}
-		item := map[string]any{"name": iv.Name, "value": whiskerValue(iv.Estimate, i, iv, strong), "tip": tip,
+		item := map[string]any{"name": iv.MethodName, "value": whiskerValue(iv.Estimate, i, iv, strong), "tip": tip,
 			"itemStyle": map[string]any{"color": color}}
 		if strong {
 			item["mark"] = "recommended"
 		}
 		data[i] = item
 		lo, hi = math.Min(lo, iv.Lower), math.Max(hi, iv.Upper)
-		table.Rows = append(table.Rows, []string{iv.Name, fmtPP(iv.Estimate), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), note})
+		table.Rows = append(table.Rows, []string{iv.MethodName, fmtPP(iv.Estimate), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), note})
 	}
 	axisMin, axisMax, step := niceRange(lo, hi, -1, 1)
 
@@ -193,7 +193,7 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 	if a.Null != 0 {
 		notes = append(notes, fmt.Sprintf("The dashed line is the margin under test, %s.", fmtPP(a.Null)))
 	}
-	height := s.heightOr(150 + 38*len(a.Intervals))
+	height := s.heightOr(150 + 38*len(a.DifferenceIntervals))
 	return newChart("difference-intervals", title, subtitle, height, option, table, notes)
 }
 

@@ -67,7 +67,7 @@ func PowerChart(curves []planning.PowerCurve, options ...ChartOption) (*Chart, e
 // smooth-looking, later ones get other colours and dash patterns.
 func powerSeries(i int, c planning.PowerCurve, data [][]float64) map[string]any {
 	return map[string]any{
-		"type": "line", "name": c.Method, "data": data, "showSymbol": len(data) <= 60, "symbol": markerShape(i),
+		"type": "line", "name": c.Basis, "data": data, "showSymbol": len(data) <= 60, "symbol": markerShape(i),
 		"symbolSize": 5, "step": false,
 		"lineStyle": map[string]any{"color": paletteColor(i), "width": 2, "type": lineStyle(i)},
 		"itemStyle": map[string]any{"color": paletteColor(i)},
@@ -75,7 +75,7 @@ func powerSeries(i int, c planning.PowerCurve, data [][]float64) map[string]any 
 }
 
 func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) {
-	d := curves[0].Design
+	d := curves[0].Plan
 	target := d.Power
 	title := "Power against group size"
 	subtitle := d.String()
@@ -90,7 +90,7 @@ func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) 
 		line := powerSeries(i, c, data)
 		first, stays := reachIndex(c.Points, target)
 		var marks []any
-		row := []string{c.Method, fmt.Sprintf("%d to %d", c.Points[0].N1, c.Points[len(c.Points)-1].N1), "not reached", "not reached", ""}
+		row := []string{c.Basis, fmt.Sprintf("%d to %d", c.Points[0].N1, c.Points[len(c.Points)-1].N1), "not reached", "not reached", ""}
 		if first >= 0 {
 			p := c.Points[first]
 			marks = append(marks, sizeMark(p, "n1 = "+strconv.FormatInt(p.N1, 10), paletteColor(i)))
@@ -121,7 +121,7 @@ func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) 
 			line["markLine"] = targetLine(target, d.Alpha, false)
 		}
 		series = append(series, line)
-		legend = append(legend, map[string]any{"name": c.Method, "icon": markerShape(i)})
+		legend = append(legend, map[string]any{"name": c.Basis, "icon": markerShape(i)})
 		table.Rows = append(table.Rows, row)
 	}
 	ch := charts.NewLine()
@@ -146,7 +146,7 @@ func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) 
 }
 
 func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, error) {
-	d := curves[0].Design
+	d := curves[0].Plan
 	first := curves[0].Points[0]
 	title := "Power against the true difference"
 	subtitle := fmt.Sprintf("%s; n1 = %d, n2 = %d", d.String(), first.N1, first.N2)
@@ -172,11 +172,11 @@ func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, e
 			line["markLine"] = ml
 		}
 		series = append(series, line)
-		legend = append(legend, map[string]any{"name": c.Method, "icon": markerShape(i)})
+		legend = append(legend, map[string]any{"name": c.Basis, "icon": markerShape(i)})
 		step := max(1, len(c.Points)/10)
 		for k := 0; k < len(c.Points); k += step {
 			p := c.Points[k]
-			table.Rows = append(table.Rows, []string{c.Method, fmtPct(p.Rate1), fmtPP(p.Difference), fmtPct(p.Power)})
+			table.Rows = append(table.Rows, []string{c.Basis, fmtPct(p.Rate1), fmtPP(p.Difference), fmtPct(p.Power)})
 		}
 	}
 	axisMin, axisMax, _ := niceRange(lo, hi, -1, 1)

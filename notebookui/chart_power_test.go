@@ -8,8 +8,8 @@ import (
 )
 
 func TestPowerBySizeChartOption(t *testing.T) {
-	d := planning.NewDesign(planning.Equality, 0.60, 0.75)
-	curve, err := planning.PowerByN(d, 20, 250)
+	d := planning.NewPlan(planning.Equality, 0.60, 0.75)
+	curve, err := planning.PowerByTrials(d, 20, 250)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -71,7 +71,7 @@ func TestReachIndexSawTooth(t *testing.T) {
 }
 
 func TestPowerByDifferenceChartOption(t *testing.T) {
-	d := planning.NewDesign(planning.NonInferiority, 0.85, 0.85)
+	d := planning.NewPlan(planning.NonInferiority, 0.85, 0.85)
 	d.Margin = -0.1
 	curve, err := planning.PowerByDifference(d, 200, 200, 0.7, 0.95, 51)
 	if err != nil {
@@ -110,8 +110,8 @@ func TestPowerByDifferenceChartOption(t *testing.T) {
 }
 
 func TestPowerChartErrors(t *testing.T) {
-	d := planning.NewDesign(planning.Equality, 0.60, 0.75)
-	byN, _ := planning.PowerByN(d, 20, 40)
+	d := planning.NewPlan(planning.Equality, 0.60, 0.75)
+	byN, _ := planning.PowerByTrials(d, 20, 40)
 	byD, _ := planning.PowerByDifference(d, 50, 50, 0.5, 0.9, 5)
 	if _, err := PowerChart([]planning.PowerCurve{byN, byD}); !errors.Is(err, errMixedCurves) {
 		t.Errorf("mixed axes: %v", err)

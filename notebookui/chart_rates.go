@@ -126,13 +126,13 @@ func RatesChart(a proportions.Analysis) (*Chart, error) {
 			if !ok {
 				continue
 			}
-			name = iv.Name
+			name = iv.MethodName
 			tip := fmt.Sprintf("<b>%s</b>: %d of %d %s = %s<br>%s, %s interval: %s to %s",
-				esc(g.Group.Label), g.Group.Events, g.Group.Trials, esc(event), fmtPct(g.Proportion),
-				esc(iv.Name), fmtLevel(iv.Level), fmtPct(iv.Lower), fmtPct(iv.Upper))
-			data = append(data, map[string]any{"name": g.Group.Label, "value": whiskerValue(g.Proportion, gi, iv, false), "tip": tip})
-			table.Rows = append(table.Rows, []string{g.Group.Label, iv.Name, strconv.FormatInt(g.Group.Events, 10),
-				strconv.FormatInt(g.Group.Trials, 10), fmtPct(g.Proportion), fmtPct(iv.Lower), fmtPct(iv.Upper)})
+				esc(g.Group.Label), g.Group.Events, g.Group.Trials, esc(event), fmtPct(g.Rate),
+				esc(iv.MethodName), fmtLevel(iv.Level), fmtPct(iv.Lower), fmtPct(iv.Upper))
+			data = append(data, map[string]any{"name": g.Group.Label, "value": whiskerValue(g.Rate, gi, iv, false), "tip": tip})
+			table.Rows = append(table.Rows, []string{g.Group.Label, iv.MethodName, strconv.FormatInt(g.Group.Events, 10),
+				strconv.FormatInt(g.Group.Trials, 10), fmtPct(g.Rate), fmtPct(iv.Lower), fmtPct(iv.Upper)})
 		}
 		shape := k % len(whiskerShapes)
 		series = append(series, map[string]any{
@@ -146,8 +146,8 @@ func RatesChart(a proportions.Analysis) (*Chart, error) {
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
 	notes := []string{fmt.Sprintf("%s: %d of %d %s (%s); %s: %d of %d %s (%s).",
-		labels[0], a.Groups[0].Group.Events, a.Groups[0].Group.Trials, event, fmtPct(a.Groups[0].Proportion),
-		labels[1], a.Groups[1].Group.Events, a.Groups[1].Group.Trials, event, fmtPct(a.Groups[1].Proportion))}
+		labels[0], a.Groups[0].Group.Events, a.Groups[0].Group.Trials, event, fmtPct(a.Groups[0].Rate),
+		labels[1], a.Groups[1].Group.Events, a.Groups[1].Group.Trials, event, fmtPct(a.Groups[1].Rate))}
 	return newChart("rates", title, subtitle, 190+60*len(methods), option, table, notes)
 }
 

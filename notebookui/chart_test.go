@@ -57,20 +57,20 @@ func sampleAnalysis(first, second string) proportions.Analysis {
 		First:  proportions.Group{Label: first, Events: 45, Trials: 60},
 		Second: proportions.Group{Label: second, Events: 30, Trials: 55}}
 	iv := func(key, name string, est, lo, hi float64) proportions.Interval {
-		return proportions.Interval{Method: key, Name: name, Level: 0.95, Estimate: est, Defined: true, Lower: lo, Upper: hi, RawLower: lo, RawUpper: hi}
+		return proportions.Interval{Method: key, MethodName: name, Level: 0.95, Estimate: est, Defined: true, Lower: lo, Upper: hi, RawLower: lo, RawUpper: hi}
 	}
-	a.Groups[0] = proportions.GroupEstimate{Group: a.Comparison.First, Proportion: 0.75, Intervals: []proportions.Interval{
-		iv("wilson", "Wilson", 0.75, 0.6275, 0.8423), iv("clopper-pearson", "Clopper–Pearson", 0.75, 0.6214, 0.8528)}}
-	a.Groups[1] = proportions.GroupEstimate{Group: a.Comparison.Second, Proportion: 30.0 / 55, Intervals: []proportions.Interval{
-		iv("wilson", "Wilson", 30.0/55, 0.4142, 0.6708), iv("clopper-pearson", "Clopper–Pearson", 30.0/55, 0.4055, 0.6802)}}
+	a.Groups[0] = proportions.GroupEstimate{Group: a.Comparison.First, Rate: 0.75, Intervals: []proportions.Interval{
+		iv("wilson-rate", "Wilson", 0.75, 0.6275, 0.8423), iv("clopper-pearson-rate", "Clopper–Pearson", 0.75, 0.6214, 0.8528)}}
+	a.Groups[1] = proportions.GroupEstimate{Group: a.Comparison.Second, Rate: 30.0 / 55, Intervals: []proportions.Interval{
+		iv("wilson-rate", "Wilson", 30.0/55, 0.4142, 0.6708), iv("clopper-pearson-rate", "Clopper–Pearson", 30.0/55, 0.4055, 0.6802)}}
 	d := a.Difference
-	a.Intervals = []proportions.Interval{
+	a.DifferenceIntervals = []proportions.Interval{
 		iv("wald", "Wald", d, 0.0319, 0.3772),
 		iv("mee", "Mee", d, 0.0276, 0.3719),
-		{Method: "wide", Name: "Wide", Level: 0.95, Estimate: d, Defined: true, Lower: -0.2, Upper: 1, RawLower: -0.2, RawUpper: 1.08},
+		{Method: "wide", MethodName: "Wide", Level: 0.95, Estimate: d, Defined: true, Lower: -0.2, Upper: 1, RawLower: -0.2, RawUpper: 1.08},
 	}
-	a.Interval = a.Intervals[1]
-	a.Test = proportions.TestResult{Method: "score", Name: "Score"}
+	a.Interval = a.DifferenceIntervals[1]
+	a.Test = proportions.TestResult{Method: "farrington-manning-test", MethodName: "Score"}
 	return a
 }
 
@@ -169,8 +169,8 @@ func TestRatesChartOption(t *testing.T) {
 		for gi := range 2 {
 			v := values(t, data[gi])
 			want := a.Groups[gi].Intervals[k]
-			if v[0] != a.Groups[gi].Proportion || v[1] != float64(gi) || v[2] != want.Lower || v[3] != want.Upper {
-				t.Errorf("series %d group %d value %v, want estimate %v, limits %v–%v", k, gi, v, a.Groups[gi].Proportion, want.Lower, want.Upper)
+			if v[0] != a.Groups[gi].Rate || v[1] != float64(gi) || v[2] != want.Lower || v[3] != want.Upper {
+				t.Errorf("series %d group %d value %v, want estimate %v, limits %v–%v", k, gi, v, a.Groups[gi].Rate, want.Lower, want.Upper)
 			}
 			tip := data[gi].(map[string]any)["tip"].(string)
 			if !strings.Contains(tip, fmtPct(want.Lower)) || !strings.Contains(tip, fmtPct(want.Upper)) {
@@ -217,18 +217,18 @@ func TestChartEscapesLabels(t *testing.T) {
 		}
 		h := c.HTML()
 		if n := strings.Count(h, "</script>"); n != 1 {
-			t.Errorf("%s: %d </script> in the HTML, want only its own", c.ChartType(), n)
+			t.Errorf("%s: %d </script> in the HTML, want only its own", c.Name(), n)
 		}
 		for _, bad := range []string{"<script>alert", "<img src=x", `"; alert(3); "`} {
 			if strings.Contains(h, bad) {
-				t.Errorf("%s: raw %q in the HTML", c.ChartType(), bad)
+				t.Errorf("%s: raw %q in the HTML", c.Name(), bad)
 			}
 		}
 		if !strings.Contains(h, "&lt;img src=x onerror=alert(2)&gt;") {
-			t.Errorf("%s: the label is not shown as escaped text", c.ChartType())
+			t.Errorf("%s: the label is not shown as escaped text", c.Name())
 		}
 		if strings.Contains(c.Markdown(), "<img") {
-			t.Errorf("%s: raw HTML in Markdown", c.ChartType())
+			t.Errorf("%s: raw HTML in Markdown", c.Name())
 		}
 	}
 }
@@ -236,7 +236,7 @@ func TestChartEscapesLabels(t *testing.T) {
 func TestDifferenceIntervalsChartOption(t *testing.T) {
 	a := sampleAnalysis("coated", "uncoated")
 	a.Null = -0.1
-	c, err := DifferenceIntervalsChart(a, WithRecommended("wald", "because the test says so"))
+	c, err := DifferenceIntervalsChart(a, WithHighlightedMethod("wald", "because the test says so"))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -244,22 +244,22 @@ func TestDifferenceIntervalsChartOption(t *testing.T) {
 	checkCommon(t, m, "percentage points")
 	series := seriesList(t, m)
 	data := series[0]["data"].([]any)
-	if len(data) != len(a.Intervals) {
-		t.Fatalf("%d items, want one per method (%d)", len(data), len(a.Intervals))
+	if len(data) != len(a.DifferenceIntervals) {
+		t.Fatalf("%d items, want one per method (%d)", len(data), len(a.DifferenceIntervals))
 	}
-	for i, iv := range a.Intervals {
+	for i, iv := range a.DifferenceIntervals {
 		item := data[i].(map[string]any)
 		v := values(t, item)
 		strong := iv.Method == "wald"
 		if v[0] != iv.Estimate || v[2] != iv.Lower || v[3] != iv.Upper || (v[4] == 1) != strong {
-			t.Errorf("%s: value %v, want %v %v–%v recommended=%v", iv.Name, v, iv.Estimate, iv.Lower, iv.Upper, strong)
+			t.Errorf("%s: value %v, want %v %v–%v recommended=%v", iv.MethodName, v, iv.Estimate, iv.Lower, iv.Upper, strong)
 		}
 		if (item["mark"] == "recommended") != strong {
-			t.Errorf("%s: mark %v", iv.Name, item["mark"])
+			t.Errorf("%s: mark %v", iv.MethodName, item["mark"])
 		}
 		color := item["itemStyle"].(map[string]any)["color"]
 		if strong && color != ColorVermillion || !strong && color != ColorBlue {
-			t.Errorf("%s: colour %v", iv.Name, color)
+			t.Errorf("%s: colour %v", iv.MethodName, color)
 		}
 	}
 	if v := values(t, data[2]); v[6] != 1 || v[5] != 0 {
@@ -276,7 +276,7 @@ func TestDifferenceIntervalsChartOption(t *testing.T) {
 	if !strings.Contains(c.Text(), "because the test says so") || !strings.Contains(c.Text(), "upper limit clipped from +108.00 pp") {
 		t.Errorf("text lacks the recommendation or the clipping note:\n%s", c.Text())
 	}
-	if _, err := DifferenceIntervalsChart(a, WithRecommended("nosuch", "")); err == nil {
+	if _, err := DifferenceIntervalsChart(a, WithHighlightedMethod("nosuch", "")); err == nil {
 		t.Error("an unknown recommended method gave no error")
 	}
 }
@@ -287,7 +287,7 @@ func TestDifferenceIntervalsChartOption(t *testing.T) {
 // the Wald interval p1 − p2 ± z_{1−α/2}·se, which the library registers,
 // so the interval read off its confidence curve must match that one.
 var waldZ = proportions.TestMethod{
-	Key: "test-wald-z", Name: "unpooled z", Family: proportions.Difference, Margins: true,
+	Key: "test-wald-z", Name: "unpooled z", Scale: proportions.Difference, Margins: true,
 	Run: func(c proportions.Counts, h proportions.Hypothesis) proportions.TestResult {
 		p1, p2 := c.P1(), c.P2()
 		se := math.Sqrt(p1*(1-p1)/float64(c.N1) + p2*(1-p2)/float64(c.N2))
@@ -362,7 +362,7 @@ func TestCurveChartOption(t *testing.T) {
 		t.Fatal(err)
 	}
 	a := sampleAnalysis("coated", "uncoated")
-	ch, err := CurveChart(cc, a.Comparison)
+	ch, err := ConfidenceCurveChartFrom(cc, a.Comparison)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -423,7 +423,7 @@ func TestConfidenceCurveOfAnalysis(t *testing.T) {
 			t.Fatal(err)
 		}
 		if math.Abs(cc.Lower-a.Interval.Lower) > 1e-6 || math.Abs(cc.Upper-a.Interval.Upper) > 1e-6 {
-			t.Errorf("%v: read off %.8f to %.8f, headline %s %.8f to %.8f", tc, cc.Lower, cc.Upper, a.Interval.Name, a.Interval.Lower, a.Interval.Upper)
+			t.Errorf("%v: read off %.8f to %.8f, headline %s %.8f to %.8f", tc, cc.Lower, cc.Upper, a.Interval.MethodName, a.Interval.Lower, a.Interval.Upper)
 		}
 		if cc.NullPValue != a.Test.PValue {
 			t.Errorf("%v: curve at the null %v, test p-value %v", tc, cc.NullPValue, a.Test.PValue)
@@ -456,8 +456,8 @@ func TestDifferenceChartWithRecommendation(t *testing.T) {
 	}
 	for _, item := range seriesList(t, optionOfChart(t, ch))[0]["data"].([]any) {
 		it := item.(map[string]any)
-		if (it["mark"] == "recommended") != (it["name"] == best.Name) {
-			t.Errorf("%v marked %v; the recommendation's best is %s", it["name"], it["mark"], best.Name)
+		if (it["mark"] == "recommended") != (it["name"] == best.MethodName) {
+			t.Errorf("%v marked %v; the recommendation's best is %s", it["name"], it["mark"], best.MethodName)
 		}
 	}
 	if !strings.Contains(ch.Text(), best.Reason) {

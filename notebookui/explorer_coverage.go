@@ -57,7 +57,7 @@ func coverageSliceChart(sl []CoverageSlice, s sliceSettings) (*Chart, error) {
 		}
 		if c.AtValid {
 			line["markPoint"] = map[string]any{"symbol": "circle", "symbolSize": 10, "data": []any{map[string]any{
-				"coord": []float64{x, c.At.Coverage}, "name": c.Name, "value": fmtPct(c.At.Coverage),
+				"coord": []float64{x, c.At.Coverage}, "name": c.MethodName, "value": fmtPct(c.At.Coverage),
 				"itemStyle": map[string]any{"color": paletteColor(i), "borderColor": "#ffffff", "borderWidth": 1.5},
 				"label":     map[string]any{"show": len(sl) == 1, "formatter": fmtPct(c.At.Coverage), "position": "top", "color": paletteColor(i)}}}}
 		}
@@ -93,7 +93,7 @@ func (c coverageSummary) cells(sl CoverageSlice) []string {
 	} else if c.s.pi2 < 0 || c.s.pi2 > 1 {
 		at = fmt.Sprintf("π2 would be %s: not a rate", trimPct(c.s.pi2))
 	}
-	return []string{sl.Name, at, fmt.Sprintf("%s at π1 = %s, π2 = %s", fmtPct(sl.Min), trimPct(sl.MinPi1), trimPct(sl.MinPi2)), fmtPct(sl.Mean), atWidth, width(sl.MeanWidth)}
+	return []string{sl.MethodName, at, fmt.Sprintf("%s at π1 = %s, π2 = %s", fmtPct(sl.Min), trimPct(sl.MinPi1), trimPct(sl.MinPi2)), fmtPct(sl.Mean), atWidth, width(sl.MeanWidth)}
 }
 
 func (c coverageSummary) HTML() string {
@@ -107,7 +107,7 @@ func (c coverageSummary) HTML() string {
 	b.WriteString(`</tr></thead><tbody>`)
 	for _, sl := range c.slices {
 		fmt.Fprintf(&b, `<tr data-method="%s" data-coverage="%s" data-min="%s" data-mean="%s" data-mean-width="%s">`,
-			html.EscapeString(sl.Key), rawNum(sl.At.Coverage, sl.AtValid), rawNum(sl.Min, true), rawNum(sl.Mean, true), rawNum(sl.MeanWidth, true))
+			html.EscapeString(sl.Method), rawNum(sl.At.Coverage, sl.AtValid), rawNum(sl.Min, true), rawNum(sl.Mean, true), rawNum(sl.MeanWidth, true))
 		for i, v := range c.cells(sl) {
 			tag := "td"
 			if i == 0 {
@@ -160,7 +160,7 @@ func (c coverageSummary) JSON() ([]byte, error) {
 		if sl.AtValid {
 			cov, w = sl.At.Coverage, sl.At.Width
 		}
-		rows[i] = row{sl.Key, sl.Name, proportions.JSONFloat(cov), sl.AtValid, sl.Min, sl.MinPi1, sl.MinPi2, sl.Mean, proportions.JSONFloat(w), proportions.JSONFloat(sl.MeanWidth)}
+		rows[i] = row{sl.Method, sl.MethodName, proportions.JSONFloat(cov), sl.AtValid, sl.Min, sl.MinPi1, sl.MinPi2, sl.Mean, proportions.JSONFloat(w), proportions.JSONFloat(sl.MeanWidth)}
 	}
 	return json.Marshal(map[string]any{"kind": "coverage-summary", "slice": sliceSubtitle(c.s), "pi1": c.s.pi1, "pi2": c.s.pi2, "methods": rows})
 }

@@ -19,7 +19,7 @@ func ExampleIntervalExplorer_Slice() {
 		return
 	}
 	s := slices[0]
-	fmt.Printf("%s at π1 = %.2f, π2 = %.2f: coverage %.4f\n", s.Name, s.At.Pi1, s.At.Pi2, s.At.Coverage)
+	fmt.Printf("%s at π1 = %.2f, π2 = %.2f: coverage %.4f\n", s.MethodName, s.At.Pi1, s.At.Pi2, s.At.Coverage)
 	fmt.Printf("lowest along the slice %.4f at π1 = %.2f; mean %.4f\n", s.Min, s.MinPi1, s.Mean)
 	// Output:
 	// Wald at π1 = 0.30, π2 = 0.30: coverage 0.9314
@@ -33,7 +33,7 @@ func ExampleIntervalExplorer_Slice() {
 // a notebook run headless it displays it; in a live notebook it runs until
 // the reader presses Done. Frame gives the view for any settings.
 func ExamplePlanningExplorer_Frame() {
-	start := planning.NewDesign(planning.Equality, 0.6, 0.4)
+	start := planning.NewPlan(planning.Equality, 0.6, 0.4)
 	e := notebookui.PlanningExplorer{Design: start}
 	d := start
 	d.Power = 0.9

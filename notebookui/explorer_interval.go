@@ -55,10 +55,10 @@ type IntervalExplorer struct {
 	MaxGroupSize int
 }
 
-// MaxExplorerGroupSize is the largest group size the interval explorer
+// MaxExplorerTrials is the largest group size the interval explorer
 // offers: its tables of limits take 24·(n1+1)·(n2+1) bytes per method and
 // a redraw after a change of n recomputes them.
-const MaxExplorerGroupSize = 1000
+const MaxExplorerTrials = 1000
 
 // allMethods is the drop-down entry that shows every offered method.
 const allMethods = "all methods"
@@ -80,7 +80,7 @@ func (e IntervalExplorer) maxN() int {
 // methods resolves the offered methods.
 func (e IntervalExplorer) methods() ([]proportions.IntervalMethod, error) {
 	if len(e.Methods) == 0 {
-		return proportions.IntervalMethods(proportions.Difference), nil
+		return proportions.EnumerableIntervalMethods(proportions.Difference), nil
 	}
 	out := make([]proportions.IntervalMethod, 0, len(e.Methods))
 	for _, k := range e.Methods {
@@ -88,9 +88,9 @@ func (e IntervalExplorer) methods() ([]proportions.IntervalMethod, error) {
 		if err != nil {
 			return nil, fmt.Errorf("interval explorer: %w", err)
 		}
-		if m.Family != proportions.Difference {
+		if m.Scale != proportions.Difference {
 			return nil, fmt.Errorf("interval explorer: %s is a method for the %s: %w; the explorer compares methods for the difference π1 − π2 (draw the others with CoverageSliceChart or CoverageMapChart)",
-				m.Name, m.Family, proportions.ErrUnsupported)
+				m.Name, m.Scale, proportions.ErrUnsupported)
 		}
 		out = append(out, m)
 	}
@@ -111,8 +111,8 @@ func (e IntervalExplorer) validate() error {
 			return fmt.Errorf("interval explorer: method %q: %w; it is not among the offered methods", e.Method, proportions.ErrUnknownMethod)
 		}
 	}
-	if top := e.maxN(); top < 1 || top > MaxExplorerGroupSize {
-		return fmt.Errorf("interval explorer: group sizes up to %d: %w; the sliders can reach at most %d", top, proportions.ErrTooLarge, MaxExplorerGroupSize)
+	if top := e.maxN(); top < 1 || top > MaxExplorerTrials {
+		return fmt.Errorf("interval explorer: group sizes up to %d: %w; the sliders can reach at most %d", top, proportions.ErrTooLarge, MaxExplorerTrials)
 	}
 	if _, err := operating.NewDesign(e.N1, e.N2, e.level()); err != nil {
 		return fmt.Errorf("interval explorer: %w", err)
@@ -125,11 +125,11 @@ func (e IntervalExplorer) validate() error {
 	}
 	for _, r := range []float64{e.Rate1, e.Rate2} {
 		if !(r >= 0 && r <= 1) {
-			return fmt.Errorf("interval explorer: rate %v: %w; a rate lies between 0 and 1", r, proportions.ErrDesign)
+			return fmt.Errorf("interval explorer: rate %v: %w; a rate lies between 0 and 1", r, proportions.ErrPlan)
 		}
 	}
 	if !(e.Difference >= -1 && e.Difference <= 1) {
-		return fmt.Errorf("interval explorer: difference %v: %w; π1 − π2 lies between −1 and 1", e.Difference, proportions.ErrDesign)
+		return fmt.Errorf("interval explorer: difference %v: %w; π1 − π2 lies between −1 and 1", e.Difference, proportions.ErrPlan)
 	}
 	return nil
 }
@@ -178,12 +178,12 @@ func (e IntervalExplorer) model() (*intervalModel, error) {
 type CoverageSlice struct {
 	// Slice holds the points: along π1 at a fixed π2, or along π2 at a
 	// fixed difference.
-	Slice *operating.Slice `json:"slice"`
-	Key   string       `json:"method"`
-	Name  string       `json:"name"`
+	Slice      *operating.Slice `json:"slice"`
+	Method     string           `json:"method"`
+	MethodName string           `json:"method_name"`
 	// At is the point the reader chose, when it lies on the slice.
 	At      operating.Point `json:"at"`
-	AtValid bool        `json:"at_valid"`
+	AtValid bool            `json:"at_valid"`
 	// Min is the lowest coverage along the slice, at (MinPi1, MinPi2)
 	// (the first such point along the slice); Mean is the average
 	// coverage and MeanWidth the average expected width over the points
@@ -365,7 +365,7 @@ func (m *intervalModel) slice(me proportions.IntervalMethod, d operating.Design,
 	if err != nil {
 		return CoverageSlice{}, err
 	}
-	cs := CoverageSlice{Slice: es, Key: me.Key, Name: me.Name, Min: math.Inf(1)}
+	cs := CoverageSlice{Slice: es, Method: me.Key, MethodName: me.Name, Min: math.Inf(1)}
 	var n int
 	for _, p := range es.Points {
 		if samePoint(p, s.pi1, s.pi2) {
@@ -450,14 +450,14 @@ type tableCache struct {
 	mu    sync.Mutex
 	limit int
 	order []string
-	byKey map[string]*operating.Table
+	byKey map[string]*operating.OutcomeLimits
 }
 
 func newTableCache(limit int) *tableCache {
-	return &tableCache{limit: max(limit, 4), byKey: map[string]*operating.Table{}}
+	return &tableCache{limit: max(limit, 4), byKey: map[string]*operating.OutcomeLimits{}}
 }
 
-func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*operating.Table, error) {
+func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*operating.OutcomeLimits, error) {
 	key := fmt.Sprintf("%s/%d/%d/%v", me.Key, d.N1, d.N2, d.Level)
 	c.mu.Lock()
 	if t, ok := c.byKey[key]; ok {
@@ -466,7 +466,7 @@ func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*op
 		return t, nil
 	}
 	c.mu.Unlock()
-	t, err := operating.NewTable(context.Background(), me, d)
+	t, err := operating.NewOutcomeLimits(context.Background(), me, d)
 	if err != nil {
 		return nil, err
 	}

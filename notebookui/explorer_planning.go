@@ -24,7 +24,7 @@ import (
 // one with the usual defaults).
 type PlanningExplorer struct {
 	// Design is the starting plan.
-	Design planning.Design
+	Design planning.Plan
 }
 
 // Slider ranges of the planning explorer.
@@ -45,14 +45,14 @@ func (e PlanningExplorer) validate() error {
 	}
 	for _, r := range []float64{d.Rate1, d.Rate2} {
 		if !(r > 0 && r < 1) {
-			return fmt.Errorf("planning explorer: anticipated rate %v: %w; a rate must lie strictly between 0 and 1", r, proportions.ErrDesign)
+			return fmt.Errorf("planning explorer: anticipated rate %v: %w; a rate must lie strictly between 0 and 1", r, proportions.ErrPlan)
 		}
 	}
 	if !(d.Power >= 0.5 && d.Power < 1) {
-		return fmt.Errorf("planning explorer: target power %v: %w; the slider runs from 50%% to 99%%", d.Power, proportions.ErrDesign)
+		return fmt.Errorf("planning explorer: target power %v: %w; the slider runs from 50%% to 99%%", d.Power, proportions.ErrPlan)
 	}
 	if d.Goal < planning.Equality || d.Goal > planning.Equivalence {
-		return fmt.Errorf("planning explorer: goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrDesign)
+		return fmt.Errorf("planning explorer: goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrPlan)
 	}
 	return nil
 }
@@ -70,7 +70,7 @@ func (e PlanningExplorer) Run(opts ...LiveOption) error {
 // Frame returns what the explorer shows for a design (its goal, rates,
 // margin and power; the other fields are those of e.Design), as the live
 // explorer would draw it. The values are rounded to the sliders' steps.
-func (e PlanningExplorer) Frame(d planning.Design) (Frame, error) {
+func (e PlanningExplorer) Frame(d planning.Plan) (Frame, error) {
 	if err := e.validate(); err != nil {
 		return Frame{}, err
 	}
@@ -86,7 +86,7 @@ func (planningModel) name() string  { return "planning" }
 func (planningModel) title() string { return "Study plan: required group size and power" }
 
 // positions maps a design to slider positions.
-func (m planningModel) positions(d planning.Design) []int {
+func (m planningModel) positions(d planning.Plan) []int {
 	cs := m.controls()
 	pos := []int{int(d.Goal), rateStep(d.Rate1), rateStep(d.Rate2), m.marginStep(d.Margin), int(math.Round(100 * d.Power))}
 	for i := range pos {
@@ -146,20 +146,13 @@ func (m planningModel) unused(pos []int, i int) bool {
 }
 
 // design builds the plan at the positions. The starting goal keeps the
-// starting α and direction; another goal takes NewDesign's α for it, and
-// a one-sided goal keeps a one-sided starting direction (Less for defect
-// rates, say) or else Greater.
-func (m planningModel) design(pos []int) planning.Design {
+// starting α; another goal takes NewPlan's α for it. Which way is better
+// (lower for defect rates, say) always stays the starting plan's.
+func (m planningModel) design(pos []int) planning.Plan {
 	d := m.e.Design
 	goal := planGoals[pos[0]]
 	if goal != d.Goal {
-		d.Alpha = planning.NewDesign(goal, 0.5, 0.5).Alpha
-		switch {
-		case goal == planning.Equality || goal == planning.Equivalence:
-			d.Alternative = proportions.TwoSided
-		case d.Alternative == proportions.TwoSided:
-			d.Alternative = proportions.Greater
-		}
+		d.Alpha = planning.NewPlan(goal, 0.5, 0.5).Alpha
 		d.Goal = goal
 	}
 	d.Rate1 = float64(pos[1]) / planRateSteps
@@ -184,7 +177,7 @@ func (m planningModel) render(pos []int) Displayable {
 	if err != nil {
 		return message{kind: "planning", text: "No sample size for these settings: " + err.Error()}
 	}
-	curve, err := planning.PowerByN(d, 2, max(2*res.N1, 10))
+	curve, err := planning.PowerByTrials(d, 2, max(2*res.N1, 10))
 	if err != nil {
 		return message{kind: "planning", text: "No power curve for these settings: " + err.Error()}
 	}
@@ -206,14 +199,14 @@ func (p planFigures) rows() [][2]string {
 	rows := [][2]string{
 		{"required group sizes", fmt.Sprintf("n1 = %d, n2 = %d (total %d)", r.N1, r.N2, r.Total)},
 	}
-	if r.Design.Dropout > 0 {
-		rows = append(rows, [2]string{"to enrol (drop-out " + trimPct(r.Design.Dropout) + ")",
+	if r.Plan.Dropout > 0 {
+		rows = append(rows, [2]string{"to enrol (drop-out " + trimPct(r.Plan.Dropout) + ")",
 			fmt.Sprintf("%d + %d = %d", r.Enrolled1, r.Enrolled2, r.EnrolledTotal)})
 	}
 	rows = append(rows,
 		[2]string{"power at these sizes", percent(r.Power, 1)},
-		[2]string{"plan", r.Design.String()},
-		[2]string{"method", r.Method},
+		[2]string{"plan", r.Plan.String()},
+		[2]string{"method", r.Approximation},
 		[2]string{"formula", r.Formula},
 	)
 	return rows

@@ -72,7 +72,7 @@ func TestIntervalExplorerSliceMatchesEnumeration(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(sl) != 1 || sl[0].Key != "wald" {
+	if len(sl) != 1 || sl[0].Method != "wald" {
 		t.Fatalf("want the Wald slice only, got %d slices", len(sl))
 	}
 	s := sl[0]
@@ -197,9 +197,9 @@ func TestIntervalExplorerRejectsBadSettings(t *testing.T) {
 		{IntervalExplorer{N1: 10, N2: 10, MaxGroupSize: 5000}, proportions.ErrTooLarge},
 		{IntervalExplorer{N1: 300, N2: 10, MaxGroupSize: 200}, proportions.ErrTooLarge},
 		{IntervalExplorer{N1: 10, N2: 10, Level: 0.5}, proportions.ErrLevel},
-		{IntervalExplorer{N1: 10, N2: 10, Rate1: 1.5}, proportions.ErrDesign},
+		{IntervalExplorer{N1: 10, N2: 10, Rate1: 1.5}, proportions.ErrPlan},
 		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"no-such"}}, proportions.ErrUnknownMethod},
-		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"katz"}}, proportions.ErrUnsupported},
+		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"katz-ratio"}}, proportions.ErrUnsupported},
 		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"wald"}, Method: "mee"}, proportions.ErrUnknownMethod},
 	}
 	for _, c := range cases {
@@ -232,7 +232,7 @@ func fleissEquality(p1, p2, alpha, power float64) int {
 }
 
 func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
-	start := planning.NewDesign(planning.Equality, 0.6, 0.4)
+	start := planning.NewPlan(planning.Equality, 0.6, 0.4)
 	e := PlanningExplorer{Design: start}
 	m := planningModel{e}
 	for _, c := range []struct{ r1, r2, power float64 }{{0.6, 0.4, 0.8}, {0.3, 0.2, 0.9}, {0.15, 0.1, 0.8}} {
@@ -267,16 +267,16 @@ func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
 }
 
 func TestPlanningExplorerGoalSwitch(t *testing.T) {
-	start := planning.NewDesign(planning.NonInferiority, 0.04, 0.04)
-	start.Alternative, start.Margin = proportions.Less, 0.02 // defect rates: lower is better
+	start := planning.NewPlan(planning.NonInferiority, 0.04, 0.04)
+	start.Better, start.Margin = proportions.LowerIsBetter, 0.02 // defect rates
 	m := planningModel{PlanningExplorer{Design: start}}
 	pos := m.positions(start)
 	pos[0] = int(planning.Superiority)
-	if d := m.design(pos); d.Alternative != proportions.Less || d.Alpha != planning.DefaultOneSidedAlpha {
-		t.Errorf("switching to superiority keeps the direction Less and one-sided α: %+v", d)
+	if d := m.design(pos); d.Better != proportions.LowerIsBetter || d.Alpha != planning.DefaultOneSidedAlpha {
+		t.Errorf("switching to superiority keeps lower-is-better and one-sided α: %+v", d)
 	}
 	pos[0] = int(planning.Equality)
-	if d := m.design(pos); d.Alternative != proportions.TwoSided || d.Margin != 0 || d.Alpha != planning.DefaultTwoSidedAlpha {
+	if d := m.design(pos); d.Better != proportions.LowerIsBetter || d.Margin != 0 || d.Alpha != planning.DefaultTwoSidedAlpha {
 		t.Errorf("switching to equality: %+v", d)
 	}
 }
@@ -324,7 +324,7 @@ func TestWhatIfExplorer(t *testing.T) {
 	if _, err := e.Frame(30, 900, 18, 200); !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("counts past the sliders: %v", err)
 	}
-	if err := (WhatIfExplorer{Comparison: c, MaxTrials: 100}).Run(); !errors.Is(err, proportions.ErrTooLarge) {
+	if err := (WhatIfExplorer{Comparison: c, SliderMaxTrials: 100}).Run(); !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("groups larger than the sliders' range: %v", err)
 	}
 }
@@ -373,7 +373,7 @@ func TestIntervalExplorerDrawsReadyMethodsFirst(t *testing.T) {
 	want := frameOf(m, pos)
 	rows := regexp.MustCompile(`<tr data-method="[^"]+" data-coverage="[^"]*"`)
 	got := rows.FindAllString(full.HTML(), -1)
-	if len(got) != len(proportions.IntervalMethods(proportions.Difference)) ||
+	if len(got) != len(proportions.EnumerableIntervalMethods(proportions.Difference)) ||
 		strings.Join(got, "|") != strings.Join(rows.FindAllString(want.HTML(), -1), "|") ||
 		strings.Join(rows.FindAllString(again.HTML(), -1), "|") != strings.Join(got, "|") {
 		t.Errorf("completed frame rows differ from a direct computation:\n%v\n%v", got, rows.FindAllString(want.HTML(), -1))
@@ -399,7 +399,7 @@ func TestWhatIfExplorerShowsTheQuickCardFirst(t *testing.T) {
 	full := complete()
 	// The full card has the costly exact tests (Barnard's among them); the
 	// quick one does not, though it has Fisher's, which costs microseconds.
-	barnard, err := proportions.LookupTest("barnard")
+	barnard, err := proportions.LookupTest("barnard-test")
 	if err != nil {
 		t.Fatal(err)
 	}

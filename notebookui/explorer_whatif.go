@@ -25,9 +25,9 @@ type WhatIfExplorer struct {
 	// proportions.Analyze. The card runs every method
 	// (proportions.AllMethods) unless these options set another scope.
 	Analysis []proportions.Option
-	// MaxTrials is the largest group size the sliders reach; 0 means
+	// SliderMaxTrials is the largest group size the sliders reach; 0 means
 	// twice the larger group (at least 20). At most MaxWhatIfTrials.
-	MaxTrials int
+	SliderMaxTrials int
 }
 
 // MaxWhatIfTrials is the largest MaxTrials a what-if explorer accepts: the
@@ -43,9 +43,9 @@ func (e WhatIfExplorer) validate() error {
 		return fmt.Errorf("what-if explorer: %w", err)
 	}
 	top := e.maxTrials()
-	if top > MaxWhatIfTrials || e.MaxTrials < 0 {
+	if top > MaxWhatIfTrials || e.SliderMaxTrials < 0 {
 		return fmt.Errorf("what-if explorer: slider range up to %d trials: %w; use 0 (twice the larger group) or at most %d",
-			e.MaxTrials, proportions.ErrTooLarge, MaxWhatIfTrials)
+			e.SliderMaxTrials, proportions.ErrTooLarge, MaxWhatIfTrials)
 	}
 	c := e.Comparison.Counts()
 	if c.N1 > int64(top) || c.N2 > int64(top) {
@@ -56,8 +56,8 @@ func (e WhatIfExplorer) validate() error {
 }
 
 func (e WhatIfExplorer) maxTrials() int {
-	if e.MaxTrials != 0 {
-		return e.MaxTrials
+	if e.SliderMaxTrials != 0 {
+		return e.SliderMaxTrials
 	}
 	c := e.Comparison.Counts()
 	return int(max(20, 2*max(c.N1, c.N2)))
@@ -139,7 +139,7 @@ func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable,
 		return v, nil
 	case <-time.After(budget):
 	}
-	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithMethods(proportions.QuickMethods)))
+	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithScope(proportions.ScopeQuick)))
 	var once sync.Once
 	var v Displayable
 	rest := func() Displayable {
@@ -154,7 +154,7 @@ func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable,
 // (the exact tests and intervals matter most for the small, sparse tables
 // a what-if reaches), unless the explorer's own options say otherwise.
 func (m whatIfModel) fullOptions() []proportions.Option {
-	return append([]proportions.Option{proportions.WithMethods(proportions.AllMethods)}, m.e.Analysis...)
+	return append([]proportions.Option{proportions.WithScope(proportions.ScopeAll)}, m.e.Analysis...)
 }
 
 // comparison builds the comparison at the positions, or the message

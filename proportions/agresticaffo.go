@@ -13,7 +13,7 @@ package proportions
 var AgrestiCaffo = IntervalMethod{
 	Key:        "agresti-caffo",
 	Name:       "Agresti–Caffo",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Agresti A, Caffo B (2000). Simple and effective confidence intervals for proportions and differences of proportions result from adding two successes and two failures. The American Statistician 54:280–288.",
 	Definition: "Wald interval after adding one event and one non-event to each group: p̃i = (xi+1)/(ni+2), p̃1 − p̃2 ± z·√(Σ p̃i(1−p̃i)/(ni+2))",
 	Symmetric:  true,

@@ -12,7 +12,7 @@ func TestCoreMethodsDoNotAllocate(t *testing.T) {
 			t.Errorf("%s allocates %v times per interval", m.Name, a)
 		}
 	}
-	for _, m := range []ProportionMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys} {
+	for _, m := range []RateMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys} {
 		if a := testing.AllocsPerRun(20, func() { sinkLo, sinkHi = m.Limits(3, 17, conf) }); a != 0 {
 			t.Errorf("%s allocates %v times per interval", m.Name, a)
 		}

@@ -3,9 +3,9 @@ package proportions
 // GroupEstimate is one group's data and its proportion with intervals from
 // every registered single-proportion method (Wilson first).
 type GroupEstimate struct {
-	Group      Group      `json:"group"`
-	Proportion float64    `json:"proportion"`
-	Intervals  []Interval `json:"intervals"`
+	Group     Group      `json:"group"`
+	Rate      float64    `json:"rate"`
+	Intervals []Interval `json:"intervals"`
 }
 
 // Warning is a caution attached to an analysis. Code is a stable
@@ -59,12 +59,12 @@ type Analysis struct {
 	Test TestResult `json:"test"`
 	// Tests are every registered test on the difference scale that applies.
 	Tests []TestResult `json:"tests"`
-	// Intervals are every registered interval method for the difference.
-	Intervals []Interval `json:"intervals"`
-	// Ratios and OddsRatios hold every registered ratio and odds-ratio
+	// DifferenceIntervals are every registered interval method for the difference.
+	DifferenceIntervals []Interval `json:"difference_intervals"`
+	// RatioIntervals and OddsRatios hold every registered ratio and odds-ratio
 	// interval (empty until those methods are registered).
-	Ratios     []Interval `json:"ratios,omitempty"`
-	OddsRatios []Interval `json:"odds_ratios,omitempty"`
+	RatioIntervals     []Interval `json:"ratio_intervals"`
+	OddsRatioIntervals []Interval `json:"odds_ratio_intervals"`
 	// Conclusion is a plain-language reading of the headline result. It
 	// never reads a non-rejection as evidence of equality.
 	Conclusion string    `json:"conclusion"`

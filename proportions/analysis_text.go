@@ -14,22 +14,22 @@ func (a Analysis) String() string {
 	c := a.Comparison
 	fmt.Fprintf(&b, "Comparison of %q: %s vs %s\n", c.Event, c.First.Label, c.Second.Label)
 	for _, g := range a.Groups {
-		fmt.Fprintf(&b, "  %s: %d of %d, %s", g.Group.Label, g.Group.Events, g.Group.Trials, percent(g.Proportion))
+		fmt.Fprintf(&b, "  %s: %d of %d, %s", g.Group.Label, g.Group.Events, g.Group.Trials, percent(g.Rate))
 		if len(g.Intervals) > 0 {
 			iv := g.Intervals[0]
-			fmt.Fprintf(&b, " (%s %s: %s to %s)", iv.Name, levelPercent(iv.Level), percent(iv.Lower), percent(iv.Upper))
+			fmt.Fprintf(&b, " (%s %s: %s to %s)", iv.MethodName, levelPercent(iv.Level), percent(iv.Lower), percent(iv.Upper))
 		}
 		b.WriteString("\n")
 	}
 	fmt.Fprintf(&b, "Difference %s − %s: %s (%s %s interval %s to %s)\n", c.First.Label, c.Second.Label,
-		FormatValue(a.Difference), a.Interval.Name, levelPercent(a.Interval.Level), FormatValue(a.Interval.Lower), FormatValue(a.Interval.Upper))
+		FormatValue(a.Difference), a.Interval.MethodName, levelPercent(a.Interval.Level), FormatValue(a.Interval.Lower), FormatValue(a.Interval.Upper))
 	fmt.Fprintf(&b, "Tests of difference = %v (%s):\n", a.Null, a.Alternative)
 	for _, t := range a.Tests {
 		fmt.Fprintf(&b, "  %s\n", t)
 	}
-	writeIntervals(&b, "Intervals for the difference", a.Intervals)
-	writeIntervals(&b, "Intervals for the ratio", a.Ratios)
-	writeIntervals(&b, "Intervals for the odds ratio", a.OddsRatios)
+	writeIntervals(&b, "Intervals for the difference", a.DifferenceIntervals)
+	writeIntervals(&b, "Intervals for the ratio", a.RatioIntervals)
+	writeIntervals(&b, "Intervals for the odds ratio", a.OddsRatioIntervals)
 	fmt.Fprintf(&b, "Conclusion: %s\n", a.Conclusion)
 	for _, w := range a.Warnings {
 		fmt.Fprintf(&b, "Warning (%s): %s\n", w.Code, w.Message)
@@ -45,14 +45,14 @@ func writeIntervals(b *strings.Builder, title string, ivs []Interval) {
 	fmt.Fprintf(b, "%s (%s):\n", title, levelPercent(ivs[0].Level))
 	width := 0
 	for _, iv := range ivs {
-		width = max(width, utf8.RuneCountInString(iv.Name))
+		width = max(width, utf8.RuneCountInString(iv.MethodName))
 	}
 	for _, iv := range ivs {
 		note := ""
 		if iv.Clipped {
 			note = fmt.Sprintf("  [raw %s to %s]", FormatValue(iv.RawLower), FormatValue(iv.RawUpper))
 		}
-		pad := strings.Repeat(" ", width-utf8.RuneCountInString(iv.Name))
-		fmt.Fprintf(b, "  %s%s  %s to %s%s\n", iv.Name, pad, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
+		pad := strings.Repeat(" ", width-utf8.RuneCountInString(iv.MethodName))
+		fmt.Fprintf(b, "  %s%s  %s to %s%s\n", iv.MethodName, pad, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
 	}
 }

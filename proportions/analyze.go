@@ -13,7 +13,7 @@ import (
 // chi-square.
 const (
 	HeadlineIntervalKey = "mee"
-	HeadlineTestKey     = "score"
+	HeadlineTestKey     = "farrington-manning-test"
 )
 
 // Caution is the standing reminder attached to every analysis.
@@ -62,22 +62,22 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 		return Analysis{}, err
 	}
 	a := Analysis{
-		Comparison: c, Level: s.Level, Null: null, Alternative: s.Alternative, Scope: s.Methods,
+		Comparison: c, Level: s.Level, Null: null, Alternative: s.Alternative, Scope: s.Scope,
 		Difference: Difference.Estimate(counts), Caution: Caution,
 	}
 	store := newIntervalStore()
 	a.Groups[0] = groupEstimate(c.First, ivConf, store.take(len(proportionMethods)))
 	a.Groups[1] = groupEstimate(c.Second, ivConf, store.take(len(proportionMethods)))
-	run := methodFilter{scope: s.Methods, total: counts.N1 + counts.N2}
-	a.Intervals = a.intervalsOf(run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods)
-	a.Ratios = a.intervalsOf(run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods)
-	a.OddsRatios = a.intervalsOf(run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods)
+	run := methodFilter{scope: s.Scope, total: counts.N1 + counts.N2}
+	a.DifferenceIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods)
+	a.RatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods)
+	a.OddsRatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods)
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf, shared: &sharedWork{}}
 	a.Tests = a.testsOf(run, counts, h, s)
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
 		return Analysis{}, err
 	}
-	a.Warnings = append(a.Warnings, dataWarnings(c, s.Methods)...)
+	a.Warnings = append(a.Warnings, dataWarnings(c, s.Scope)...)
 	a.Conclusion = conclusion(a)
 	return a, nil
 }
@@ -119,7 +119,7 @@ func (s *intervalStore) take(n int) []Interval {
 }
 
 func groupEstimate(g Group, conf Confidence, list []Interval) GroupEstimate {
-	ge := GroupEstimate{Group: g, Proportion: g.Proportion(), Intervals: list}
+	ge := GroupEstimate{Group: g, Rate: g.Proportion(), Intervals: list}
 	for _, m := range proportionMethods {
 		ge.Intervals = append(ge.Intervals, m.IntervalAt(g.Events, g.Trials, conf))
 	}
@@ -151,7 +151,7 @@ func (f methodFilter) decide(exact bool, sizeLimit int64) (run, tooLarge bool) {
 func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, out []Interval, lists ...[]IntervalMethod) []Interval {
 	for _, l := range lists {
 		for _, m := range l {
-			if a.admit(f, m.Key, m.Name, m.Exact, m.SizeLimit) {
+			if a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
 				out = append(out, m.IntervalAt(c, conf))
 			}
 		}
@@ -163,10 +163,10 @@ func (a *Analysis) testsOf(f methodFilter, c Counts, h Hypothesis, s Settings) [
 	out := make([]TestResult, 0, len(asymptoticTests)+len(exactTests))
 	for _, l := range [...][]TestMethod{asymptoticTests, exactTests, ratioTests} {
 		for _, m := range l {
-			if m.Family != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.ContinuityCorrection) {
+			if m.Scale != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.YatesTest) {
 				continue
 			}
-			if a.admit(f, m.Key, m.Name, m.Exact, m.SizeLimit) {
+			if a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
 				out = append(out, m.Run(c, h))
 			}
 		}
@@ -200,8 +200,8 @@ func (a *Analysis) skip(name string, limit, total int64) {
 // setHeadline picks the paired score test and score interval, reusing the
 // results already in the lists (they are always in scope).
 func (a *Analysis) setHeadline(c Counts, ivConf Confidence, h Hypothesis) error {
-	if i := slices.IndexFunc(a.Intervals, func(iv Interval) bool { return iv.Method == HeadlineIntervalKey }); i >= 0 {
-		a.Interval = a.Intervals[i]
+	if i := slices.IndexFunc(a.DifferenceIntervals, func(iv Interval) bool { return iv.Method == HeadlineIntervalKey }); i >= 0 {
+		a.Interval = a.DifferenceIntervals[i]
 	} else {
 		im, err := LookupInterval(HeadlineIntervalKey)
 		if err != nil {
@@ -253,7 +253,7 @@ func dataWarnings(c Comparison, scope MethodScope) []Warning {
 // exactAdvice tells a reader of a sparse table how to add the costly exact
 // methods when the analysis's scope left them out.
 func exactAdvice(scope MethodScope) string {
-	if scope == AllMethods {
+	if scope == ScopeAll {
 		return ""
 	}
 	return " Barnard's and Boschloo's tests and the exact unconditional intervals were not run in this analysis;" +

@@ -21,7 +21,7 @@ func BenchmarkAnalyze(b *testing.B) {
 			for _, v := range []struct {
 				name string
 				opts []Option
-			}{{"quick", nil}, {"large-sample", []Option{WithMethods(LargeSampleMethods)}}, {"all", []Option{WithMethods(AllMethods)}}} {
+			}{{"quick", nil}, {"large-sample", []Option{WithScope(ScopeLargeSample)}}, {"all", []Option{WithScope(ScopeAll)}}} {
 				if v.name != "quick" && t.name != "60-50" {
 					continue
 				}

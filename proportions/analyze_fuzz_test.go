@@ -44,7 +44,7 @@ func assertFiniteAnalysis(t *testing.T, a Analysis) {
 			t.Fatalf("non-finite headline number in %+v", a)
 		}
 	}
-	ivs := append([]Interval{a.Interval}, a.Intervals...)
+	ivs := append([]Interval{a.Interval}, a.DifferenceIntervals...)
 	for _, g := range a.Groups {
 		ivs = append(ivs, g.Intervals...)
 	}
@@ -58,7 +58,7 @@ func assertFiniteAnalysis(t *testing.T, a Analysis) {
 			t.Fatalf("reversed interval %+v", iv)
 		}
 	}
-	for _, iv := range append(append([]Interval{}, a.Ratios...), a.OddsRatios...) {
+	for _, iv := range append(append([]Interval{}, a.RatioIntervals...), a.OddsRatioIntervals...) {
 		if math.IsNaN(iv.Lower) || math.IsNaN(iv.Upper) || iv.Lower > iv.Upper {
 			t.Fatalf("bad ratio interval %+v", iv)
 		}

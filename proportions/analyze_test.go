@@ -39,17 +39,17 @@ func TestAnalyzeHeadlinePair(t *testing.T) {
 	// (SciPy 1.10.1 chi2_contingency without correction: 7.02341137124).
 	var chi TestResult
 	for _, r := range a.Tests {
-		if r.Method == "chi-square" {
+		if r.Method == "pearson-chi-square-test" {
 			chi = r
 		}
 	}
 	if math.Abs(chi.Statistic-7.02341137124) > 1e-9 || math.Abs(a.Test.Statistic*a.Test.Statistic-chi.Statistic) > 1e-9 {
 		t.Errorf("z² = %v, X² = %v", a.Test.Statistic*a.Test.Statistic, chi.Statistic)
 	}
-	if len(a.Intervals) != len(IntervalMethods(Difference)) || a.Scope != QuickMethods {
-		t.Errorf("%d difference intervals for %d quick methods (scope %v)", len(a.Intervals), len(IntervalMethods(Difference)), a.Scope)
+	if len(a.DifferenceIntervals) != len(IntervalMethods(Difference, ScopeQuick)) || a.Scope != ScopeQuick {
+		t.Errorf("%d difference intervals for %d quick methods (scope %v)", len(a.DifferenceIntervals), len(IntervalMethods(Difference, ScopeQuick)), a.Scope)
 	}
-	if len(a.Groups[0].Intervals) == 0 || a.Groups[0].Intervals[0].Method != "wilson" {
+	if len(a.Groups[0].Intervals) == 0 || a.Groups[0].Intervals[0].Method != "wilson-rate" {
 		t.Errorf("group intervals should start with Wilson: %+v", a.Groups[0].Intervals)
 	}
 	if !strings.Contains(a.Conclusion, "higher for coated") || !strings.Contains(a.Conclusion, "rejects") {
@@ -80,7 +80,7 @@ func TestAnalyzeAgreement(t *testing.T) {
 		for _, null := range nulls {
 			for _, alt := range []Alternative{TwoSided, Greater, Less} {
 				for _, level := range []float64{0.9, 0.95, 0.99} {
-					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithMethods(LargeSampleMethods))
+					a, err := Analyze(cmp, WithLevel(level), WithNull(null), WithAlternative(alt), WithScope(ScopeLargeSample))
 					if err != nil {
 						t.Fatal(err)
 					}
@@ -162,13 +162,13 @@ func TestAnalyzeContinuityOptIn(t *testing.T) {
 		return slices.ContainsFunc(a.Tests, func(r TestResult) bool { return r.Method == key })
 	}
 	off, _ := Analyze(c)
-	on, _ := Analyze(c, WithContinuityCorrection(true))
-	if has(off, "yates") || !has(on, "yates") {
-		t.Errorf("Yates' test should be opt-in: off=%v on=%v", has(off, "yates"), has(on, "yates"))
+	on, _ := Analyze(c, WithYatesTest(true))
+	if has(off, "yates-test") || !has(on, "yates-test") {
+		t.Errorf("Yates' test should be opt-in: off=%v on=%v", has(off, "yates-test"), has(on, "yates-test"))
 	}
 	// Tests defined only at δ = 0 drop out under a margin.
 	m, _ := Analyze(c, WithNull(-0.1))
-	if has(m, "chi-square") {
+	if has(m, "pearson-chi-square-test") {
 		t.Error("chi-square has no margin form")
 	}
 }
@@ -181,8 +181,8 @@ func TestAnalyzeErrors(t *testing.T) {
 	}{
 		{[]Option{WithLevel(1)}, ErrLevel},
 		{[]Option{WithLevel(math.NaN())}, ErrLevel},
-		{[]Option{WithNull(1)}, ErrMargin},
-		{[]Option{WithNull(-1.5)}, ErrMargin},
+		{[]Option{WithNull(1)}, ErrNull},
+		{[]Option{WithNull(-1.5)}, ErrNull},
 		{[]Option{WithAlternative(Alternative(7))}, ErrAlternative},
 	}
 	for _, tc := range cases {
@@ -209,7 +209,7 @@ func TestAnalysisJSONFields(t *testing.T) {
 	if err := json.Unmarshal(b, &m); err != nil {
 		t.Fatal(err)
 	}
-	for _, k := range []string{"comparison", "level", "null", "alternative", "groups", "difference", "interval", "test", "tests", "intervals", "conclusion", "warnings", "caution", "scope"} {
+	for _, k := range []string{"comparison", "level", "null", "alternative", "groups", "difference", "interval", "test", "tests", "difference_intervals", "ratio_intervals", "odds_ratio_intervals", "conclusion", "warnings", "caution", "scope"} {
 		if _, ok := m[k]; !ok {
 			t.Errorf("JSON lacks %q", k)
 		}
@@ -222,7 +222,7 @@ func TestAnalysisJSONFields(t *testing.T) {
 	if err := json.Unmarshal(b, &back); err != nil {
 		t.Fatalf("round trip: %v", err)
 	}
-	if m["scope"] != "quick" || back.Scope != QuickMethods {
+	if m["scope"] != "quick" || back.Scope != ScopeQuick {
 		t.Errorf("scope %v, round trip %v", m["scope"], back.Scope)
 	}
 	if back.Interval != a.Interval {
@@ -237,7 +237,7 @@ func TestAnalysisJSONFields(t *testing.T) {
 func TestAnalyzeMethodScopes(t *testing.T) {
 	ran := func(a Analysis) map[string]bool {
 		keys := map[string]bool{}
-		for _, l := range [][]Interval{a.Intervals, a.Ratios, a.OddsRatios} {
+		for _, l := range [][]Interval{a.DifferenceIntervals, a.RatioIntervals, a.OddsRatioIntervals} {
 			for _, iv := range l {
 				keys[iv.Method] = true
 			}
@@ -253,12 +253,12 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 		sizeLimit int64
 	}
 	var marks []mark
-	for _, m := range slices.Concat(AllIntervalMethods(), SlowIntervalMethods(Difference)) {
-		marks = append(marks, mark{m.Key, m.Exact, m.SizeLimit})
+	for _, m := range TwoGroupIntervalMethods(ScopeAll) {
+		marks = append(marks, mark{m.Key, m.Exact, m.TrialLimit})
 	}
 	for _, m := range Tests() {
-		if m.Family == Difference && !m.ContinuityCorrected {
-			marks = append(marks, mark{m.Key, m.Exact, m.SizeLimit})
+		if m.Scale == Difference && !m.ContinuityCorrected {
+			marks = append(marks, mark{m.Key, m.Exact, m.TrialLimit})
 		}
 	}
 	small := mustComparison(t, 3, 12, 8, 11)
@@ -266,11 +266,11 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 		scope MethodScope
 		want  func(m mark) bool
 	}{
-		{QuickMethods, func(m mark) bool { return m.sizeLimit == 0 }},
-		{AllMethods, func(m mark) bool { return true }},
-		{LargeSampleMethods, func(m mark) bool { return m.sizeLimit == 0 && !m.exact }},
+		{ScopeQuick, func(m mark) bool { return m.sizeLimit == 0 }},
+		{ScopeAll, func(m mark) bool { return true }},
+		{ScopeLargeSample, func(m mark) bool { return m.sizeLimit == 0 && !m.exact }},
 	} {
-		a, err := Analyze(small, WithMethods(tc.scope))
+		a, err := Analyze(small, WithScope(tc.scope))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -298,8 +298,8 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 	// how to add them only when they were left out.
 	sparse := mustComparison(t, 1, 12, 5, 11) // smallest expected count 2.9
 	quick, _ := Analyze(sparse)
-	all, _ := Analyze(sparse, WithMethods(AllMethods))
-	if ran(quick)["chan-zhang"] || !ran(all)["chan-zhang"] || !ran(all)["agresti-min"] || !ran(quick)["fisher"] {
+	all, _ := Analyze(sparse, WithScope(ScopeAll))
+	if ran(quick)["chan-zhang"] || !ran(all)["chan-zhang"] || !ran(all)["agresti-min"] || !ran(quick)["fisher-test"] {
 		t.Error("quick runs Fisher but not the exact unconditional intervals; all runs both")
 	}
 	advice := func(a Analysis) bool {
@@ -310,11 +310,11 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 	if !advice(quick) || advice(all) {
 		t.Errorf("advice to add the exact methods: quick %v, all %v", advice(quick), advice(all))
 	}
-	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000), WithMethods(AllMethods))
+	big, _ := Analyze(mustComparison(t, 300, 1000, 280, 1000), WithScope(ScopeAll))
 	if ran(big)["chan-zhang"] || countSkipped(big) == 0 {
 		t.Errorf("above the size limit the slow intervals are skipped with a warning: %v", big.Warnings)
 	}
-	if _, err := Analyze(small, WithMethods(MethodScope(7))); !errors.Is(err, ErrScope) {
+	if _, err := Analyze(small, WithScope(MethodScope(7))); !errors.Is(err, ErrScope) {
 		t.Errorf("unknown scope: %v, want ErrScope", err)
 	}
 }
@@ -331,7 +331,7 @@ func TestAnalysisListsAreSeparate(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	lists := []*[]Interval{&a.Groups[0].Intervals, &a.Groups[1].Intervals, &a.Intervals, &a.Ratios, &a.OddsRatios}
+	lists := []*[]Interval{&a.Groups[0].Intervals, &a.Groups[1].Intervals, &a.DifferenceIntervals, &a.RatioIntervals, &a.OddsRatioIntervals}
 	before := make([][]Interval, len(lists))
 	for i, l := range lists {
 		before[i] = slices.Clone(*l)

@@ -38,14 +38,14 @@ import (
 // the margins allow (x1 = 0 or x2 = n2), ∞ when it is the largest (x1 = n1
 // or x2 = 0), [0, ∞] with no events at all or only events.
 var BaptistaPike = IntervalMethod{
-	Key:           "baptista-pike",
+	Key:           "baptista-pike-odds-ratio",
 	Name:          "Baptista–Pike exact",
-	Family:        OddsRatio,
+	Scale:         OddsRatio,
 	Symmetric:     true,
 	Citation:      "Baptista J, Pike MC (1977). Exact two-sided confidence limits for the odds ratio in a 2×2 table. Journal of the Royal Statistical Society C (Applied Statistics) 26:214–220.",
 	Definition:    "all ψ at which the total probability of the tables no more probable than the observed one, under the noncentral hypergeometric distribution given the margins, exceeds α; estimate: conditional maximum likelihood",
 	Exact:         true,
-	SizeLimit:     baptistaPikeSizeLimit,
+	TrialLimit:    baptistaPikeSizeLimit,
 	PointEstimate: conditionalMLE,
 	Limits:        baptistaPikeLimits,
 }

@@ -26,7 +26,7 @@ var sinkLo, sinkHi float64
 // score_reference_test.go), so one run gives the ratio on the same machine.
 func BenchmarkDifferenceIntervals(b *testing.B) {
 	conf, _ := NewConfidence(0.95)
-	for _, m := range IntervalMethods(Difference) {
+	for _, m := range EnumerableIntervalMethods(Difference) {
 		b.Run(m.Key, func(b *testing.B) {
 			for i := 0; b.Loop(); i++ {
 				sinkLo, sinkHi = m.Limits(scoreBenchTables[i%len(scoreBenchTables)], conf)
@@ -69,7 +69,7 @@ func BenchmarkDifferenceIntervals(b *testing.B) {
 // one run gives the ratio on the same machine.
 func BenchmarkProportionIntervals(b *testing.B) {
 	conf, _ := NewConfidence(0.95)
-	for _, m := range ProportionMethods() {
+	for _, m := range RateMethods() {
 		b.Run(m.Key, func(b *testing.B) {
 			for i := 0; b.Loop(); i++ {
 				c := scoreBenchTables[i%len(scoreBenchTables)]
@@ -106,9 +106,9 @@ func BenchmarkProportionIntervals(b *testing.B) {
 			name   string
 			limits func(x, n int64) (float64, float64)
 		}{
-			{"clopper-pearson", func(x, n int64) (float64, float64) { return ClopperPearson.Limits(x, n, conf) }},
+			{"clopper-pearson-rate", func(x, n int64) (float64, float64) { return ClopperPearson.Limits(x, n, conf) }},
 			{"gonum-clopper-pearson", gonumCP},
-			{"jeffreys", func(x, n int64) (float64, float64) { return Jeffreys.Limits(x, n, conf) }},
+			{"jeffreys-rate", func(x, n int64) (float64, float64) { return Jeffreys.Limits(x, n, conf) }},
 			{"gonum-jeffreys", gonumJeffreys},
 		} {
 			b.Run(fmt.Sprintf("%s/n=%d", c.name, n), func(b *testing.B) {

@@ -68,7 +68,7 @@ func TestBetaQuantileIgnoresWrongZ(t *testing.T) {
 	good, _ := NewConfidence(0.95)
 	bad := Confidence{Level: 0.95}
 	for _, xn := range [][2]int64{{0, 50}, {17, 50}, {500, 1000}, {3, 1000000}, {400000, 1000000}} {
-		for _, m := range []ProportionMethod{ClopperPearson, Jeffreys} {
+		for _, m := range []RateMethod{ClopperPearson, Jeffreys} {
 			l1, u1 := m.Limits(xn[0], xn[1], good)
 			l2, u2 := m.Limits(xn[0], xn[1], bad)
 			if relErrBeta(l2, l1) > 1e-15 && l1 != l2 || relErrBeta(u2, u1) > 1e-15 {

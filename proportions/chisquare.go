@@ -6,7 +6,7 @@ import (
 	"github.com/propscope/propscope/internal/special"
 )
 
-// PearsonChiSquare is Pearson's chi-square test of H0: π1 = π2 on the 2×2
+// PearsonChiSquareTest is Pearson's chi-square test of H0: π1 = π2 on the 2×2
 // table, with one degree of freedom:
 //
 //	X² = Σ (O − E)² / E,  E = row total × column total / N,
@@ -29,18 +29,18 @@ import (
 // Degenerate case: when every unit has the same outcome (no events at all,
 // or no non-events) an expected count is 0 and X² is 0/0; it is defined as
 // X² = 0, p = 1. The test applies only to δ = 0.
-var PearsonChiSquare = TestMethod{
-	Key:        "chi-square",
+var PearsonChiSquareTest = TestMethod{
+	Key:        "pearson-chi-square-test",
 	Name:       "Pearson chi-square",
 	Citation:   "Pearson K (1900). On the criterion that a given system of deviations from the probable in the case of a correlated system of variables is such that it can be reasonably supposed to have arisen from random sampling. Philosophical Magazine (5th series) 50:157–175.",
 	Definition: "X² = Σ (O − E)²/E over the four cells, E = row total × column total / N; χ² with 1 df (signed root and normal tail for one-sided alternatives)",
-	Family:     Difference,
+	Scale:      Difference,
 	Run:        pearsonRun,
 }
 
 func pearsonRun(c Counts, h Hypothesis) TestResult {
 	d, recip := tableDeviation(c)
-	return chiSquareResult(d*d*recip, d, h, "chi-square", "Pearson chi-square", "X²")
+	return chiSquareResult(d*d*recip, d, h, "pearson-chi-square-test", "Pearson chi-square", "X²")
 }
 
 // tableDeviation returns O − E for the first group's events (the other
@@ -66,7 +66,7 @@ func tableDeviation(c Counts) (d, recip float64) {
 // x2 whose signed root has the sign of dev (see PearsonChiSquare for the
 // one-sided convention).
 func chiSquareResult(x2, dev float64, h Hypothesis, key, name, stat string) TestResult {
-	r := TestResult{Method: key, Name: name, Family: Difference}
+	r := TestResult{Method: key, MethodName: name, Scale: Difference}
 	if h.Alternative == TwoSided {
 		crit := sq(h.critical()) // χ²₁ quantile = z²
 		r.StatisticName, r.Statistic, r.DF, r.CriticalValue = stat, x2, 1, &crit

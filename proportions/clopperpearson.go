@@ -21,8 +21,8 @@ import "github.com/propscope/propscope/internal/special"
 // limit and in its distance from 1; the shapes 1 (x = 0, 1, n − 1, n) have
 // closed forms. (gonum's distuv.Beta quantiles, used before, put the
 // 99.9999% upper limit at x = 0 near 1 once n ≥ 60.)
-var ClopperPearson = ProportionMethod{
-	Key:        "clopper-pearson",
+var ClopperPearson = RateMethod{
+	Key:        "clopper-pearson-rate",
 	Name:       "Clopper–Pearson",
 	Citation:   "Clopper CJ, Pearson ES (1934). The use of confidence or fiducial limits illustrated in the case of the binomial. Biometrika 26:404–413.",
 	Definition: "lower = Beta quantile α/2 of Beta(x, n−x+1), upper = quantile 1−α/2 of Beta(x+1, n−x); 0 at x = 0 and 1 at x = n",

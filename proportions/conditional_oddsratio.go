@@ -81,14 +81,14 @@ func conditionalTailLimits(c Counts, conf Confidence, w float64) (lower, upper f
 // largest (x1 = n1 or x2 = 0); with no events at all, or only events, the
 // interval is [0, ∞] and the estimate not estimable.
 var CornfieldExact = IntervalMethod{
-	Key:           "cornfield",
+	Key:           "cornfield-odds-ratio",
 	Name:          "Cornfield exact conditional",
-	Family:        OddsRatio,
+	Scale:         OddsRatio,
 	Symmetric:     true,
 	Citation:      "Cornfield J (1956). A statistical problem arising from retrospective studies. Proceedings of the Third Berkeley Symposium on Mathematical Statistics and Probability 4:135–148.",
 	Definition:    "ψL and ψU with P(X1 ≥ x1; ψL) = α/2 and P(X1 ≤ x1; ψU) = α/2 under Fisher's noncentral hypergeometric distribution given the margins; estimate: conditional maximum likelihood",
 	Exact:         true,
-	SizeLimit:     exactConditionalSizeLimit,
+	TrialLimit:    exactConditionalSizeLimit,
 	PointEstimate: conditionalMLE,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 1)
@@ -108,13 +108,13 @@ var CornfieldExact = IntervalMethod{
 //
 // Zero cells: as for CornfieldExact.
 var CornfieldMidP = IntervalMethod{
-	Key:           "cornfield-midp",
+	Key:           "cornfield-mid-p-odds-ratio",
 	Name:          "Cornfield mid-p",
-	Family:        OddsRatio,
+	Scale:         OddsRatio,
 	Symmetric:     true,
 	Citation:      "Cornfield J (1956). A statistical problem arising from retrospective studies. Proceedings of the Third Berkeley Symposium on Mathematical Statistics and Probability 4:135–148; mid-p: Lancaster HO (1961). Journal of the American Statistical Association 56:223–234.",
 	Definition:    "ψL and ψU with P(X1 > x1; ψL) + ½P(X1 = x1; ψL) = α/2 and P(X1 < x1; ψU) + ½P(X1 = x1; ψU) = α/2, noncentral hypergeometric given the margins; estimate: conditional maximum likelihood",
-	SizeLimit:     exactConditionalSizeLimit,
+	TrialLimit:    exactConditionalSizeLimit,
 	PointEstimate: conditionalMLE,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 0.5)

@@ -115,7 +115,7 @@ func TestDifferenceMethodsProperties(t *testing.T) {
 	}
 	containing := map[string]bool{"newcombe": true, "newcombe-cc": true, "mee": true, "miettinen-nurminen": true}
 	for _, c := range propertyTables() {
-		for _, m := range IntervalMethods(Difference) {
+		for _, m := range EnumerableIntervalMethods(Difference) {
 			prevLo, prevHi := math.Inf(1), math.Inf(-1)
 			for _, conf := range confs {
 				lo, hi := m.Limits(c, conf)

@@ -26,9 +26,14 @@ var (
 	ErrMalformedRow = errors.New("malformed row")
 	// ErrLevel: a confidence level is not strictly between 0 and 1.
 	ErrLevel = errors.New("level outside (0, 1)")
-	// ErrMargin: a null value or margin lies outside the allowed range for
-	// its scale: (−1, 1) for a difference, (0, ∞) for a ratio or odds ratio.
+	// ErrNull: a null value lies outside the allowed range for its scale:
+	// (−1, 1) for a difference, (0, ∞) for a ratio or odds ratio.
+	ErrNull = errors.New("null value outside the allowed range")
+	// ErrMargin: a study plan's margin lies outside its scale's range or on
+	// the wrong side of no effect for the plan's goal.
 	ErrMargin = errors.New("margin outside the allowed range")
+	// ErrBetter: an unknown direction of benefit (see Better).
+	ErrBetter = errors.New("unknown direction of benefit")
 	// ErrAlternative: an unknown alternative hypothesis.
 	ErrAlternative = errors.New("unknown alternative")
 	// ErrScope: an unknown method scope (see MethodScope).
@@ -40,9 +45,9 @@ var (
 	ErrUnsupported = errors.New("not supported by this method")
 	// ErrTooLarge: a count is larger than the library handles.
 	ErrTooLarge = errors.New("count too large")
-	// ErrDesign: a study-planning input (anticipated rate, α, power,
-	// allocation ratio, drop-out share, group size) lies outside its range.
-	ErrDesign = errors.New("study design input outside its allowed range")
+	// ErrPlan: a study-plan input (anticipated rate, α, power, allocation
+	// ratio, drop-out share, group size, search bounds) lies outside its range.
+	ErrPlan = errors.New("study plan input outside its allowed range")
 	// ErrUnreachable: no finite sample size reaches the requested power
 	// (for example equal anticipated rates in a superiority design).
 	ErrUnreachable = errors.New("target power cannot be reached")

@@ -17,11 +17,11 @@ func benchTest(b *testing.B, m TestMethod, n int64, a Alternative) {
 	}
 }
 
-func BenchmarkFisherTwoSided10000(b *testing.B)   { benchTest(b, Fisher, 10000, TwoSided) }
-func BenchmarkFisherTwoSided1000000(b *testing.B) { benchTest(b, Fisher, 1000000, TwoSided) }
-func BenchmarkBarnardTwoSided800(b *testing.B)    { benchTest(b, Barnard, 800, TwoSided) }
-func BenchmarkBoschlooTwoSided400(b *testing.B)   { benchTest(b, Boschloo, 400, TwoSided) }
-func BenchmarkBoschlooDoubled400(b *testing.B)    { benchTest(b, BoschlooDoubled, 400, TwoSided) }
+func BenchmarkFisherTwoSided10000(b *testing.B)   { benchTest(b, FisherTest, 10000, TwoSided) }
+func BenchmarkFisherTwoSided1000000(b *testing.B) { benchTest(b, FisherTest, 1000000, TwoSided) }
+func BenchmarkBarnardTwoSided800(b *testing.B)    { benchTest(b, BarnardTest, 800, TwoSided) }
+func BenchmarkBoschlooTwoSided400(b *testing.B)   { benchTest(b, BoschlooTest, 400, TwoSided) }
+func BenchmarkBoschlooDoubled400(b *testing.B)    { benchTest(b, BoschlooDoubledTest, 400, TwoSided) }
 
 // Fisher's tests on near and far tables at 50, 1000 and 10⁶ per group
 // (equal groups, where the two-sided set is symmetric, and unequal ones),
@@ -68,7 +68,7 @@ func benchFisherCases(b *testing.B, fisher, midp TestMethod) {
 	}
 }
 
-func BenchmarkFisher(b *testing.B) { benchFisherCases(b, Fisher, FisherMidP) }
+func BenchmarkFisher(b *testing.B) { benchFisherCases(b, FisherTest, FisherMidPTest) }
 
 func BenchmarkFisherPrevious(b *testing.B) {
 	run := func(mid bool) func(Counts, Hypothesis) TestResult {
@@ -80,6 +80,6 @@ func BenchmarkFisherPrevious(b *testing.B) {
 		}
 	}
 	benchFisherCases(b,
-		TestMethod{Key: "fisher", Family: Difference, Run: run(false)},
-		TestMethod{Key: "fisher-midp", Family: Difference, Run: run(true)})
+		TestMethod{Key: "fisher-test", Scale: Difference, Run: run(false)},
+		TestMethod{Key: "fisher-mid-p-test", Scale: Difference, Run: run(true)})
 }

@@ -24,7 +24,7 @@ import "math"
 // (about 0.1 s of CPU for the interval at n1 = n2 = 100).
 //
 // ChanZhang and AgrestiMin are registered as the slow members of the
-// difference family (SlowIntervalMethods): Analyze and the result card
+// difference scale (not in EnumerableIntervalMethods): Analyze and the result card
 // include them up to their SizeLimit, while the coverage engine and the
 // registry-wide property tests, which call a method for every outcome of a
 // design, leave them out (tens of milliseconds per table would make that
@@ -39,11 +39,11 @@ import "math"
 var ChanZhang = IntervalMethod{
 	Key:        "chan-zhang",
 	Name:       "Chan–Zhang exact unconditional",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Chan ISF, Zhang Z (1999). Test-based exact confidence intervals for the difference of two binomial proportions. Biometrics 55:1202–1209.",
 	Definition: "Inverts two one-sided exact unconditional score tests at α/2: δ is inside unless sup over π2 of P(z(δ) ≥ z_obs(δ)) or of P(z(δ) ≤ z_obs(δ)) is ≤ α/2.",
 	Exact:      true,
-	SizeLimit:  exactIntervalSizeLimit,
+	TrialLimit: exactIntervalSizeLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		a := (1 - conf.Level) / 2
 		return exactScoreLower(c, a, sideGreater), -exactScoreLower(c.Swapped(), a, sideGreater)
@@ -62,11 +62,11 @@ var ChanZhang = IntervalMethod{
 var AgrestiMin = IntervalMethod{
 	Key:        "agresti-min",
 	Name:       "Agresti–Min exact unconditional",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Agresti A, Min Y (2001). On small-sample confidence intervals for parameters in discrete distributions. Biometrics 57:963–971.",
 	Definition: "Inverts the two-sided exact unconditional score test at α: δ is inside unless sup over π2 of P(|z(δ)| ≥ |z_obs(δ)|) is ≤ α.",
 	Exact:      true,
-	SizeLimit:  exactIntervalSizeLimit,
+	TrialLimit: exactIntervalSizeLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		a := 1 - conf.Level
 		return exactScoreLower(c, a, sideBoth), -exactScoreLower(c.Swapped(), a, sideBoth)

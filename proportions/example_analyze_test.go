@@ -33,7 +33,7 @@ func ExampleAnalyze() {
 	fmt.Println(a.Interval)
 	fmt.Println(a.Test)
 	for _, r := range a.Tests {
-		if r.Method == "fisher" {
+		if r.Method == "fisher-test" {
 			fmt.Println(r)
 		}
 	}
@@ -49,22 +49,22 @@ func ExampleAnalyze() {
 // microseconds; WithMethods(AllMethods) adds the exact methods that take
 // milliseconds or more (here on a small, sparse table, where they matter
 // most), and the default analysis lists them as left out.
-func ExampleWithMethods() {
+func ExampleWithScope() {
 	c, err := proportions.NewComparison(1, 12, 5, 11, proportions.Labels{})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	quick, _ := proportions.Analyze(c)
-	all, _ := proportions.Analyze(c, proportions.WithMethods(proportions.AllMethods))
+	all, _ := proportions.Analyze(c, proportions.WithScope(proportions.ScopeAll))
 	has := func(a proportions.Analysis, key string) bool {
 		return slices.ContainsFunc(a.Tests, func(r proportions.TestResult) bool { return r.Method == key })
 	}
-	fmt.Println(quick.Scope, "Fisher:", has(quick, "fisher"), "Barnard:", has(quick, "barnard"))
-	fmt.Println(all.Scope, "Fisher:", has(all, "fisher"), "Barnard:", has(all, "barnard"))
+	fmt.Println(quick.Scope, "Fisher:", has(quick, "fisher-test"), "Barnard:", has(quick, "barnard-test"))
+	fmt.Println(all.Scope, "Fisher:", has(all, "fisher-test"), "Barnard:", has(all, "barnard-test"))
 	fmt.Println("left out by the quick analysis:", quick.Omitted)
 	// Output:
 	// quick Fisher: true Barnard: false
 	// all Fisher: true Barnard: true
-	// left out by the quick analysis: [chan-zhang agresti-min cornfield cornfield-midp baptista-pike barnard barnard-wald boschloo boschloo-doubled]
+	// left out by the quick analysis: [chan-zhang agresti-min cornfield-odds-ratio cornfield-mid-p-odds-ratio baptista-pike-odds-ratio barnard-test barnard-wald-test boschloo-test boschloo-doubled-test]
 }

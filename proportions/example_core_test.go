@@ -28,15 +28,15 @@ func ExampleMee() {
 // The same seed lots: is coating worth at least 0, and is it no worse than
 // 5 points below uncoated seed? The Farrington–Manning score test of
 // H0: π1 − π2 = δ, two-sided at δ = 0 and one-sided (greater) at δ = −0.05.
-func ExampleFarringtonManning() {
+func ExampleFarringtonManningTest() {
 	c := proportions.Counts{X1: 84, N1: 120, X2: 66, N2: 118}
-	r, err := proportions.FarringtonManning.Test(c)
+	r, err := proportions.FarringtonManningTest.Test(c)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	fmt.Println(r)
-	r, _ = proportions.FarringtonManning.Test(c, proportions.WithNull(-0.05), proportions.WithAlternative(proportions.Greater))
+	r, _ = proportions.FarringtonManningTest.Test(c, proportions.WithNull(-0.05), proportions.WithAlternative(proportions.Greater))
 	fmt.Println(r)
 	// Output:
 	// Farrington–Manning score test: z = 2.248, p = 0.02459 (two-sided, null 0): reject at 5%
@@ -46,7 +46,7 @@ func ExampleFarringtonManning() {
 // Defects on a packing line: 3 faulty seals in 250. Wilson's interval for
 // the defect rate, and the Clopper–Pearson interval for comparison.
 func ExampleWilson() {
-	for _, m := range []proportions.ProportionMethod{proportions.Wilson, proportions.ClopperPearson} {
+	for _, m := range []proportions.RateMethod{proportions.Wilson, proportions.ClopperPearson} {
 		iv, err := m.Interval(3, 250, 0.95)
 		if err != nil {
 			fmt.Println(err)

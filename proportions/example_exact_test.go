@@ -12,16 +12,16 @@ import (
 // nuisance supremum was found.
 func Example_exactTests() {
 	c := proportions.Counts{X1: 9, N1: 12, X2: 3, N2: 11}
-	for _, m := range []proportions.TestMethod{proportions.Fisher, proportions.Barnard, proportions.Boschloo} {
+	for _, m := range []proportions.TestMethod{proportions.FisherTest, proportions.BarnardTest, proportions.BoschlooTest} {
 		r, err := m.Test(c, proportions.WithAlternative(proportions.Greater))
 		if err != nil {
 			fmt.Println(err)
 			return
 		}
-		fmt.Printf("%-16s p = %.4f\n", r.Name, r.PValue)
+		fmt.Printf("%-16s p = %.4f\n", r.MethodName, r.PValue)
 	}
 	iv, _ := proportions.ChanZhang.Interval(c, 0.95)
-	fmt.Printf("%s: %.3f to %.3f\n", iv.Name, iv.Lower, iv.Upper)
+	fmt.Printf("%s: %.3f to %.3f\n", iv.MethodName, iv.Lower, iv.Upper)
 	// Output:
 	// Fisher exact     p = 0.0296
 	// Barnard (score)  p = 0.0180

@@ -26,7 +26,7 @@ func ExampleKoopman() {
 func ExampleIntervalMethods_zeroCell() {
 	c := proportions.Counts{X1: 0, N1: 150, X2: 6, N2: 150}
 	conf, _ := proportions.NewConfidence(0.95)
-	for _, m := range proportions.IntervalMethods(proportions.Ratio) {
+	for _, m := range proportions.EnumerableIntervalMethods(proportions.Ratio) {
 		fmt.Println(m.IntervalAt(c, conf))
 	}
 	// Output:
@@ -39,9 +39,9 @@ func ExampleIntervalMethods_zeroCell() {
 // Ratio-scale non-inferiority: is the new arm's response rate at least 90%
 // of the standard arm's? 171 of 190 responded on the new treatment and 168
 // of 188 on the standard.
-func ExampleFarringtonManningRatio() {
+func ExampleFarringtonManningRatioTest() {
 	c := proportions.Counts{X1: 171, N1: 190, X2: 168, N2: 188}
-	r, err := proportions.FarringtonManningRatio.Test(c,
+	r, err := proportions.FarringtonManningRatioTest.Test(c,
 		proportions.WithNull(0.9), proportions.WithAlternative(proportions.Greater))
 	if err != nil {
 		fmt.Println(err)
@@ -56,7 +56,7 @@ func ExampleFarringtonManningRatio() {
 func ExampleIntervalMethods_oddsRatio() {
 	c := proportions.Counts{X1: 20, N1: 25, X2: 6, N2: 15}
 	conf, _ := proportions.NewConfidence(0.95)
-	for _, m := range proportions.IntervalMethods(proportions.OddsRatio) {
+	for _, m := range proportions.EnumerableIntervalMethods(proportions.OddsRatio) {
 		fmt.Println(m.IntervalAt(c, conf))
 	}
 	// Output:
@@ -78,7 +78,7 @@ func ExampleNumberNeededToTreat() {
 		fmt.Println(err)
 		return
 	}
-	n, err := proportions.NumberNeededToTreat(c, proportions.Wald, true)
+	n, err := proportions.NumberNeededToTreat(c, proportions.Wald, proportions.HigherIsBetter)
 	if err != nil {
 		fmt.Println(err)
 		return

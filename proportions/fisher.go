@@ -16,7 +16,7 @@ import (
 // 10⁻¹³ relative, far inside the tolerance).
 const FisherTieTolerance = 1e-7
 
-// Fisher is Fisher's exact test of π1 = π2, conditional on both margins of
+// FisherTest is Fisher's exact test of π1 = π2, conditional on both margins of
 // the 2×2 table: given m = x1 + x2 events in all, X1 is hypergeometric,
 // P(X1 = k) = C(n1, k)·C(n2, m−k)/C(n1+n2, m).
 //
@@ -39,17 +39,17 @@ const FisherTieTolerance = 1e-7
 // reported is the hypergeometric probability of the observed table (it
 // may underflow to 0; its log is not kept since LogPValue carries the
 // evidence).
-var Fisher = TestMethod{
-	Key:        "fisher",
+var FisherTest = TestMethod{
+	Key:        "fisher-test",
 	Name:       "Fisher exact",
 	Citation:   "Fisher RA (1935). The logic of inductive inference. Journal of the Royal Statistical Society 98:39–82. Two-sided by probability ordering: Agresti A (1992). A survey of exact inference for contingency tables. Statistical Science 7:131–153.",
 	Definition: "Conditional on the margins X1 is hypergeometric; one-sided p = P(X1 ≥ x1) or P(X1 ≤ x1); two-sided p = total probability of the tables with P(table) ≤ P(observed)·(1+1e−7).",
-	Family:     Difference,
+	Scale:      Difference,
 	Exact:      true,
-	Run:        func(c Counts, h Hypothesis) TestResult { return fisherRun(c, h, "fisher", "Fisher exact", false) },
+	Run:        func(c Counts, h Hypothesis) TestResult { return fisherRun(c, h, "fisher-test", "Fisher exact", false) },
 }
 
-// FisherMidP is the mid-p version of Fisher's test: the probability of the
+// FisherMidPTest is the mid-p version of Fisher's test: the probability of the
 // tables more extreme than the observed one plus half the probability of
 // the tables exactly as extreme (the observed table, and in the two-sided
 // case any table tied with it within FisherTieTolerance):
@@ -61,21 +61,23 @@ var Fisher = TestMethod{
 // Journal of the American Statistical Association 56:223–234. It is not
 // exact: its size can exceed α, though it usually stays close to it and is
 // far less conservative than Fisher's test, so Exact is false.
-var FisherMidP = TestMethod{
-	Key:        "fisher-midp",
+var FisherMidPTest = TestMethod{
+	Key:        "fisher-mid-p-test",
 	Name:       "Fisher mid-p",
 	Citation:   "Lancaster HO (1961). Significance tests in discrete distributions. Journal of the American Statistical Association 56:223–234.",
 	Definition: "Fisher's conditional test with half the probability of the tables as extreme as the observed one: p = P(more extreme) + ½·P(as extreme).",
-	Family:     Difference,
+	Scale:      Difference,
 	Exact:      false,
-	Run:        func(c Counts, h Hypothesis) TestResult { return fisherRun(c, h, "fisher-midp", "Fisher mid-p", true) },
+	Run: func(c Counts, h Hypothesis) TestResult {
+		return fisherRun(c, h, "fisher-mid-p-test", "Fisher mid-p", true)
+	},
 }
 
 func fisherRun(c Counts, h Hypothesis, key, name string, mid bool) TestResult {
 	logs, px := h.shared.fisher(c, h.Alternative)
 	logp := logs.of(mid)
 	r := TestResult{
-		Method: key, Name: name, Family: Difference,
+		Method: key, MethodName: name, Scale: Difference,
 		StatisticName: "P(observed table)",
 		Statistic:     px,
 		PValue:        math.Exp(logp), LogPValue: logp,

@@ -24,10 +24,10 @@ func TestFisherReference(t *testing.T) {
 	for _, c := range loadExactChecks(t) {
 		var m TestMethod
 		switch c.Test {
-		case "fisher":
-			m = Fisher
-		case "fisher-midp":
-			m = FisherMidP
+		case "fisher-test":
+			m = FisherTest
+		case "fisher-mid-p-test":
+			m = FisherMidPTest
 		default:
 			continue
 		}
@@ -113,9 +113,9 @@ func TestFisherBruteForce(t *testing.T) {
 				c := Counts{X1: x1, N1: d[0], X2: x2, N2: d[1]}
 				for _, a := range []Alternative{TwoSided, Greater, Less} {
 					for _, mid := range []bool{false, true} {
-						m := Fisher
+						m := FisherTest
 						if mid {
-							m = FisherMidP
+							m = FisherMidPTest
 						}
 						r, err := m.Test(c, WithAlternative(a))
 						if err != nil {
@@ -158,7 +158,7 @@ func TestFisherTinyP(t *testing.T) {
 		a    Alternative
 		want float64
 	}{{Greater, -lc}, {TwoSided, math.Ln2 - lc}, {Less, 0}} {
-		r, err := Fisher.Test(c, WithAlternative(tc.a))
+		r, err := FisherTest.Test(c, WithAlternative(tc.a))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -174,7 +174,7 @@ func TestFisherTinyP(t *testing.T) {
 	for k := m - n; k <= c.X1; k++ {
 		lt = special.LogAddExp(lt, logChoose(n, float64(k))+logChoose(n, float64(m-k))-logChoose(2*n, float64(m)))
 	}
-	r, err := Fisher.Test(c, WithAlternative(Less))
+	r, err := FisherTest.Test(c, WithAlternative(Less))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -187,7 +187,7 @@ func TestFisherTinyP(t *testing.T) {
 // possible table, so every version gives p = 1 (documented on Fisher).
 func TestFisherZeroMargin(t *testing.T) {
 	for _, c := range []Counts{{0, 5, 0, 9}, {5, 5, 9, 9}} {
-		for _, m := range []TestMethod{Fisher, FisherMidP} {
+		for _, m := range []TestMethod{FisherTest, FisherMidPTest} {
 			for _, a := range []Alternative{TwoSided, Greater, Less} {
 				r, err := m.Test(c, WithAlternative(a))
 				if err != nil || r.PValue != 1 || r.LogPValue != 0 || r.Reject {
@@ -497,7 +497,7 @@ func TestFisherDoesNotAllocate(t *testing.T) {
 	} {
 		for _, a := range []Alternative{TwoSided, Greater, Less} {
 			h.Alternative = a
-			for _, m := range []TestMethod{Fisher, FisherMidP} {
+			for _, m := range []TestMethod{FisherTest, FisherMidPTest} {
 				if n := testing.AllocsPerRun(10, func() { m.Run(c, h) }); n != 0 {
 					t.Errorf("%s %v %v allocates %v times", m.Key, c, a, n)
 				}
@@ -650,7 +650,7 @@ func TestFisherSharedWork(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 11))
 	shared := Hypothesis{Conf: Confidence{Level: 0.95}, shared: &sharedWork{}}
 	alone := Hypothesis{Conf: Confidence{Level: 0.95}}
-	methods := []TestMethod{Fisher, FisherMidP}
+	methods := []TestMethod{FisherTest, FisherMidPTest}
 	alts := []Alternative{TwoSided, Greater, Less}
 	for i := range 3000 {
 		n1, n2 := 1+rng.Int64N(60), 1+rng.Int64N(60)

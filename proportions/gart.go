@@ -17,9 +17,9 @@ package proportions
 // wide interval around roughly (n2+1)/(n1+1) while the estimate is
 // reported as not estimable.
 var GartAdjusted = IntervalMethod{
-	Key:        "gart",
+	Key:        "gart-odds-ratio",
 	Name:       "Gart adjusted logit",
-	Family:     OddsRatio,
+	Scale:      OddsRatio,
 	Symmetric:  true,
 	Citation:   "Gart JJ (1966). Alternative analyses of contingency tables. Journal of the Royal Statistical Society B 28:164–179.",
 	Definition: "exp(log((a+½)(d+½)/((b+½)(c+½))) ± z·√(1/(a+½) + 1/(b+½) + 1/(c+½) + 1/(d+½))), a = x1, b = n1 − x1, c = x2, d = n2 − x2",

@@ -78,16 +78,16 @@ type TestMethod struct {
 	Name       string `json:"name"`
 	Citation   string `json:"citation"`
 	Definition string `json:"definition"`
-	// Family is the scale of the null value (difference, ratio, odds ratio).
-	Family Family `json:"family"`
+	// Scale is the scale of the null value (difference, ratio, odds ratio).
+	Scale Scale `json:"scale"`
 	// Margins reports whether the test accepts a null other than no effect.
 	Margins bool `json:"margins"`
 	// Exact marks tests whose size never exceeds α by construction.
 	Exact bool `json:"exact"`
-	// SizeLimit is the largest total n1 + n2 at which the test runs in about
+	// TrialLimit is the largest total n1 + n2 at which the test runs in about
 	// a second or less; 0 means no limit. Analyze skips a test above its
 	// limit and says so in a warning instead of hanging.
-	SizeLimit int64 `json:"size_limit,omitempty"`
+	TrialLimit int64 `json:"trial_limit,omitempty"`
 	// ContinuityCorrected marks a continuity-corrected variant (Yates);
 	// Analyze runs it only when WithContinuityCorrection(true) is given.
 	ContinuityCorrected bool `json:"continuity_corrected,omitempty"`
@@ -125,13 +125,13 @@ func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
 
 // Hypothesis turns settings into a validated hypothesis for this test.
 func (m TestMethod) Hypothesis(s Settings) (Hypothesis, error) {
-	null := s.NullFor(m.Family)
-	if err := ValidateNull(m.Family, null); err != nil {
+	null := s.NullFor(m.Scale)
+	if err := ValidateNull(m.Scale, null); err != nil {
 		return Hypothesis{}, err
 	}
-	if !m.Margins && null != m.Family.NoEffect() {
+	if !m.Margins && null != m.Scale.NoEffect() {
 		return Hypothesis{}, fmt.Errorf("%s with null %v: %w; this test is defined only for a null of %v",
-			m.Name, null, ErrUnsupported, m.Family.NoEffect())
+			m.Name, null, ErrUnsupported, m.Scale.NoEffect())
 	}
 	conf, err := NewConfidence(s.Level)
 	if err != nil {
@@ -148,8 +148,8 @@ func (m TestMethod) Hypothesis(s Settings) (Hypothesis, error) {
 // carries its value.
 type TestResult struct {
 	Method        string      `json:"method"`
-	Name          string      `json:"name"`
-	Family        Family      `json:"family"`
+	MethodName    string      `json:"method_name"`
+	Scale         Scale       `json:"scale"`
 	Null          float64     `json:"null"`
 	Alternative   Alternative `json:"alternative"`
 	Level         float64     `json:"level"`
@@ -179,7 +179,7 @@ func (r TestResult) String() string {
 	if r.StatisticName != "" {
 		stat = fmt.Sprintf(" %s = %.4g,", r.StatisticName, r.Statistic)
 	}
-	return fmt.Sprintf("%s:%s p = %s (%s, null %v): %s at %s%%", r.Name, stat, FormatP(r.PValue, r.LogPValue),
+	return fmt.Sprintf("%s:%s p = %s (%s, null %v): %s at %s%%", r.MethodName, stat, FormatP(r.PValue, r.LogPValue),
 		r.Alternative, r.Null, decision, strconv.FormatFloat(100*(1-r.Level), 'g', 4, 64))
 }
 

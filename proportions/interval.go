@@ -19,17 +19,17 @@ import (
 // "-Infinity", never as NaN. Estimate is NaN only when Defined is false (a
 // ratio of 0/0), and then it marshals as null.
 type Interval struct {
-	Method   string  `json:"method"`
-	Name     string  `json:"name"`
-	Family   Family  `json:"family"`
-	Level    float64 `json:"level"`
-	Estimate float64 `json:"estimate"`
-	Defined  bool    `json:"estimate_defined"`
-	Lower    float64 `json:"lower"`
-	Upper    float64 `json:"upper"`
-	RawLower float64 `json:"raw_lower"`
-	RawUpper float64 `json:"raw_upper"`
-	Clipped  bool    `json:"clipped"`
+	Method     string  `json:"method"`
+	MethodName string  `json:"method_name"`
+	Scale      Scale   `json:"scale"`
+	Level      float64 `json:"level"`
+	Estimate   float64 `json:"estimate"`
+	Defined    bool    `json:"estimate_defined"`
+	Lower      float64 `json:"lower"`
+	Upper      float64 `json:"upper"`
+	RawLower   float64 `json:"raw_lower"`
+	RawUpper   float64 `json:"raw_upper"`
+	Clipped    bool    `json:"clipped"`
 }
 
 // Width returns Upper − Lower (+Inf for an unbounded interval).
@@ -40,7 +40,7 @@ func (iv Interval) Contains(v float64) bool { return v >= iv.Lower && v <= iv.Up
 
 // String prints "name: estimate (lower, upper) at level%".
 func (iv Interval) String() string {
-	return fmt.Sprintf("%s: %s (%s to %s), %s%% confidence", iv.Name, FormatValue(iv.Estimate), FormatValue(iv.Lower), FormatValue(iv.Upper), strconv.FormatFloat(100*iv.Level, 'g', -1, 64))
+	return fmt.Sprintf("%s: %s (%s to %s), %s%% confidence", iv.MethodName, FormatValue(iv.Estimate), FormatValue(iv.Lower), FormatValue(iv.Upper), strconv.FormatFloat(100*iv.Level, 'g', -1, 64))
 }
 
 // FormatValue prints a number with 4 decimals, "∞"/"−∞" for infinities and
@@ -97,22 +97,22 @@ func (f *JSONFloat) UnmarshalJSON(b []byte) error {
 }
 
 type intervalJSON struct {
-	Method   string    `json:"method"`
-	Name     string    `json:"name"`
-	Family   Family    `json:"family"`
-	Level    float64   `json:"level"`
-	Estimate JSONFloat `json:"estimate"`
-	Defined  bool      `json:"estimate_defined"`
-	Lower    JSONFloat `json:"lower"`
-	Upper    JSONFloat `json:"upper"`
-	RawLower JSONFloat `json:"raw_lower"`
-	RawUpper JSONFloat `json:"raw_upper"`
-	Clipped  bool      `json:"clipped"`
+	Method     string    `json:"method"`
+	MethodName string    `json:"method_name"`
+	Scale      Scale     `json:"scale"`
+	Level      float64   `json:"level"`
+	Estimate   JSONFloat `json:"estimate"`
+	Defined    bool      `json:"estimate_defined"`
+	Lower      JSONFloat `json:"lower"`
+	Upper      JSONFloat `json:"upper"`
+	RawLower   JSONFloat `json:"raw_lower"`
+	RawUpper   JSONFloat `json:"raw_upper"`
+	Clipped    bool      `json:"clipped"`
 }
 
 // MarshalJSON writes the interval with infinite limits as strings.
 func (iv Interval) MarshalJSON() ([]byte, error) {
-	return json.Marshal(intervalJSON{iv.Method, iv.Name, iv.Family, iv.Level, JSONFloat(iv.Estimate), iv.Defined,
+	return json.Marshal(intervalJSON{iv.Method, iv.MethodName, iv.Scale, iv.Level, JSONFloat(iv.Estimate), iv.Defined,
 		JSONFloat(iv.Lower), JSONFloat(iv.Upper), JSONFloat(iv.RawLower), JSONFloat(iv.RawUpper), iv.Clipped})
 }
 
@@ -122,13 +122,13 @@ func (iv *Interval) UnmarshalJSON(b []byte) error {
 	if err := json.Unmarshal(b, &j); err != nil {
 		return err
 	}
-	*iv = Interval{j.Method, j.Name, j.Family, j.Level, float64(j.Estimate), j.Defined,
+	*iv = Interval{j.Method, j.MethodName, j.Scale, j.Level, float64(j.Estimate), j.Defined,
 		float64(j.Lower), float64(j.Upper), float64(j.RawLower), float64(j.RawUpper), j.Clipped}
 	return nil
 }
 
 // clip applies the limit rule documented on Interval.
-func clip(f Family, rawLo, rawHi float64) (lo, hi float64, clipped bool) {
+func clip(f Scale, rawLo, rawHi float64) (lo, hi float64, clipped bool) {
 	blo, bhi := f.Bounds()
 	lo, hi = rawLo, rawHi
 	if lo < blo {

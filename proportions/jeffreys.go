@@ -20,8 +20,8 @@ import "github.com/propscope/propscope/internal/special"
 // 1e-15 relative precision in each limit and in its distance from 1.
 // (gonum's distuv.Beta quantiles, used before, put the 99.9999% upper limit
 // at x = 0 near 1 once n ≥ 60.)
-var Jeffreys = ProportionMethod{
-	Key:        "jeffreys",
+var Jeffreys = RateMethod{
+	Key:        "jeffreys-rate",
 	Name:       "Jeffreys",
 	Citation:   "Brown LD, Cai TT, DasGupta A (2001). Interval estimation for a binomial proportion. Statistical Science 16:101–133 (Jeffreys interval).",
 	Definition: "quantiles α/2 and 1 − α/2 of Beta(x + ½, n − x + ½); lower 0 at x = 0 and upper 1 at x = n",

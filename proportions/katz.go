@@ -16,9 +16,9 @@ import "math"
 // is 0 and the interval collapses to the point 1 (the same collapse as the
 // Wald interval for a difference).
 var Katz = IntervalMethod{
-	Key:        "katz",
+	Key:        "katz-ratio",
 	Name:       "Katz log",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Symmetric:  true,
 	Citation:   "Katz D, Baptista J, Azen SP, Pike MC (1978). Obtaining confidence intervals for the risk ratio in cohort studies. Biometrics 34:469–474.",
 	Definition: "exp(log(p1/p2) ± z·√(1/x1 − 1/n1 + 1/x2 − 1/n2)); [0, ∞] when a group has no events",

@@ -22,9 +22,9 @@ package proportions
 // with none in either it is a wide interval around (n2+1)/(n1+1) while the
 // estimate is reported as not estimable.
 var KatzZeroAdjusted = IntervalMethod{
-	Key:        "katz-zero-adjusted",
+	Key:        "katz-zero-adjusted-ratio",
 	Name:       "Katz log, ½ added at zero events",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Symmetric:  true,
 	Citation:   "Katz D, Baptista J, Azen SP, Pike MC (1978). Obtaining confidence intervals for the risk ratio in cohort studies. Biometrics 34:469–474; ½ correction: Haldane JBS (1956). Annals of Human Genetics 20:309–311.",
 	Definition: "Katz log interval; when a group has no events, ½ is first added to all four cells (x+½ events of n+1 trials in each group)",

@@ -22,9 +22,9 @@ import "math"
 // cubic numerator (see ratioScoreLimits in ratio_score.go): a safeguarded
 // Halley search finds them in two or three steps.
 var Koopman = IntervalMethod{
-	Key:        "koopman",
+	Key:        "koopman-ratio",
 	Name:       "Koopman asymptotic score",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Symmetric:  true,
 	Citation:   "Koopman PAR (1984). Confidence intervals for the ratio of two binomial proportions. Biometrics 40:513–517.",
 	Definition: "all θ with (x1 − n1p̃1)²/(n1p̃1(1−p̃1)) + (x2 − n2p̃2)²/(n2p̃2(1−p̃2)) ≤ z², p̃ the maximum-likelihood estimates under π1 = θ·π2",

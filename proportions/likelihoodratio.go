@@ -2,7 +2,7 @@ package proportions
 
 import "math"
 
-// LikelihoodRatio is the likelihood-ratio (G²) test of H0: π1 = π2 on the
+// LikelihoodRatioTest is the likelihood-ratio (G²) test of H0: π1 = π2 on the
 // 2×2 table, with one degree of freedom:
 //
 //	G² = 2 Σ O·log(O/E),  E = row total × column total / N,
@@ -14,18 +14,18 @@ import "math"
 // (Σ(O − E) = 0) in non-negative terms, so no precision is lost when O is
 // close to E. One-sided alternatives and the degenerate table follow the
 // conventions of PearsonChiSquare (signed root sign(p1 − p2)·√G²).
-var LikelihoodRatio = TestMethod{
-	Key:        "g-test",
+var LikelihoodRatioTest = TestMethod{
+	Key:        "likelihood-ratio-test",
 	Name:       "Likelihood-ratio G² test",
 	Citation:   "Wilks SS (1938). The large-sample distribution of the likelihood ratio for testing composite hypotheses. Annals of Mathematical Statistics 9:60–62.",
 	Definition: "G² = 2 Σ O·log(O/E) over the four cells (0·log 0 = 0), E = row total × column total / N; χ² with 1 df (signed root for one-sided alternatives)",
-	Family:     Difference,
+	Scale:      Difference,
 	Run:        likelihoodRatioRun,
 }
 
 func likelihoodRatioRun(c Counts, h Hypothesis) TestResult {
 	d, _ := tableDeviation(c)
-	return chiSquareResult(gSquared(c), d, h, "g-test", "Likelihood-ratio G² test", "G²")
+	return chiSquareResult(gSquared(c), d, h, "likelihood-ratio-test", "Likelihood-ratio G² test", "G²")
 }
 
 // gSquared returns G² for the table (0 for the degenerate table).

@@ -22,7 +22,7 @@ package proportions
 var Mee = IntervalMethod{
 	Key:        "mee",
 	Name:       "Mee score",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Mee RW (1984). Confidence bounds for the difference between two probabilities. Biometrics 40:1175–1176.",
 	Definition: "the δ with |p1 − p2 − δ| ≤ z·√(π̃1(1−π̃1)/n1 + π̃2(1−π̃2)/n2), (π̃1, π̃2) the MLE under π1 − π2 = δ; inverts the Farrington–Manning score test",
 	Symmetric:  true,

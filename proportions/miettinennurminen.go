@@ -21,7 +21,7 @@ package proportions
 var MiettinenNurminen = IntervalMethod{
 	Key:        "miettinen-nurminen",
 	Name:       "Miettinen–Nurminen score",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "the δ with |p1 − p2 − δ| ≤ z·√(N/(N−1)·(π̃1(1−π̃1)/n1 + π̃2(1−π̃2)/n2)), (π̃1, π̃2) the MLE under π1 − π2 = δ, N = n1 + n2",
 	Symmetric:  true,

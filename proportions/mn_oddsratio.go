@@ -57,9 +57,9 @@ func oddsRatioScore(c Counts, psi, f float64) float64 {
 // rational function of one fitted count, by a safeguarded Halley search in
 // two or three steps.
 var MiettinenNurminenOddsRatio = IntervalMethod{
-	Key:        "mn-odds-ratio",
+	Key:        "miettinen-nurminen-odds-ratio",
 	Name:       "Miettinen–Nurminen score (odds ratio)",
-	Family:     OddsRatio,
+	Scale:      OddsRatio,
 	Symmetric:  true,
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "all ψ with (x1 − n1p̃1)²·((N−1)/N)·(1/(n1p̃1(1−p̃1)) + 1/(n2p̃2(1−p̃2))) ≤ z², p̃ the maximum-likelihood estimates under odds ratio ψ",
@@ -178,14 +178,14 @@ func groupShareRoot(e, n, z2f float64) float64 {
 // "Comparative analysis of two rates", Statistics in Medicine 4:213–226.
 // With no events at all, or only events, z = 0 (p = 1).
 var MiettinenNurminenOddsRatioTest = TestMethod{
-	Key:        "mn-odds-ratio-test",
+	Key:        "miettinen-nurminen-odds-ratio-test",
 	Name:       "Miettinen–Nurminen score test (odds ratio)",
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "z = (x1 − n1p̃1)·√(((N−1)/N)·(1/(n1p̃1(1−p̃1)) + 1/(n2p̃2(1−p̃2)))), p̃ the maximum-likelihood estimates under odds ratio ψ0; normal p-value",
-	Family:     OddsRatio,
+	Scale:      OddsRatio,
 	Margins:    true,
 	Run: func(c Counts, h Hypothesis) TestResult {
 		z := oddsRatioScore(c, h.Null, mnVarianceFactor(c))
-		return zTestResult(z, h, OddsRatio, "mn-odds-ratio-test", "Miettinen–Nurminen score test (odds ratio)")
+		return zTestResult(z, h, OddsRatio, "miettinen-nurminen-odds-ratio-test", "Miettinen–Nurminen score test (odds ratio)")
 	},
 }

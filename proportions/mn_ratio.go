@@ -19,9 +19,9 @@ package proportions
 // restricted fit (see ratioScoreLimits in ratio_score.go), found by a
 // safeguarded Halley search in two or three steps.
 var MiettinenNurminenRatio = IntervalMethod{
-	Key:        "mn-ratio",
+	Key:        "miettinen-nurminen-ratio",
 	Name:       "Miettinen–Nurminen score (ratio)",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Symmetric:  true,
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "all θ with |p1 − θ·p2| ≤ z·√((N/(N−1))·(p̃1(1−p̃1)/n1 + θ²·p̃2(1−p̃2)/n2)), p̃ the maximum-likelihood estimates under π1 = θ·π2",

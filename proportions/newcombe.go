@@ -15,7 +15,7 @@ import "math"
 var Newcombe = IntervalMethod{
 	Key:        "newcombe",
 	Name:       "Newcombe hybrid score",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Newcombe RG (1998). Interval estimation for the difference between independent proportions: comparison of eleven methods. Statistics in Medicine 17:873–890 (method 10).",
 	Definition: "from Wilson limits (li, ui): p1 − p2 − √((p1−l1)² + (u2−p2)²) to p1 − p2 + √((u1−p1)² + (p2−l2)²)",
 	Symmetric:  true,

@@ -36,13 +36,14 @@ type NumberNeeded struct {
 	First  string `json:"first"`
 	Second string `json:"second"`
 	Event  string `json:"event"`
-	// EventIsGood tells whether the counted event is the favourable outcome.
-	EventIsGood bool    `json:"event_is_good"`
-	Level       float64 `json:"level"`
+	// Better tells which way the rate is good: HigherIsBetter when the
+	// counted event is the favourable outcome.
+	Better Better  `json:"better"`
+	Level  float64 `json:"level"`
 	// Method and MethodName name the difference interval used.
 	Method     string `json:"method"`
 	MethodName string `json:"method_name"`
-	// Benefit is b: π1 − π2 when the event is good, π2 − π1 otherwise,
+	// Benefit is b: π1 − π2 when higher is better, π2 − π1 otherwise,
 	// with its interval.
 	Benefit      float64 `json:"benefit_difference"`
 	BenefitLower float64 `json:"benefit_lower"`
@@ -91,10 +92,11 @@ func (n NumberNeeded) MarshalJSON() ([]byte, error) {
 // NumberNeededToTreat computes the number needed to treat for the first
 // group's treatment against the second's from the difference interval of
 // method m (Family must be Difference, for example the Newcombe or
-// Miettinen–Nurminen interval). eventIsGood says whether the counted event
-// is the favourable outcome. It reads the setting Level (default 0.95).
-func NumberNeededToTreat(c Comparison, m IntervalMethod, eventIsGood bool, opts ...Option) (NumberNeeded, error) {
-	if m.Family != Difference || m.Limits == nil {
+// Miettinen–Nurminen interval). better says which way the rate is good
+// (HigherIsBetter when the counted event is the favourable outcome). It
+// reads the setting Level (default 0.95).
+func NumberNeededToTreat(c Comparison, m IntervalMethod, better Better, opts ...Option) (NumberNeeded, error) {
+	if m.Scale != Difference || m.Limits == nil {
 		return NumberNeeded{}, fmt.Errorf("number needed to treat from %q: %w; it needs an interval method for the difference π1 − π2", m.Key, ErrUnsupported)
 	}
 	s, err := NewSettings(opts...)
@@ -105,27 +107,30 @@ func NumberNeededToTreat(c Comparison, m IntervalMethod, eventIsGood bool, opts 
 	if err != nil {
 		return NumberNeeded{}, err
 	}
-	return NumberNeededFromInterval(iv, Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event}, eventIsGood)
+	return NumberNeededFromInterval(iv, Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event}, better)
 }
 
 // NumberNeededFromInterval computes the number needed to treat from an
 // interval for π1 − π2 already computed (for example Analysis.Interval).
 // Empty labels take the defaults.
-func NumberNeededFromInterval(iv Interval, labels Labels, eventIsGood bool) (NumberNeeded, error) {
-	if iv.Family != Difference {
-		return NumberNeeded{}, fmt.Errorf("number needed to treat from a %s interval: %w; it needs an interval for the difference π1 − π2", iv.Family, ErrUnsupported)
+func NumberNeededFromInterval(iv Interval, labels Labels, better Better) (NumberNeeded, error) {
+	if err := better.Validate(); err != nil {
+		return NumberNeeded{}, err
+	}
+	if iv.Scale != Difference {
+		return NumberNeeded{}, fmt.Errorf("number needed to treat from a %s interval: %w; it needs an interval for the difference π1 − π2", iv.Scale, ErrUnsupported)
 	}
 	if math.IsNaN(iv.Estimate) || math.IsNaN(iv.Lower) || math.IsNaN(iv.Upper) || iv.Lower > iv.Upper {
 		return NumberNeeded{}, fmt.Errorf("number needed to treat from interval %v: %w; the interval must be numbers with lower ≤ upper", iv, ErrUnsupported)
 	}
 	l := labels.withDefaults()
 	b, lo, hi := iv.Estimate, iv.Lower, iv.Upper
-	if !eventIsGood {
+	if better == LowerIsBetter {
 		b, lo, hi = -b, -hi, -lo
 	}
 	n := NumberNeeded{
-		First: l.First, Second: l.Second, Event: l.Event, EventIsGood: eventIsGood,
-		Level: iv.Level, Method: iv.Method, MethodName: iv.Name,
+		First: l.First, Second: l.Second, Event: l.Event, Better: better,
+		Level: iv.Level, Method: iv.Method, MethodName: iv.MethodName,
 		Benefit: b, BenefitLower: lo, BenefitUpper: hi,
 		Estimate:         reciprocalMagnitude(b),
 		IncludesNoEffect: lo <= 0 && hi >= 0,
@@ -190,7 +195,7 @@ func (n NumberNeeded) String() string {
 	level := strconv.FormatFloat(100*n.Level, 'g', -1, 64)
 	head := "no difference observed: NNT ∞"
 	more := "more"
-	if !n.EventIsGood {
+	if n.Better == LowerIsBetter {
 		more = "fewer"
 	}
 	switch n.Direction {
@@ -198,7 +203,7 @@ func (n NumberNeeded) String() string {
 		head = "NNTB " + formatNumber(n.Estimate)
 	case "harm":
 		head = "NNTH " + formatNumber(n.Estimate)
-		if n.EventIsGood {
+		if n.Better == HigherIsBetter {
 			more = "fewer"
 		} else {
 			more = "more"

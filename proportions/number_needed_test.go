@@ -15,7 +15,7 @@ import (
 // 1/0.3424951 to 1/0.0575049 (Altman 1998, BMJ 317:1309–1312).
 func TestNumberNeededBenefitOnly(t *testing.T) {
 	c, _ := NewComparison(56, 70, 48, 80, Labels{First: "coated", Second: "plain", Event: "germinated"})
-	n, err := NumberNeededToTreat(c, Wald, true)
+	n, err := NumberNeededToTreat(c, Wald, HigherIsBetter)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -29,7 +29,7 @@ func TestNumberNeededBenefitOnly(t *testing.T) {
 		t.Errorf("Interval() = %q", got)
 	}
 	// The same data with the event counted as bad: harm, the same numbers.
-	h, _ := NumberNeededToTreat(c, Wald, false)
+	h, _ := NumberNeededToTreat(c, Wald, LowerIsBetter)
 	if h.Direction != "harm" || h.BenefitRange != nil || h.HarmRange == nil || *h.HarmRange != *n.BenefitRange {
 		t.Errorf("event bad: %+v", h)
 	}
@@ -46,7 +46,7 @@ func TestNumberNeededSpansZero(t *testing.T) {
 	p1, p2 := 12.0/40, 5.0/38
 	se := math.Sqrt(p1*(1-p1)/40 + p2*(1-p2)/38)
 	lo, hi := p1-p2-1.959963984540054*se, p1-p2+1.959963984540054*se
-	n, err := NumberNeededToTreat(c, Wald, true)
+	n, err := NumberNeededToTreat(c, Wald, HigherIsBetter)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -75,7 +75,7 @@ func TestNumberNeededSpansZero(t *testing.T) {
 // reported as such in text and JSON, never NaN.
 func TestNumberNeededNoDifference(t *testing.T) {
 	c, _ := NewComparison(0, 10, 0, 10, Labels{})
-	n, err := NumberNeededToTreat(c, Wald, true)
+	n, err := NumberNeededToTreat(c, Wald, HigherIsBetter)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -94,14 +94,14 @@ func TestNumberNeededNoDifference(t *testing.T) {
 // TestNumberNeededBadInput: only difference intervals make sense.
 func TestNumberNeededBadInput(t *testing.T) {
 	c, _ := NewComparison(3, 10, 5, 10, Labels{})
-	if _, err := NumberNeededToTreat(c, Koopman, true); !errors.Is(err, ErrUnsupported) {
+	if _, err := NumberNeededToTreat(c, Koopman, HigherIsBetter); !errors.Is(err, ErrUnsupported) {
 		t.Errorf("ratio method: err %v, want ErrUnsupported", err)
 	}
-	if _, err := NumberNeededToTreat(c, Wald, true, WithLevel(2)); !errors.Is(err, ErrLevel) {
+	if _, err := NumberNeededToTreat(c, Wald, HigherIsBetter, WithLevel(2)); !errors.Is(err, ErrLevel) {
 		t.Errorf("level 2: err %v, want ErrLevel", err)
 	}
 	iv, _ := Katz.Interval(c.Counts(), 0.95)
-	if _, err := NumberNeededFromInterval(iv, Labels{}, true); !errors.Is(err, ErrUnsupported) {
+	if _, err := NumberNeededFromInterval(iv, Labels{}, HigherIsBetter); !errors.Is(err, ErrUnsupported) {
 		t.Errorf("ratio interval: err %v, want ErrUnsupported", err)
 	}
 }

@@ -22,12 +22,12 @@ type Settings struct {
 	nullSet bool
 	// Alternative is the direction of the alternative hypothesis.
 	Alternative Alternative
-	// Methods says which registered methods an analysis runs, by cost
+	// Scope says which registered methods an analysis runs, by cost
 	// (QuickMethods by default; see MethodScope).
-	Methods MethodScope
-	// ContinuityCorrection turns on Yates' correction for the chi-square
+	Scope MethodScope
+	// YatesTest turns on Yates' correction for the chi-square
 	// test (off by default: it makes the test conservative, see chisquare.go).
-	ContinuityCorrection bool
+	YatesTest bool
 }
 
 // Option changes one setting. Options are applied in order.
@@ -47,10 +47,10 @@ func WithNull(null float64) Option {
 // WithAlternative sets the direction of the alternative hypothesis.
 func WithAlternative(a Alternative) Option { return func(s *Settings) { s.Alternative = a } }
 
-// WithContinuityCorrection turns Yates' continuity correction on or off for
+// WithYatesTest turns Yates' continuity correction on or off for
 // the chi-square test.
-func WithContinuityCorrection(on bool) Option {
-	return func(s *Settings) { s.ContinuityCorrection = on }
+func WithYatesTest(on bool) Option {
+	return func(s *Settings) { s.YatesTest = on }
 }
 
 // NewSettings applies the options to the defaults (level 0.95, null 0 for a
@@ -69,7 +69,7 @@ func NewSettings(opts ...Option) (Settings, error) {
 	if err := s.Alternative.Validate(); err != nil {
 		return s, err
 	}
-	if err := s.Methods.Validate(); err != nil {
+	if err := s.Scope.Validate(); err != nil {
 		return s, err
 	}
 	return s, nil
@@ -77,7 +77,7 @@ func NewSettings(opts ...Option) (Settings, error) {
 
 // NullFor returns the null value on the given scale: the value set with
 // WithNull, or the scale's no-effect value (0 or 1) when none was set.
-func (s Settings) NullFor(f Family) float64 {
+func (s Settings) NullFor(f Scale) float64 {
 	if s.nullSet {
 		return s.Null
 	}
@@ -92,18 +92,18 @@ func ValidateLevel(level float64) error {
 	return nil
 }
 
-// ValidateNull returns an error wrapping ErrMargin unless the null value is
+// ValidateNull returns an error wrapping ErrNull unless the null value is
 // inside the parameter space of the family: (−1, 1) for the difference and
 // (0, ∞) for the ratio and the odds ratio.
-func ValidateNull(f Family, null float64) error {
+func ValidateNull(f Scale, null float64) error {
 	switch f {
 	case Difference:
 		if !(null > -1 && null < 1) {
-			return fmt.Errorf("null difference %v: %w; a difference of proportions under the null must lie strictly between -1 and 1", null, ErrMargin)
+			return fmt.Errorf("null difference %v: %w; a difference of proportions under the null must lie strictly between -1 and 1", null, ErrNull)
 		}
 	case Ratio, OddsRatio:
 		if !(null > 0) || math.IsInf(null, 1) {
-			return fmt.Errorf("null %s %v: %w; it must be a finite number greater than 0", f, null, ErrMargin)
+			return fmt.Errorf("null %s %v: %w; it must be a finite number greater than 0", f, null, ErrNull)
 		}
 	}
 	return nil

@@ -12,7 +12,7 @@ import (
 // decimals (value recalled from the paper, confirmed by recomputation);
 // recomputed ones are cross-implementation checks of the *_full values only.
 func TestProportionMethodsNewcombeTableI(t *testing.T) {
-	methods := map[string]ProportionMethod{"3": Wilson, "4": WilsonCC, "5": ClopperPearson}
+	methods := map[string]RateMethod{"3": Wilson, "4": WilsonCC, "5": ClopperPearson}
 	conf, err := NewConfidence(0.95)
 	if err != nil {
 		t.Fatal(err)
@@ -47,7 +47,7 @@ func TestProportionMethodsNewcombeTableI(t *testing.T) {
 // continuity correction and Clopper–Pearson at 95%, and Jeffreys and
 // Clopper–Pearson from beta quantiles at 90, 95 and 99%.
 func TestProportionMethodsSciPy(t *testing.T) {
-	methods := map[string]ProportionMethod{
+	methods := map[string]RateMethod{
 		"single proportion interval, Wilson score":                            Wilson,
 		"single proportion interval, Wilson score with continuity correction": WilsonCC,
 		"single proportion interval, Clopper-Pearson":                         ClopperPearson,
@@ -85,7 +85,7 @@ func nearly(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, ma
 // are numbers in [0, 1], ordered, contain x/n, and shrink as the level drops.
 func TestProportionMethodsProperties(t *testing.T) {
 	levels := []float64{0.5, 0.8, 0.9, 0.95, 0.99, 0.999}
-	for _, m := range ProportionMethods() {
+	for _, m := range RateMethods() {
 		for _, n := range []int64{1, 2, 3, 7, 20, 101, 1 << 40} {
 			for _, x := range sampleCounts(n) {
 				p := float64(x) / float64(n)
@@ -122,7 +122,7 @@ func sampleCounts(n int64) []int64 {
 // Boundary rules at x = 0 and x = n: exact 0 and 1 (documented on each method).
 func TestProportionBoundaries(t *testing.T) {
 	conf, _ := NewConfidence(0.95)
-	for _, m := range ProportionMethods() {
+	for _, m := range RateMethods() {
 		for _, n := range []int64{1, 5, 1000} {
 			if lo, _ := m.Limits(0, n, conf); lo != 0 {
 				t.Errorf("%s 0/%d: lower %v, want exactly 0", m.Name, n, lo)

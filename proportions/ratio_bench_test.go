@@ -84,9 +84,9 @@ func BenchmarkRatioScoreLimits(b *testing.B) {
 		key           string
 		now, previous func(Counts, Confidence) (float64, float64)
 	}{
-		{"koopman", Koopman.Limits, previousKoopmanLimits},
-		{"mn-ratio", MiettinenNurminenRatio.Limits, previousMNRatioLimits},
-		{"mn-odds-ratio", MiettinenNurminenOddsRatio.Limits, previousMNOddsRatioLimits},
+		{"koopman-ratio", Koopman.Limits, previousKoopmanLimits},
+		{"miettinen-nurminen-ratio", MiettinenNurminenRatio.Limits, previousMNRatioLimits},
+		{"miettinen-nurminen-odds-ratio", MiettinenNurminenOddsRatio.Limits, previousMNOddsRatioLimits},
 	}
 	for _, m := range methods {
 		for _, tb := range ratioScoreBenchTables {

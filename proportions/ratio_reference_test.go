@@ -141,9 +141,9 @@ func TestRatioAgainstSciPy(t *testing.T) {
 	for _, e := range ref.SciPy {
 		var m IntervalMethod
 		switch e.Method {
-		case "katz":
+		case "katz-ratio":
 			m = Katz
-		case "woolf":
+		case "woolf-odds-ratio":
 			m = Woolf
 		default:
 			continue
@@ -176,7 +176,7 @@ func TestRatioScoreTestsAtNoEffect(t *testing.T) {
 		}
 		n++
 		c := e.Data
-		fm, err := FarringtonManningRatio.Test(c)
+		fm, err := FarringtonManningRatioTest.Test(c)
 		if err != nil {
 			t.Fatal(err)
 		}

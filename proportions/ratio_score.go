@@ -23,7 +23,7 @@ func ratioScore(c Counts, theta, f float64) float64 {
 	return signedScore(num, v)
 }
 
-// FarringtonManningRatio is the score test of H0: π1/π2 = ρ0 against the
+// FarringtonManningRatioTest is the score test of H0: π1/π2 = ρ0 against the
 // chosen alternative, the usual test for non-inferiority or superiority
 // margins stated as a ratio:
 //
@@ -37,15 +37,15 @@ func ratioScore(c Counts, theta, f float64) float64 {
 // Koopman's (1984) chi-square, so it inverts to the Koopman interval; at
 // ρ0 = 1 it is the Pearson chi-square test. Zero events in both groups give
 // z = 0 (p = 1): such data carry no information about the ratio.
-var FarringtonManningRatio = TestMethod{
-	Key:        "fm-ratio-test",
+var FarringtonManningRatioTest = TestMethod{
+	Key:        "farrington-manning-ratio-test",
 	Name:       "Farrington–Manning score test (ratio)",
 	Citation:   "Farrington CP, Manning G (1990). Test statistics and sample size formulae for comparative binomial trials with null hypothesis of non-zero risk difference or non-unity relative risk. Statistics in Medicine 9:1447–1454.",
 	Definition: "z = (p1 − ρ0·p2) / √(p̃1(1−p̃1)/n1 + ρ0²·p̃2(1−p̃2)/n2), with p̃1 = ρ0·p̃2 the maximum-likelihood estimates under π1/π2 = ρ0; normal p-value",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Margins:    true,
 	Run: func(c Counts, h Hypothesis) TestResult {
-		return ratioScoreTest(c, h, 1, "fm-ratio-test", "Farrington–Manning score test (ratio)")
+		return ratioScoreTest(c, h, 1, "farrington-manning-ratio-test", "Farrington–Manning score test (ratio)")
 	},
 }
 
@@ -58,14 +58,14 @@ var FarringtonManningRatio = TestMethod{
 // Miettinen O, Nurminen M (1985), "Comparative analysis of two rates",
 // Statistics in Medicine 4:213–226.
 var MiettinenNurminenRatioTest = TestMethod{
-	Key:        "mn-ratio-test",
+	Key:        "miettinen-nurminen-ratio-test",
 	Name:       "Miettinen–Nurminen score test (ratio)",
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "z = (p1 − ρ0·p2) / √((N/(N−1))·(p̃1(1−p̃1)/n1 + ρ0²·p̃2(1−p̃2)/n2)), restricted maximum-likelihood p̃ under π1/π2 = ρ0; normal p-value",
-	Family:     Ratio,
+	Scale:      Ratio,
 	Margins:    true,
 	Run: func(c Counts, h Hypothesis) TestResult {
-		return ratioScoreTest(c, h, mnVarianceFactor(c), "mn-ratio-test", "Miettinen–Nurminen score test (ratio)")
+		return ratioScoreTest(c, h, mnVarianceFactor(c), "miettinen-nurminen-ratio-test", "Miettinen–Nurminen score test (ratio)")
 	},
 }
 
@@ -75,11 +75,11 @@ func ratioScoreTest(c Counts, h Hypothesis, f float64, key, name string) TestRes
 }
 
 // zTestResult fills a TestResult for a z statistic with normal p-values.
-func zTestResult(z float64, h Hypothesis, fam Family, key, name string) TestResult {
+func zTestResult(z float64, h Hypothesis, fam Scale, key, name string) TestResult {
 	p, logp := normalPValue(z, h.Alternative)
 	crit := h.critical()
 	r := TestResult{
-		Method: key, Name: name, Family: fam, StatisticName: "z", Statistic: z,
+		Method: key, MethodName: name, Scale: fam, StatisticName: "z", Statistic: z,
 		PValue: p, LogPValue: logp, CriticalValue: &crit,
 	}
 	r.decide(h)

@@ -23,7 +23,7 @@ var ratioScorePairs = []struct {
 // the methods' zero-cell rules: a limit is 0 or ∞ when the estimate is
 // (ratio: x1 = 0 or x2 = 0; odds ratio: a zero cell on that side), and the
 // interval is [0, ∞] when the parameter is not estimable.
-func bisectedRatioLimits(c Counts, fam Family, z func(Counts, float64) float64, conf Confidence) (lo, hi float64) {
+func bisectedRatioLimits(c Counts, fam Scale, z func(Counts, float64) float64, conf Confidence) (lo, hi float64) {
 	lo, hi = 0, math.Inf(1)
 	hasLower, hasUpper := c.X1 > 0, c.X2 > 0
 	if fam == OddsRatio {
@@ -100,7 +100,7 @@ func TestRatioScoreLimitsMatchBisection(t *testing.T) {
 		for i, c := range tables {
 			conf, _ := NewConfidence(levels[i])
 			lo, hi := m.iv.Limits(c, conf)
-			wantLo, wantHi := bisectedRatioLimits(c, m.iv.Family, m.z, conf)
+			wantLo, wantHi := bisectedRatioLimits(c, m.iv.Scale, m.z, conf)
 			gap := math.Max(logGap(lo, wantLo), logGap(hi, wantHi))
 			if !(gap <= 1e-10) {
 				t.Errorf("%s %v level %.4f: (%.17g, %.17g), bisection (%.17g, %.17g)", m.iv.Key, c, levels[i], lo, hi, wantLo, wantHi)
@@ -120,7 +120,7 @@ func TestRatioScoreLimitsMatchBisection(t *testing.T) {
 // (its tolerance was 1e−11 on log θ), 0 and ∞ exactly.
 func TestRatioScoreLimitsMatchPrevious(t *testing.T) {
 	previous := map[string]func(Counts, Confidence) (float64, float64){
-		"koopman": previousKoopmanLimits, "mn-ratio": previousMNRatioLimits, "mn-odds-ratio": previousMNOddsRatioLimits,
+		"koopman-ratio": previousKoopmanLimits, "miettinen-nurminen-ratio": previousMNRatioLimits, "miettinen-nurminen-odds-ratio": previousMNOddsRatioLimits,
 	}
 	tables := append(smallTables(12), Counts{30, 50, 25, 50}, Counts{600, 1000, 500, 1000}, Counts{600000, 1000000, 500000, 1000000}, Counts{189, 11034, 104, 11037})
 	for _, level := range []float64{0.9, 0.95, 0.99} {

@@ -18,8 +18,8 @@ type IntervalMethod struct {
 	Key string `json:"key"`
 	// Name is the published name shown to users.
 	Name string `json:"name"`
-	// Family is the parameter the interval is for.
-	Family Family `json:"family"`
+	// Scale is the parameter the interval is for.
+	Scale Scale `json:"scale"`
 	// Citation names the paper (authors, year, journal).
 	Citation string `json:"citation"`
 	// Definition states the method's formula in one or two sentences.
@@ -27,10 +27,10 @@ type IntervalMethod struct {
 	// Exact marks methods whose coverage is guaranteed by construction
 	// (exact or conservative); they can be slow.
 	Exact bool `json:"exact"`
-	// SizeLimit is the largest total n1 + n2 at which the method runs in
+	// TrialLimit is the largest total n1 + n2 at which the method runs in
 	// about a second or less; 0 means no limit. Analyze skips a method above
 	// its limit and says so in a warning instead of hanging.
-	SizeLimit int64 `json:"size_limit,omitempty"`
+	TrialLimit int64 `json:"trial_limit,omitempty"`
 	// Symmetric declares that the method treats the two groups alike and
 	// events and non-events alike: exchanging the groups (x1, n1) and
 	// (x2, n2), or counting non-events in both groups (difference and odds
@@ -66,21 +66,21 @@ func (m IntervalMethod) Interval(c Counts, level float64) (Interval, error) {
 // IntervalAt is Interval for counts and confidence already validated.
 func (m IntervalMethod) IntervalAt(c Counts, conf Confidence) Interval {
 	rawLo, rawHi := m.Limits(c, conf)
-	lo, hi, clipped := clip(m.Family, rawLo, rawHi)
-	est := m.Family.Estimate(c)
+	lo, hi, clipped := clip(m.Scale, rawLo, rawHi)
+	est := m.Scale.Estimate(c)
 	if m.PointEstimate != nil {
 		est = m.PointEstimate(c)
 	}
 	return Interval{
-		Method: m.Key, Name: m.Name, Family: m.Family, Level: conf.Level,
+		Method: m.Key, MethodName: m.Name, Scale: m.Scale, Level: conf.Level,
 		Estimate: est, Defined: !math.IsNaN(est),
 		Lower: lo, Upper: hi, RawLower: rawLo, RawUpper: rawHi, Clipped: clipped,
 	}
 }
 
-// ProportionMethod is a published interval method for one group's
+// RateMethod is a published interval method for one group's
 // proportion π, from x events out of n trials.
-type ProportionMethod struct {
+type RateMethod struct {
 	Key        string `json:"key"`
 	Name       string `json:"name"`
 	Citation   string `json:"citation"`
@@ -90,7 +90,7 @@ type ProportionMethod struct {
 }
 
 // Interval computes the interval for one group, validating its counts.
-func (m ProportionMethod) Interval(x, n int64, level float64) (Interval, error) {
+func (m RateMethod) Interval(x, n int64, level float64) (Interval, error) {
 	if err := validateGroup("the", x, n); err != nil {
 		return Interval{}, err
 	}
@@ -102,11 +102,11 @@ func (m ProportionMethod) Interval(x, n int64, level float64) (Interval, error) 
 }
 
 // IntervalAt is Interval for counts and confidence already validated.
-func (m ProportionMethod) IntervalAt(x, n int64, conf Confidence) Interval {
+func (m RateMethod) IntervalAt(x, n int64, conf Confidence) Interval {
 	rawLo, rawHi := m.Limits(x, n, conf)
-	lo, hi, clipped := clip(Proportion, rawLo, rawHi)
+	lo, hi, clipped := clip(SingleRate, rawLo, rawHi)
 	return Interval{
-		Method: m.Key, Name: m.Name, Family: Proportion, Level: conf.Level,
+		Method: m.Key, MethodName: m.Name, Scale: SingleRate, Level: conf.Level,
 		Estimate: float64(x) / float64(n), Defined: true,
 		Lower: lo, Upper: hi, RawLower: rawLo, RawUpper: rawHi, Clipped: clipped,
 	}
@@ -136,25 +136,54 @@ var (
 	oddsRatioMethods = []IntervalMethod{
 		Woolf, GartAdjusted, MiettinenNurminenOddsRatio, CornfieldExact, CornfieldMidP, BaptistaPike,
 	}
-	proportionMethods = []ProportionMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys}
+	proportionMethods = []RateMethod{Wilson, WilsonCC, ClopperPearson, Jeffreys}
 	// Tests: asymptotic tests on the difference, exact tests, and tests on
 	// the ratio and odds-ratio scales.
 	asymptoticTests = []TestMethod{
-		FarringtonManning, MiettinenNurminenTest, PearsonChiSquare, Yates, LikelihoodRatio,
+		FarringtonManningTest, MiettinenNurminenTest, PearsonChiSquareTest, YatesTest, LikelihoodRatioTest,
 	}
 	exactTests = []TestMethod{
-		Fisher, FisherMidP, Barnard, BarnardWald, Boschloo, BoschlooDoubled,
+		FisherTest, FisherMidPTest, BarnardTest, BarnardWaldTest, BoschlooTest, BoschlooDoubledTest,
 	}
 	ratioTests = []TestMethod{
-		FarringtonManningRatio, MiettinenNurminenRatioTest, MiettinenNurminenOddsRatioTest,
+		FarringtonManningRatioTest, MiettinenNurminenRatioTest, MiettinenNurminenOddsRatioTest,
 	}
 )
 
-// IntervalMethods returns the registered interval methods of a family that
-// are fast enough to be computed for every outcome of a design, in display
-// order. The slice is a fresh copy. SlowIntervalMethods lists the others.
-func IntervalMethods(f Family) []IntervalMethod {
-	switch f {
+// IntervalMethods returns the registered interval methods of a scale that
+// the scope includes, in display order (a fresh slice). ScopeQuick gives the
+// methods that cost microseconds per table, the ones the coverage engine
+// enumerates for every outcome of a design; ScopeAll adds the costly exact
+// intervals (those with a TrialLimit); ScopeLargeSample keeps only the
+// methods justified by large-sample theory. An unknown scale gives none.
+func IntervalMethods(s Scale, scope MethodScope) []IntervalMethod {
+	var all []IntervalMethod
+	switch s {
+	case Difference:
+		all = slices.Concat(differenceMethods, slowDifferenceMethods)
+	case Ratio:
+		all = ratioMethods
+	case OddsRatio:
+		all = oddsRatioMethods
+	}
+	var out []IntervalMethod
+	for _, m := range all {
+		if scope.Runs(m.Exact, m.TrialLimit) {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
+// EnumerableIntervalMethods returns the registered interval methods of a
+// scale that are fast enough for the coverage engine to compute at every
+// outcome of a design (a fresh slice, in display order): every method but
+// the exact unconditional intervals for the difference, which cost
+// milliseconds to seconds per table. It differs from IntervalMethods with
+// ScopeQuick in the conditional odds-ratio intervals, costly for one large
+// table but cheap at every outcome of a design the engine accepts.
+func EnumerableIntervalMethods(s Scale) []IntervalMethod {
+	switch s {
 	case Difference:
 		return slices.Clone(differenceMethods)
 	case Ratio:
@@ -165,32 +194,22 @@ func IntervalMethods(f Family) []IntervalMethod {
 	return nil
 }
 
-// SlowIntervalMethods returns the registered exact interval methods of a
-// family that take milliseconds to seconds per table (the exact
-// unconditional intervals for the difference). Analyze includes them up to
-// their SizeLimit; the coverage engine does not enumerate them.
-func SlowIntervalMethods(f Family) []IntervalMethod {
-	if f == Difference {
-		return slices.Clone(slowDifferenceMethods)
-	}
-	return nil
+// TwoGroupIntervalMethods returns the registered interval methods of every
+// two-group scale (difference, ratio, odds ratio, in that order) that the
+// scope includes.
+func TwoGroupIntervalMethods(scope MethodScope) []IntervalMethod {
+	return slices.Concat(IntervalMethods(Difference, scope), IntervalMethods(Ratio, scope), IntervalMethods(OddsRatio, scope))
 }
 
-// AllIntervalMethods returns every registered two-group interval method
-// that is fast enough for enumeration (see SlowIntervalMethods for the rest).
-func AllIntervalMethods() []IntervalMethod {
-	return slices.Concat(differenceMethods, ratioMethods, oddsRatioMethods)
-}
-
-// ProportionMethods returns the registered single-proportion methods.
-func ProportionMethods() []ProportionMethod { return slices.Clone(proportionMethods) }
+// RateMethods returns the registered single-proportion methods.
+func RateMethods() []RateMethod { return slices.Clone(proportionMethods) }
 
 // Tests returns every registered test, asymptotic first.
 func Tests() []TestMethod { return slices.Concat(asymptoticTests, exactTests, ratioTests) }
 
 // LookupInterval finds a two-group interval method by key.
 func LookupInterval(key string) (IntervalMethod, error) {
-	for _, m := range slices.Concat(AllIntervalMethods(), slowDifferenceMethods) {
+	for _, m := range TwoGroupIntervalMethods(ScopeAll) {
 		if m.Key == key {
 			return m, nil
 		}
@@ -198,8 +217,8 @@ func LookupInterval(key string) (IntervalMethod, error) {
 	return IntervalMethod{}, fmt.Errorf("interval method %q: %w; known keys: %v", key, ErrUnknownMethod, intervalKeys())
 }
 
-// LookupProportion finds a single-proportion method by key.
-func LookupProportion(key string) (ProportionMethod, error) {
+// LookupRate finds a single-proportion method by key.
+func LookupRate(key string) (RateMethod, error) {
 	for _, m := range proportionMethods {
 		if m.Key == key {
 			return m, nil
@@ -209,7 +228,7 @@ func LookupProportion(key string) (ProportionMethod, error) {
 	for _, m := range proportionMethods {
 		keys = append(keys, m.Key)
 	}
-	return ProportionMethod{}, fmt.Errorf("proportion method %q: %w; known keys: %v", key, ErrUnknownMethod, keys)
+	return RateMethod{}, fmt.Errorf("proportion method %q: %w; known keys: %v", key, ErrUnknownMethod, keys)
 }
 
 // LookupTest finds a test by key.
@@ -228,7 +247,7 @@ func LookupTest(key string) (TestMethod, error) {
 }
 
 func intervalKeys() []string {
-	all := slices.Concat(AllIntervalMethods(), slowDifferenceMethods)
+	all := TwoGroupIntervalMethods(ScopeAll)
 	keys := make([]string, 0, len(all))
 	for _, m := range all {
 		keys = append(keys, m.Key)

@@ -10,23 +10,23 @@ import "fmt"
 type MethodScope int
 
 const (
-	// QuickMethods, the default, runs every registered method that costs
+	// ScopeQuick, the default, runs every registered method that costs
 	// microseconds: the large-sample intervals and tests of every family,
 	// the single-group intervals (Clopper–Pearson included) and Fisher's
 	// exact test with its mid-p. A whole analysis then takes about ten
 	// microseconds at any sample size, so it suits loops over many tables
 	// and live redraws.
-	QuickMethods MethodScope = iota
-	// AllMethods adds the costly exact methods, each up to its SizeLimit:
+	ScopeQuick MethodScope = iota
+	// ScopeAll adds the costly exact methods, each up to its SizeLimit:
 	// Barnard's and Boschloo's unconditional tests, the exact unconditional
 	// intervals for the difference and the conditional intervals for the
 	// odds ratio. Small or sparse tables, where the large-sample methods
 	// are least trustworthy, are where they earn their cost; a single
 	// analysis takes milliseconds to a second.
-	AllMethods
-	// LargeSampleMethods leaves out every exact and conditional method
+	ScopeAll
+	// ScopeLargeSample leaves out every exact and conditional method
 	// (Fisher's test too): only methods justified by large-sample theory.
-	LargeSampleMethods
+	ScopeLargeSample
 )
 
 var scopeNames = [...]string{"quick", "all", "large-sample"}
@@ -74,16 +74,16 @@ func (s *MethodScope) UnmarshalText(b []byte) error {
 func (s MethodScope) Runs(exact bool, sizeLimit int64) bool {
 	costly := sizeLimit > 0
 	switch s {
-	case AllMethods:
+	case ScopeAll:
 		return true
-	case LargeSampleMethods:
+	case ScopeLargeSample:
 		return !exact && !costly
 	}
 	return !costly
 }
 
-// WithMethods sets which registered methods an analysis runs (see
+// WithScope sets which registered methods an analysis runs (see
 // MethodScope; the default is QuickMethods).
-func WithMethods(scope MethodScope) Option {
-	return func(s *Settings) { s.Methods = scope }
+func WithScope(scope MethodScope) Option {
+	return func(s *Settings) { s.Scope = scope }
 }

@@ -2,7 +2,7 @@ package proportions
 
 import "math"
 
-// FarringtonManning is the score test of H0: π1 − π2 = δ against the chosen
+// FarringtonManningTest is the score test of H0: π1 − π2 = δ against the chosen
 // alternative, for any δ in (−1, 1) (δ ≠ 0: non-inferiority, superiority or
 // equivalence margins):
 //
@@ -21,18 +21,18 @@ import "math"
 // Degenerate case: when every unit in both groups has the same outcome and
 // δ = 0 the statistic is 0/0; it is defined as z = 0, p = 1 (the data give
 // no evidence of a difference).
-var FarringtonManning = TestMethod{
-	Key:        "score",
+var FarringtonManningTest = TestMethod{
+	Key:        "farrington-manning-test",
 	Name:       "Farrington–Manning score test",
 	Citation:   "Farrington CP, Manning G (1990). Test statistics and sample size formulae for comparative binomial trials with null hypothesis of non-zero risk difference or non-unity relative risk. Statistics in Medicine 9:1447–1454.",
 	Definition: "z = (p1 − p2 − δ) / √(π̃1(1−π̃1)/n1 + π̃2(1−π̃2)/n2), (π̃1, π̃2) the maximum-likelihood estimates under π1 − π2 = δ; normal p-value. At δ = 0 the pooled z test.",
-	Family:     Difference,
+	Scale:      Difference,
 	Margins:    true,
 	Run:        farringtonManningRun,
 }
 
 func farringtonManningRun(c Counts, h Hypothesis) TestResult {
-	return zTestResult(scoreTestZ(c, h.Null, 1), h, Difference, "score", "Farrington–Manning score test")
+	return zTestResult(scoreTestZ(c, h.Null, 1), h, Difference, "farrington-manning-test", "Farrington–Manning score test")
 }
 
 // scoreTestZ is the score tests' statistic, z(δ) with variance factor k.
@@ -61,17 +61,17 @@ func scoreTestZ(c Counts, delta, k float64) float64 {
 // FarringtonManning and inverts to the MiettinenNurminen interval. The
 // degenerate case is as for FarringtonManning (z = 0, p = 1).
 var MiettinenNurminenTest = TestMethod{
-	Key:        "mn-test",
+	Key:        "miettinen-nurminen-test",
 	Name:       "Miettinen–Nurminen score test",
 	Citation:   "Miettinen O, Nurminen M (1985). Comparative analysis of two rates. Statistics in Medicine 4:213–226.",
 	Definition: "z = (p1 − p2 − δ) / √(N/(N−1)·(π̃1(1−π̃1)/n1 + π̃2(1−π̃2)/n2)), (π̃1, π̃2) the maximum-likelihood estimates under π1 − π2 = δ, N = n1 + n2; normal p-value",
-	Family:     Difference,
+	Scale:      Difference,
 	Margins:    true,
 	Run:        miettinenNurminenRun,
 }
 
 func miettinenNurminenRun(c Counts, h Hypothesis) TestResult {
-	return zTestResult(scoreTestZ(c, h.Null, mnVarianceFactor(c)), h, Difference, "mn-test", "Miettinen–Nurminen score test")
+	return zTestResult(scoreTestZ(c, h.Null, mnVarianceFactor(c)), h, Difference, "miettinen-nurminen-test", "Miettinen–Nurminen score test")
 }
 
 // FarringtonManningPair returns the Farrington–Manning score test and Mee's
@@ -79,7 +79,7 @@ func miettinenNurminenRun(c Counts, h Hypothesis) TestResult {
 // exactly when the two-sided test of π1 − π2 = δ rejects, and the lower
 // (upper) limit of the interval at level 1 − 2α is the one-sided bound
 // matching the Greater (Less) test at α.
-func FarringtonManningPair() (TestMethod, IntervalMethod) { return FarringtonManning, Mee }
+func FarringtonManningPair() (TestMethod, IntervalMethod) { return FarringtonManningTest, Mee }
 
 // MiettinenNurminenPair returns the Miettinen–Nurminen score test and the
 // Miettinen–Nurminen interval, which inverts it (as for

@@ -11,7 +11,7 @@ import (
 // infinities) and reads back unchanged.
 func TestTestResultJSONInfinities(t *testing.T) {
 	crit := 1.959963984540054
-	r := TestResult{Method: "x", Name: "X", StatisticName: "z", Statistic: math.Inf(1), PValue: 0,
+	r := TestResult{Method: "x", MethodName: "X", StatisticName: "z", Statistic: math.Inf(1), PValue: 0,
 		LogPValue: math.Inf(-1), CriticalValue: &crit, Reject: true, DF: 1}
 	b, err := json.Marshal(r)
 	if err != nil {
@@ -28,10 +28,10 @@ func TestTestResultJSONInfinities(t *testing.T) {
 		t.Errorf("read back %+v", back)
 	}
 	h := Hypothesis{Null: 0, Alternative: TwoSided, Conf: Confidence{Level: 0.95, Z: crit}}
-	fm := FarringtonManning.Run(Counts{X1: 56, N1: 70, X2: 48, N2: 80}, h)
+	fm := FarringtonManningTest.Run(Counts{X1: 56, N1: 70, X2: 48, N2: 80}, h)
 	b, _ = json.Marshal(fm)
 	var fm2 TestResult
-	if err := json.Unmarshal(b, &fm2); err != nil || fm2.Statistic != fm.Statistic || fm2.PValue != fm.PValue || fm2.Name != fm.Name {
+	if err := json.Unmarshal(b, &fm2); err != nil || fm2.Statistic != fm.Statistic || fm2.PValue != fm.PValue || fm2.MethodName != fm.MethodName {
 		t.Errorf("round trip %+v -> %s -> %+v (%v)", fm, b, fm2, err)
 	}
 }

@@ -56,12 +56,12 @@ const (
 // test's Check); there the exact and the asymptotic tests agree closely.
 const UnconditionalMaxTables = 4e8
 
-// unconditionalSizeLimit is the SizeLimit (n1 + n2) at which one test takes
+// unconditionalTrialLimit is the SizeLimit (n1 + n2) at which one test takes
 // about a second on one core, measured with the benchmarks.
-const unconditionalSizeLimit = 6000
+const unconditionalTrialLimit = 6000
 
-// UnconditionalDesign describes an unconditional exact test.
-type UnconditionalDesign struct {
+// UnconditionalVariant describes an unconditional exact test.
+type UnconditionalVariant struct {
 	Statistic OrderingStatistic
 	TwoSided  TwoSidedRule
 	// BergerBoosGamma, when positive, restricts the supremum to a
@@ -74,7 +74,7 @@ type UnconditionalDesign struct {
 	BergerBoosGamma float64
 }
 
-// Barnard is Barnard's unconditional exact test with the pooled score
+// BarnardTest is Barnard's unconditional exact test with the pooled score
 // statistic z = (p1 − p2)/√(p̄(1−p̄)(1/n1 + 1/n2)), p̄ = (x1+x2)/(n1+n2):
 // Barnard GA (1947), "Significance tests for 2×2 tables", Biometrika
 // 34:123–138, with the score ordering of Suissa S, Shuster JJ (1985),
@@ -85,15 +85,23 @@ type UnconditionalDesign struct {
 // unconditional test of Chan ISF (1998), "Exact tests of equivalence and
 // efficacy with a non-zero lower bound for comparative studies",
 // Statistics in Medicine 17:1403–1413. Two-sided: |z| ≥ |z_obs|.
-var Barnard = mustUnconditional("barnard", "Barnard (score)", UnconditionalDesign{Statistic: PooledScore})
+var BarnardTest = TestMethod{
+	Key: "barnard-test", Name: "Barnard (score)", Citation: citeBarnardScore, Definition: defBarnardScore,
+	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
+	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: PooledScore}),
+}
 
-// BarnardWald is Barnard's unconditional exact test ordered by the unpooled
+// BarnardWaldTest is Barnard's unconditional exact test ordered by the unpooled
 // (Wald) statistic z = (p1 − p2 − δ0)/√(p1(1−p1)/n1 + p2(1−p2)/n2), with
 // z = ±∞ when that variance is 0 and p1 − p2 ≠ δ0: Barnard GA (1947),
 // Biometrika 34:123–138. Two-sided: |z| ≥ |z_obs|.
-var BarnardWald = mustUnconditional("barnard-wald", "Barnard (Wald)", UnconditionalDesign{Statistic: UnpooledWald})
+var BarnardWaldTest = TestMethod{
+	Key: "barnard-wald-test", Name: "Barnard (Wald)", Citation: citeBarnardWald, Definition: defBarnardWald,
+	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
+	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: UnpooledWald}),
+}
 
-// Boschloo is Boschloo's unconditional exact test: tables are ordered by
+// BoschlooTest is Boschloo's unconditional exact test: tables are ordered by
 // Fisher's exact p-value, and the p-value is the supremum over the common π
 // of P(Fisher p ≤ observed Fisher p): Boschloo RD (1970), "Raised
 // conditional level of significance for the 2×2-table when testing the
@@ -101,48 +109,65 @@ var BarnardWald = mustUnconditional("barnard-wald", "Barnard (Wald)", Unconditio
 // never larger than Fisher's p-value. Two-sided: ordered by Fisher's
 // two-sided p-value (tables no more probable than the observed one within
 // their margin).
-var Boschloo = mustUnconditional("boschloo", "Boschloo", UnconditionalDesign{Statistic: FisherPValue})
+var BoschlooTest = TestMethod{
+	Key: "boschloo-test", Name: "Boschloo", Citation: citeBoschloo, Definition: defBoschloo,
+	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
+	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue}),
+}
 
-// BoschlooDoubled is Boschloo's test with the two-sided p-value taken as
+// BoschlooDoubledTest is Boschloo's test with the two-sided p-value taken as
 // twice the smaller one-sided p-value (capped at 1), ordered by Fisher's
 // one-sided p-values: the convention of some software and references.
-var BoschlooDoubled = mustUnconditional("boschloo-doubled", "Boschloo (doubled one-sided)",
-	UnconditionalDesign{Statistic: FisherPValue, TwoSided: TwoSidedDoubled})
-
-func mustUnconditional(key, name string, d UnconditionalDesign) TestMethod {
-	m, err := NewUnconditionalTest(d)
-	if err != nil {
-		panic(err) // registered designs are constants; reached only by a programming error
-	}
-	m.Key, m.Name = key, name
-	return m
+var BoschlooDoubledTest = TestMethod{
+	Key: "boschloo-doubled-test", Name: "Boschloo" + doubledName, Citation: citeBoschloo, Definition: defBoschloo + doubledDefinition,
+	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
+	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 }
 
 // NewUnconditionalTest builds an unconditional exact test as a TestMethod
 // (usable with Test, the coverage engine and the cards) for any ordering
 // statistic, two-sided rule and Berger–Boos γ. It returns an error wrapping
 // ErrUnsupported for an unknown statistic or rule, or a γ outside [0, 0.2].
-// The key names the design, for example "barnard-wald-doubled-bb0.001".
-func NewUnconditionalTest(d UnconditionalDesign) (TestMethod, error) {
+// The key names the variant, for example "barnard-wald-doubled-bb0.001-test".
+func NewUnconditionalTest(d UnconditionalVariant) (TestMethod, error) {
 	if d.Statistic < PooledScore || d.Statistic > FisherPValue || d.TwoSided < TwoSidedOrdered || d.TwoSided > TwoSidedDoubled {
 		return TestMethod{}, fmt.Errorf("unconditional design %+v: %w; use PooledScore, UnpooledWald or FisherPValue with TwoSidedOrdered or TwoSidedDoubled", d, ErrUnsupported)
 	}
 	if !(d.BergerBoosGamma >= 0 && d.BergerBoosGamma <= 0.2) {
 		return TestMethod{}, fmt.Errorf("Berger–Boos γ %v: %w; use 0 (off) or a small value such as 0.001 (at most 0.2)", d.BergerBoosGamma, ErrUnsupported)
 	}
-	key, name := [...]string{"barnard", "barnard-wald", "boschloo"}[d.Statistic], [...]string{"Barnard (score)", "Barnard (Wald)", "Boschloo"}[d.Statistic]
-	def := [...]string{
-		"p = sup over the common π of P(z ≥ z_obs), z the pooled score statistic (|z| ≥ |z_obs| two-sided)",
-		"p = sup over the common π of P(z ≥ z_obs), z the unpooled Wald statistic (|z| ≥ |z_obs| two-sided)",
-		"p = sup over the common π of P(Fisher p ≤ observed Fisher p)",
-	}[d.Statistic]
-	cite := [...]string{
-		"Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138; score ordering: Suissa S, Shuster JJ (1985). J R Stat Soc A 148:317–327; non-zero margin: Chan ISF (1998). Stat Med 17:1403–1413.",
-		"Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138.",
-		"Boschloo RD (1970). Raised conditional level of significance for the 2×2-table when testing the equality of two probabilities. Statistica Neerlandica 24:1–35.",
-	}[d.Statistic]
+	key, name, def, cite := unconditionalNames(d)
+	return TestMethod{
+		Key: key, Name: name, Citation: cite, Definition: def,
+		Scale: Difference, Margins: d.Statistic != FisherPValue, Exact: true,
+		TrialLimit: unconditionalTrialLimit,
+		Check:      checkUnconditionalSize,
+		Run:        unconditionalRunner(d),
+	}, nil
+}
+
+// The published descriptions of the three orderings; the registered tests
+// and NewUnconditionalTest share them, so a variant has one name.
+const (
+	citeBarnardScore  = "Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138; score ordering: Suissa S, Shuster JJ (1985). J R Stat Soc A 148:317–327; non-zero margin: Chan ISF (1998). Stat Med 17:1403–1413."
+	citeBarnardWald   = "Barnard GA (1947). Significance tests for 2×2 tables. Biometrika 34:123–138."
+	citeBoschloo      = "Boschloo RD (1970). Raised conditional level of significance for the 2×2-table when testing the equality of two probabilities. Statistica Neerlandica 24:1–35."
+	defBarnardScore   = "p = sup over the common π of P(z ≥ z_obs), z the pooled score statistic (|z| ≥ |z_obs| two-sided)"
+	defBarnardWald    = "p = sup over the common π of P(z ≥ z_obs), z the unpooled Wald statistic (|z| ≥ |z_obs| two-sided)"
+	defBoschloo       = "p = sup over the common π of P(Fisher p ≤ observed Fisher p)"
+	doubledName       = ", doubled one-sided"
+	doubledDefinition = "; two-sided p = min(1, 2·smaller one-sided p)"
+)
+
+// unconditionalNames returns the registry key (in the "-test" scheme),
+// display name, definition and citation of a valid variant.
+func unconditionalNames(d UnconditionalVariant) (key, name, def, cite string) {
+	key = [...]string{"barnard", "barnard-wald", "boschloo"}[d.Statistic]
+	name = [...]string{"Barnard (score)", "Barnard (Wald)", "Boschloo"}[d.Statistic]
+	def = [...]string{defBarnardScore, defBarnardWald, defBoschloo}[d.Statistic]
+	cite = [...]string{citeBarnardScore, citeBarnardWald, citeBoschloo}[d.Statistic]
 	if d.TwoSided == TwoSidedDoubled {
-		key, name, def = key+"-doubled", name+", doubled", def+"; two-sided p = min(1, 2·smaller one-sided p)"
+		key, name, def = key+"-doubled", name+doubledName, def+doubledDefinition
 	}
 	if d.BergerBoosGamma > 0 {
 		g := strconv.FormatFloat(d.BergerBoosGamma, 'g', -1, 64)
@@ -150,13 +175,13 @@ func NewUnconditionalTest(d UnconditionalDesign) (TestMethod, error) {
 		def += "; supremum over a 1−γ Clopper–Pearson interval for the nuisance parameter, plus γ"
 		cite += " Berger RL, Boos DD (1994). P values maximised over a confidence set for the nuisance parameter. JASA 89:1012–1016."
 	}
-	return TestMethod{
-		Key: key, Name: name, Citation: cite, Definition: def,
-		Family: Difference, Margins: d.Statistic != FisherPValue, Exact: true,
-		SizeLimit: unconditionalSizeLimit,
-		Check:     checkUnconditionalSize,
-		Run:       func(c Counts, h Hypothesis) TestResult { return runUnconditional(c, h, d, key, name) },
-	}, nil
+	return key + "-test", name, def, cite
+}
+
+// unconditionalRunner returns the Run function of a variant.
+func unconditionalRunner(d UnconditionalVariant) func(c Counts, h Hypothesis) TestResult {
+	key, name, _, _ := unconditionalNames(d)
+	return func(c Counts, h Hypothesis) TestResult { return runUnconditional(c, h, d, key, name) }
 }
 
 // checkUnconditionalSize refuses designs above UnconditionalMaxTables.
@@ -172,8 +197,8 @@ func checkUnconditionalSize(c Counts) error {
 // Test refuses through Check) it returns p = 1 — a valid but uninformative
 // p-value — with the statistic name saying it was not computed, so direct
 // callers of Run never hang.
-func runUnconditional(c Counts, h Hypothesis, d UnconditionalDesign, key, name string) TestResult {
-	r := TestResult{Method: key, Name: name, Family: Difference}
+func runUnconditional(c Counts, h Hypothesis, d UnconditionalVariant, key, name string) TestResult {
+	r := TestResult{Method: key, MethodName: name, Scale: Difference}
 	if checkUnconditionalSize(c) != nil {
 		r.StatisticName = "not computed (design too large)"
 		r.PValue, r.LogPValue = 1, 0
@@ -212,7 +237,7 @@ func runUnconditional(c Counts, h Hypothesis, d UnconditionalDesign, key, name s
 // unconditionalSide returns the log of the maximised tail probability for
 // one region, the nuisance value π2 where it is attained, and the observed
 // ordering statistic.
-func unconditionalSide(c Counts, delta float64, d UnconditionalDesign, side regionSide) (logp, nuisance, stat float64) {
+func unconditionalSide(c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat float64) {
 	var reg region
 	switch d.Statistic {
 	case FisherPValue:

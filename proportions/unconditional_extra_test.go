@@ -92,7 +92,7 @@ func runShape(r region, side regionSide) string {
 func TestUnconditionalTinyP(t *testing.T) {
 	c := Counts{800, 800, 0, 800}
 	want := -1599 * math.Ln2
-	for _, m := range []TestMethod{Barnard, BarnardWald, Boschloo} {
+	for _, m := range []TestMethod{BarnardTest, BarnardWaldTest, BoschlooTest} {
 		r, err := m.Test(c)
 		if err != nil {
 			t.Fatal(err)
@@ -111,7 +111,7 @@ func TestUnconditionalTinyP(t *testing.T) {
 // p = 1: the documented answer, never NaN.
 func TestUnconditionalZeroMargin(t *testing.T) {
 	for _, c := range []Counts{{0, 12, 0, 9}, {12, 12, 9, 9}} {
-		for _, m := range []TestMethod{Barnard, BarnardWald, Boschloo, BoschlooDoubled} {
+		for _, m := range []TestMethod{BarnardTest, BarnardWaldTest, BoschlooTest, BoschlooDoubledTest} {
 			for _, a := range []Alternative{TwoSided, Greater, Less} {
 				r, err := m.Test(c, WithAlternative(a))
 				if err != nil || r.PValue != 1 || r.LogPValue != 0 || math.IsNaN(r.Statistic) || r.Nuisance == nil {
@@ -130,8 +130,8 @@ func TestBoschlooNotAboveFisher(t *testing.T) {
 		for x2 := int64(0); x2 <= 11; x2++ {
 			c := Counts{x1, 9, x2, 11}
 			for _, a := range []Alternative{Greater, Less} {
-				b, _ := Boschloo.Test(c, WithAlternative(a))
-				f, _ := Fisher.Test(c, WithAlternative(a))
+				b, _ := BoschlooTest.Test(c, WithAlternative(a))
+				f, _ := FisherTest.Test(c, WithAlternative(a))
 				if b.PValue > f.PValue*(1+1e-12) {
 					t.Errorf("%v %v: Boschloo %v above Fisher %v", c, a, b.PValue, f.PValue)
 				}
@@ -145,7 +145,7 @@ func TestBoschlooNotAboveFisher(t *testing.T) {
 // interval of the pooled proportion (dense grid) plus γ.
 func TestBergerBoos(t *testing.T) {
 	const gamma = 0.001
-	m, err := NewUnconditionalTest(UnconditionalDesign{Statistic: PooledScore, BergerBoosGamma: gamma})
+	m, err := NewUnconditionalTest(UnconditionalVariant{Statistic: PooledScore, BergerBoosGamma: gamma})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -168,10 +168,10 @@ func TestBergerBoos(t *testing.T) {
 			t.Errorf("%v: supremum at %v outside the interval [%v, %v]", c, n, lo, hi)
 		}
 	}
-	if _, err := NewUnconditionalTest(UnconditionalDesign{BergerBoosGamma: 0.5}); !errors.Is(err, ErrUnsupported) {
+	if _, err := NewUnconditionalTest(UnconditionalVariant{BergerBoosGamma: 0.5}); !errors.Is(err, ErrUnsupported) {
 		t.Errorf("γ = 0.5 accepted: %v", err)
 	}
-	if _, err := NewUnconditionalTest(UnconditionalDesign{Statistic: 7}); !errors.Is(err, ErrUnsupported) {
+	if _, err := NewUnconditionalTest(UnconditionalVariant{Statistic: 7}); !errors.Is(err, ErrUnsupported) {
 		t.Errorf("unknown statistic accepted: %v", err)
 	}
 }
@@ -183,7 +183,7 @@ func TestBarnardMargin(t *testing.T) {
 	for _, c := range []Counts{{7, 10, 5, 12}, {2, 9, 6, 8}} {
 		for _, d := range []float64{-0.3, 0.2} {
 			for _, a := range []Alternative{Greater, Less, TwoSided} {
-				r, err := Barnard.Test(c, WithNull(d), WithAlternative(a))
+				r, err := BarnardTest.Test(c, WithNull(d), WithAlternative(a))
 				if err != nil {
 					t.Fatal(err)
 				}
@@ -194,7 +194,7 @@ func TestBarnardMargin(t *testing.T) {
 			}
 		}
 	}
-	if _, err := Boschloo.Test(Counts{3, 10, 5, 10}, WithNull(0.1)); !errors.Is(err, ErrUnsupported) {
+	if _, err := BoschlooTest.Test(Counts{3, 10, 5, 10}, WithNull(0.1)); !errors.Is(err, ErrUnsupported) {
 		t.Errorf("Boschloo with a margin: %v", err)
 	}
 }
@@ -203,7 +203,7 @@ func TestBarnardMargin(t *testing.T) {
 // UnconditionalMaxTables with ErrTooLarge, and Run returns at once.
 func TestUnconditionalTooLarge(t *testing.T) {
 	c := Counts{300000, 1000000, 310000, 1000000}
-	for _, m := range []TestMethod{Barnard, Boschloo} {
+	for _, m := range []TestMethod{BarnardTest, BoschlooTest} {
 		if _, err := m.Test(c); !errors.Is(err, ErrTooLarge) {
 			t.Errorf("%s: %v", m.Key, err)
 		}

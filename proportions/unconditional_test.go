@@ -116,7 +116,7 @@ func (bt bruteTail) dense(k int) (best, where float64) {
 }
 
 func designFor(s OrderingStatistic, rule TwoSidedRule) TestMethod {
-	m, err := NewUnconditionalTest(UnconditionalDesign{Statistic: s, TwoSided: rule})
+	m, err := NewUnconditionalTest(UnconditionalVariant{Statistic: s, TwoSided: rule})
 	if err != nil {
 		panic(err)
 	}
@@ -162,7 +162,7 @@ func TestUnconditionalBruteForce(t *testing.T) {
 // real tail value: the brute-force tail at the reported nuisance value
 // confirms it (checked for n ≤ 100 here; larger ones by the dense test).
 func TestUnconditionalReference(t *testing.T) {
-	methods := map[string]TestMethod{"barnard": Barnard, "barnard-wald": BarnardWald, "boschloo": Boschloo, "boschloo-doubled": BoschlooDoubled}
+	methods := map[string]TestMethod{"barnard-test": BarnardTest, "barnard-wald-test": BarnardWaldTest, "boschloo-test": BoschlooTest, "boschloo-doubled-test": BoschlooDoubledTest}
 	n := 0
 	for _, c := range loadExactChecks(t) {
 		m, ok := methods[c.Test]
@@ -182,10 +182,10 @@ func TestUnconditionalReference(t *testing.T) {
 			continue
 		}
 		t.Logf("%s: p = %.12g above the reference %.12g (relative %.2g); confirming", c.ID, r.PValue, c.P, r.PValue/c.P-1)
-		if c.N1+c.N2 > 200 || c.Test == "boschloo-doubled" || c.Alternative == "two-sided" && c.Test == "boschloo" {
+		if c.N1+c.N2 > 200 || c.Test == "boschloo-doubled-test" || c.Alternative == "two-sided" && c.Test == "boschloo-test" {
 			continue
 		}
-		st := map[string]OrderingStatistic{"barnard": PooledScore, "barnard-wald": UnpooledWald, "boschloo": FisherPValue}[c.Test]
+		st := map[string]OrderingStatistic{"barnard-test": PooledScore, "barnard-wald-test": UnpooledWald, "boschloo-test": FisherPValue}[c.Test]
 		side := map[string]regionSide{"greater": sideGreater, "less": sideLess, "two-sided": sideBoth}[c.Alternative]
 		if at := newBruteTail(c.counts(), st, side).at(*r.Nuisance); math.Abs(at-r.PValue) > 1e-9*r.PValue {
 			t.Errorf("%s: p = %.12g not confirmed: brute-force tail at π = %v is %.12g", c.ID, r.PValue, *r.Nuisance, at)

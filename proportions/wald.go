@@ -14,7 +14,7 @@ import "math"
 var Wald = IntervalMethod{
 	Key:        "wald",
 	Name:       "Wald",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Newcombe RG (1998). Interval estimation for the difference between independent proportions: comparison of eleven methods. Statistics in Medicine 17:873–890 (method 1).",
 	Definition: "p1 − p2 ± z·√(p1(1−p1)/n1 + p2(1−p2)/n2)",
 	Symmetric:  true,

@@ -12,7 +12,7 @@ package proportions
 var WaldCC = IntervalMethod{
 	Key:        "wald-cc",
 	Name:       "Wald with continuity correction",
-	Family:     Difference,
+	Scale:      Difference,
 	Citation:   "Newcombe RG (1998). Interval estimation for the difference between independent proportions: comparison of eleven methods. Statistics in Medicine 17:873–890 (method 2).",
 	Definition: "p1 − p2 ± (z·√(p1(1−p1)/n1 + p2(1−p2)/n2) + (1/n1 + 1/n2)/2)",
 	Symmetric:  true,

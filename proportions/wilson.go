@@ -15,8 +15,8 @@ import "math"
 // Boundary rule: the formula gives lower = 0 at x = 0 and upper = 1 at x = n
 // in exact arithmetic; the limits are set to those values exactly so that
 // rounding cannot put them a hair outside [0, 1].
-var Wilson = ProportionMethod{
-	Key:        "wilson",
+var Wilson = RateMethod{
+	Key:        "wilson-rate",
 	Name:       "Wilson score",
 	Citation:   "Wilson EB (1927). Probable inference, the law of succession, and statistical inference. Journal of the American Statistical Association 22:209–212.",
 	Definition: "(x + z²/2 ± z·√(x(n−x)/n + z²/4)) / (n + z²): the π not rejected by the score test |p − π|/√(π(1−π)/n) ≤ z",

@@ -18,8 +18,8 @@ import "math"
 // used there: its square root can be negative at low levels). For
 // 1 ≤ x ≤ n−1 the formula itself stays inside [0, 1] (at x = 1 the lower
 // limit's numerator squared exceeds the root's square by 1 + z²/n).
-var WilsonCC = ProportionMethod{
-	Key:        "wilson-cc",
+var WilsonCC = RateMethod{
+	Key:        "wilson-cc-rate",
 	Name:       "Wilson score with continuity correction",
 	Citation:   "Newcombe RG (1998). Two-sided confidence intervals for the single proportion: comparison of seven methods. Statistics in Medicine 17:857–872 (method 4).",
 	Definition: "the π with |p − π| − 1/(2n) ≤ z·√(π(1−π)/n); closed form (2x + z² ∓ 1 ∓ z·√(z² ∓ 2 − 1/n + 4p(n(1−p) ± 1)))/(2(n + z²)), lower 0 at x = 0, upper 1 at x = n",

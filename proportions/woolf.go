@@ -16,9 +16,9 @@ import "math"
 // reported as the whole range [0, ∞]; use the Gart-adjusted, score or exact
 // intervals there.
 var Woolf = IntervalMethod{
-	Key:        "woolf",
+	Key:        "woolf-odds-ratio",
 	Name:       "Woolf logit",
-	Family:     OddsRatio,
+	Scale:      OddsRatio,
 	Symmetric:  true,
 	Citation:   "Woolf B (1955). On estimating the relation between blood group and disease. Annals of Human Genetics 19:251–253.",
 	Definition: "exp(log(ad/(bc)) ± z·√(1/a + 1/b + 1/c + 1/d)) with a = x1, b = n1 − x1, c = x2, d = n2 − x2; [0, ∞] when a cell is zero",

@@ -2,7 +2,7 @@ package proportions
 
 import "math"
 
-// Yates is Pearson's chi-square test with Yates' continuity correction:
+// YatesTest is Pearson's chi-square test with Yates' continuity correction:
 // each cell's deviation is shrunk by ½ towards 0, never past it,
 //
 //	X²_Y = Σ max(0, |O − E| − ½)² / E,
@@ -18,12 +18,12 @@ import "math"
 // loses power against the uncorrected test, which keeps close to α. It is
 // offered for users whose protocols prescribe it. The one-sided and
 // degenerate conventions are those of PearsonChiSquare.
-var Yates = TestMethod{
-	Key:                 "yates",
+var YatesTest = TestMethod{
+	Key:                 "yates-test",
 	Name:                "Chi-square with Yates' correction",
 	Citation:            "Yates F (1934). Contingency tables involving small numbers and the χ² test. Supplement to the Journal of the Royal Statistical Society 1:217–235.",
 	Definition:          "X²_Y = Σ max(0, |O − E| − ½)²/E over the four cells; χ² with 1 df (signed root for one-sided alternatives)",
-	Family:              Difference,
+	Scale:               Difference,
 	ContinuityCorrected: true,
 	Run:                 yatesRun,
 }
@@ -31,5 +31,5 @@ var Yates = TestMethod{
 func yatesRun(c Counts, h Hypothesis) TestResult {
 	d, recip := tableDeviation(c)
 	shrunk := math.Max(0, math.Abs(d)-0.5)
-	return chiSquareResult(shrunk*shrunk*recip, d, h, "yates", "Chi-square with Yates' correction", "X²")
+	return chiSquareResult(shrunk*shrunk*recip, d, h, "yates-test", "Chi-square with Yates' correction", "X²")
 }

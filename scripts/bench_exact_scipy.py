@@ -32,9 +32,9 @@ ABSOLUTE = {"chan-zhang-100": 0.2, "agresti-min-100": 0.2}
 
 
 def scipy_call(case, t):
-    if case.startswith("fisher"):
+    if case.startswith("fisher-test"):
         return lambda: stats.fisher_exact(t, alternative="two-sided").pvalue
-    if case.startswith("barnard"):
+    if case.startswith("barnard-test"):
         return lambda: stats.barnard_exact(t, alternative="two-sided").pvalue
     return lambda: stats.boschloo_exact(t, alternative="two-sided").pvalue
 

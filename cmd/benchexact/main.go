@@ -56,10 +56,10 @@ func main() {
 	only := flag.String("case", "", "run only this case")
 	flag.Parse()
 	cases := []benchCase{
-		testCase("fisher-10000", proportions.Fisher, 10000),
-		testCase("barnard-800", proportions.Barnard, 800),
-		testCase("boschloo-doubled-400", proportions.BoschlooDoubled, 400),
-		testCase("boschloo-400", proportions.Boschloo, 400),
+		testCase("fisher-10000", proportions.FisherTest, 10000),
+		testCase("barnard-800", proportions.BarnardTest, 800),
+		testCase("boschloo-doubled-400", proportions.BoschlooDoubledTest, 400),
+		testCase("boschloo-400", proportions.BoschlooTest, 400),
 		intervalCase("chan-zhang-100", proportions.ChanZhang, 100),
 		intervalCase("agresti-min-100", proportions.AgrestiMin, 100),
 	}

@@ -34,21 +34,21 @@ const checkGrid = 21
 // Above CheckLimit trials in a group it adds nothing and returns nil.
 func CheckAnalysis(ctx context.Context, a *proportions.Analysis) error {
 	n1, n2 := a.Comparison.First.Trials, a.Comparison.Second.Trials
-	if n1 > CheckLimit || n2 > CheckLimit || len(a.Intervals) == 0 {
+	if n1 > CheckLimit || n2 > CheckLimit || len(a.DifferenceIntervals) == 0 {
 		return nil
 	}
-	level := a.Intervals[0].Level
+	level := a.DifferenceIntervals[0].Level
 	d, err := NewDesign(int(n1), int(n2), level)
 	if err != nil {
 		return err
 	}
 	region, grid1, grid2 := plausibleRegion(a)
-	for _, iv := range a.Intervals {
+	for _, iv := range a.DifferenceIntervals {
 		m, err := proportions.LookupInterval(iv.Method)
 		if err != nil || m.Exact {
 			continue
 		}
-		t, err := NewTable(ctx, m, d)
+		t, err := NewOutcomeLimits(ctx, m, d)
 		if err != nil {
 			return err
 		}

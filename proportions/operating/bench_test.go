@@ -34,7 +34,7 @@ func benchSurface(b *testing.B, m proportions.IntervalMethod, n int) {
 	b.ReportAllocs()
 	var s *Surface
 	for b.Loop() {
-		t, err := NewTable(context.Background(), m, d)
+		t, err := NewOutcomeLimits(context.Background(), m, d)
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -49,7 +49,7 @@ func benchSurface(b *testing.B, m proportions.IntervalMethod, n int) {
 func BenchmarkWaldTable500(b *testing.B) {
 	d := Design{N1: 500, N2: 500, Level: 0.95}
 	for b.Loop() {
-		if _, err := NewTable(context.Background(), proportions.Wald, d); err != nil {
+		if _, err := NewOutcomeLimits(context.Background(), proportions.Wald, d); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -64,7 +64,7 @@ func BenchmarkMemory1000(b *testing.B) {
 		runtime.GC()
 		var before runtime.MemStats
 		runtime.ReadMemStats(&before)
-		t, err := NewTable(context.Background(), proportions.Wald, d)
+		t, err := NewOutcomeLimits(context.Background(), proportions.Wald, d)
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -84,7 +84,7 @@ func BenchmarkMemory1000(b *testing.B) {
 // BenchmarkPower300 times one exact power evaluation of Fisher's test at
 // 300 per group, the unit of a sample-size search.
 func BenchmarkPower300(b *testing.B) {
-	fisher, err := proportions.LookupTest("fisher")
+	fisher, err := proportions.LookupTest("fisher-test")
 	if err != nil {
 		b.Skip("Fisher's test not registered")
 	}

@@ -3,6 +3,7 @@ package operating
 import (
 	"context"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -14,13 +15,13 @@ import (
 // computation of what the engine returns.
 func bruteCoverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) Point {
 	conf, _ := proportions.NewConfidence(d.Level)
-	theta, ok := Truth(m.Family, pi1, pi2)
+	theta, ok := Truth(m.Scale, pi1, pi2)
 	if !ok {
 		return undefinedPoint(pi1, pi2)
 	}
 	b1 := distuv.Binomial{N: float64(d.N1), P: pi1}
 	b2 := distuv.Binomial{N: float64(d.N2), P: pi2}
-	blo, bhi := m.Family.Bounds()
+	blo, bhi := m.Scale.Bounds()
 	var p Point
 	var bounded float64
 	for x1 := 0; x1 <= d.N1; x1++ {
@@ -36,7 +37,7 @@ func bruteCoverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) Poi
 				p.Coverage += w
 			}
 			rlo, rhi := max(lo, blo), min(hi, bhi)
-			if m.Family == proportions.Difference {
+			if m.Scale == proportions.Difference {
 				p.Width += w * (rhi - rlo)
 			} else if rlo > 0 && !math.IsInf(rhi, 1) {
 				p.Width += w * math.Log(rhi/rlo)
@@ -46,7 +47,7 @@ func bruteCoverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) Poi
 			}
 		}
 	}
-	if m.Family != proportions.Difference {
+	if m.Scale != proportions.Difference {
 		// The documented convention: +Inf when every interval is unbounded.
 		if bounded > 0 {
 			p.Width /= bounded
@@ -81,7 +82,7 @@ func b2f(v bool) float64 {
 // and the covered outcomes form several runs: the general case the engine
 // must handle exactly.
 var zigzag = proportions.IntervalMethod{
-	Key: "zigzag", Name: "zigzag (test only)", Family: proportions.Difference,
+	Key: "zigzag", Name: "zigzag (test only)", Scale: proportions.Difference,
 	Limits: func(c proportions.Counts, conf proportions.Confidence) (float64, float64) {
 		d := c.P1() - c.P2()
 		h1 := 0.05 + 0.15*math.Abs(math.Sin(7*float64(c.X1)+3*float64(c.X2)))
@@ -93,7 +94,7 @@ var zigzag = proportions.IntervalMethod{
 // zigzagRatio does the same on the ratio scale, with unbounded intervals
 // at zero counts.
 var zigzagRatio = proportions.IntervalMethod{
-	Key: "zigzag-ratio", Name: "zigzag ratio (test only)", Family: proportions.Ratio,
+	Key: "zigzag-ratio", Name: "zigzag ratio (test only)", Scale: proportions.Ratio,
 	Limits: func(c proportions.Counts, conf proportions.Confidence) (float64, float64) {
 		if c.X2 == 0 {
 			return 0.5 * float64(c.X1) / float64(c.N1), math.Inf(1)
@@ -144,11 +145,11 @@ func closePoints(t *testing.T, what string, got, want Point, tol float64) {
 // designs, at rates that include 0, 1 and points where ratio truths are
 // 0, ∞ or undefined.
 func TestAgainstBruteForce(t *testing.T) {
-	methods := append(proportions.AllIntervalMethods(), zigzag, zigzagRatio)
+	methods := append(slices.Concat(proportions.EnumerableIntervalMethods(proportions.Difference), proportions.EnumerableIntervalMethods(proportions.Ratio), proportions.EnumerableIntervalMethods(proportions.OddsRatio)), zigzag, zigzagRatio)
 	grid := []float64{0, 0.003, 0.1, 0.25, 0.5, 0.5, 0.77, 0.95, 1}
 	for _, d := range []Design{{N1: 7, N2: 11, Level: 0.95}, {N1: 20, N2: 13, Level: 0.9}, {N1: 10, N2: 10, Level: 0.95}} {
 		for _, m := range methods {
-			tab, err := NewTable(context.Background(), m, d)
+			tab, err := NewOutcomeLimits(context.Background(), m, d)
 			if err != nil {
 				t.Fatalf("%s %v: %v", m.Key, d, err)
 			}
@@ -185,7 +186,7 @@ func TestAgainstBruteForce(t *testing.T) {
 // exact (TestAgainstBruteForce).
 func TestPiecesAndRuns(t *testing.T) {
 	d := Design{N1: 200, N2: 200, Level: 0.95}
-	wald, err := NewTable(context.Background(), proportions.Wald, d)
+	wald, err := NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -195,17 +196,17 @@ func TestPiecesAndRuns(t *testing.T) {
 	// What the registered methods look like (logged with -v): the rows
 	// of the usual methods are single pieces but for a few near zero counts.
 	small := Design{N1: 60, N2: 60, Level: 0.95}
-	for _, m := range proportions.AllIntervalMethods() {
-		if m.SizeLimit > 0 && int64(small.N1+small.N2) > m.SizeLimit {
+	for _, m := range slices.Concat(proportions.EnumerableIntervalMethods(proportions.Difference), proportions.EnumerableIntervalMethods(proportions.Ratio), proportions.EnumerableIntervalMethods(proportions.OddsRatio)) {
+		if m.TrialLimit > 0 && int64(small.N1+small.N2) > m.TrialLimit {
 			continue
 		}
-		tab, err := NewTable(context.Background(), m, small)
+		tab, err := NewOutcomeLimits(context.Background(), m, small)
 		if err != nil {
 			t.Fatal(err)
 		}
 		t.Logf("%-22s %v: %d pieces in %d rows", m.Key, small, tab.Pieces(), small.N1+1)
 	}
-	zz, err := NewTable(context.Background(), zigzag, d)
+	zz, err := NewOutcomeLimits(context.Background(), zigzag, d)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -14,7 +14,7 @@ import (
 // through all three routes: the single-point enumeration, a Table point and
 // the default 101×101 surface with its grid mean.
 func TestWaldCoverageSciPy(t *testing.T) {
-	tables := map[[2]int]*Table{}
+	tables := map[[2]int]*OutcomeLimits{}
 	surfaces := map[[2]int]*Surface{}
 	for _, c := range loadReference(t) {
 		if c.Method != "wald" || c.Status != "reference-library" {
@@ -23,7 +23,7 @@ func TestWaldCoverageSciPy(t *testing.T) {
 		d := Design{N1: c.N1, N2: c.N2, Level: c.Level}
 		key := [2]int{c.N1, c.N2}
 		if tables[key] == nil {
-			tab, err := NewTable(context.Background(), proportions.Wald, d)
+			tab, err := NewOutcomeLimits(context.Background(), proportions.Wald, d)
 			if err != nil {
 				t.Fatal(err)
 			}

@@ -7,10 +7,10 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// MaxGroupSize is the largest number of trials per group that the engine
-// accepts. A [Table] stores two limits and a width per outcome,
+// MaxDesignTrials is the largest number of trials per group that the engine
+// accepts. An [OutcomeLimits] stores two limits and a width per outcome,
 // 24·(n1+1)·(n2+1) bytes: 24 MB at 1000 per group, 96 MB at 2000.
-const MaxGroupSize = 2000
+const MaxDesignTrials = 2000
 
 // Design is a study design: N1 trials in the first group, N2 in the
 // second, and the two-sided confidence level of the intervals (tests use
@@ -48,8 +48,8 @@ func validateSizes(n1, n2 int) error {
 		switch {
 		case n < 1:
 			return fmt.Errorf("%s group: %d trials: %w; a design needs at least 1 trial per group", which, n, proportions.ErrNoTrials)
-		case n > MaxGroupSize:
-			return fmt.Errorf("%s group: %d trials: %w; exact operating characteristics are computed for at most %d trials per group", which, n, proportions.ErrTooLarge, MaxGroupSize)
+		case n > MaxDesignTrials:
+			return fmt.Errorf("%s group: %d trials: %w; exact operating characteristics are computed for at most %d trials per group", which, n, proportions.ErrTooLarge, MaxDesignTrials)
 		}
 	}
 	return nil
@@ -65,7 +65,7 @@ func validateRates(pi1, pi2 float64) error {
 
 func validateRate(name string, pi float64) error {
 	if !(pi >= 0 && pi <= 1) {
-		return fmt.Errorf("%s = %v: %w; a success rate must lie between 0 and 1", name, pi, proportions.ErrDesign)
+		return fmt.Errorf("%s = %v: %w; a success rate must lie between 0 and 1", name, pi, proportions.ErrPlan)
 	}
 	return nil
 }

@@ -17,7 +17,7 @@
 //
 // # How it is fast
 //
-// A [Table] computes each interval once per outcome of the design (memory
+// An [OutcomeLimits] computes each interval once per outcome of the design (memory
 // O(n1·n2)), on every core; for a method declared Symmetric in the
 // registry it computes one outcome of each mirror set and copies the rest
 // (a quarter of the outcomes when n1 = n2). Along a row x1, the limits of
@@ -34,9 +34,9 @@
 //
 //   - [Coverage]: coverage, the two sides of non-coverage and the expected
 //     width at one (π1, π2), without building a table.
-//   - [NewTable], then [Table.Surface] (a grid, 101 × 101 by default),
-//     [Table.AlongEffect] (a fixed true difference, ratio or odds ratio),
-//     [Table.AlongFirst] (a fixed π2) and [Table.At]; [Surface.Summary] and
+//   - [NewOutcomeLimits], then [OutcomeLimits.Surface] (a grid, 101 × 101 by default),
+//     [OutcomeLimits.AlongEffect] (a fixed true difference, ratio or odds ratio),
+//     [OutcomeLimits.AlongFirst] (a fixed π2) and [OutcomeLimits.At]; [Surface.Summary] and
 //     [Surface.RegionSummary] condense a surface.
 //   - [Power] and [Decision.Power]: exact power of a test at one (π1, π2),
 //     computed on the outcomes that matter there (what a sample-size search

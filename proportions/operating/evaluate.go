@@ -37,7 +37,7 @@ type pair struct{ i, j int32 }
 
 // evaluation holds the binomials of the distinct rates of a set of points.
 type evaluation struct {
-	t       *Table
+	t       *OutcomeLimits
 	queries []query // points with a defined truth, by ascending θ
 	pi1     []float64
 	pi2     []float64
@@ -59,7 +59,7 @@ type result struct {
 // evaluate computes the points (pi1[i], pi2[j]) for the given pairs, in
 // parallel, and returns them in the order of pairs (undefined truths as
 // undefinedPoint). Rates must be valid.
-func (t *Table) evaluate(ctx context.Context, pi1, pi2 []float64, pairs []pair, cfg config) ([]Point, error) {
+func (t *OutcomeLimits) evaluate(ctx context.Context, pi1, pi2 []float64, pairs []pair, cfg config) ([]Point, error) {
 	ev := t.newEvaluation(pi1, pi2, pairs)
 	err := parallel(ctx, cfg.workers, len(ev.seconds), func(j int) error {
 		ev.widthSums(j)
@@ -92,7 +92,7 @@ func (t *Table) evaluate(ctx context.Context, pi1, pi2 []float64, pairs []pair, 
 
 // newEvaluation computes the binomials of the rates and sorts the points
 // with a defined truth by truth.
-func (t *Table) newEvaluation(pi1, pi2 []float64, pairs []pair) *evaluation {
+func (t *OutcomeLimits) newEvaluation(pi1, pi2 []float64, pairs []pair) *evaluation {
 	ev := &evaluation{t: t, pi1: pi1, pi2: pi2,
 		firsts: make([]binomial, len(pi1)), seconds: make([]binomial, len(pi2)), cums: make([][]float64, len(pi2))}
 	buf1 := make([]float64, len(pi1)*(t.n1+1))
@@ -188,7 +188,7 @@ type pointers struct {
 	ready          []bool
 }
 
-func (t *Table) newPointers() *pointers {
+func (t *OutcomeLimits) newPointers() *pointers {
 	return &pointers{
 		a0: make([]int32, t.n1+1), b0: make([]int32, t.n1+1),
 		ax: make([]int32, len(t.cuts)), bx: make([]int32, len(t.cuts)),
@@ -217,7 +217,7 @@ func (ev *evaluation) run(from, to int) {
 
 // movePointers brings the runs of rows lo..hi to truth θ: by bisection
 // for a row new to the task, else by walking down from the previous truth.
-func (t *Table) movePointers(lo, hi int, theta float64, ps *pointers) {
+func (t *OutcomeLimits) movePointers(lo, hi int, theta float64, ps *pointers) {
 	lower, upper := t.lower, t.upper
 	a0, b0, ready := ps.a0, ps.b0, ps.ready
 	for x1 := lo; x1 <= hi; x1++ {
@@ -257,7 +257,7 @@ func (t *Table) movePointers(lo, hi int, theta float64, ps *pointers) {
 }
 
 // startRow places the runs of row x1 for θ by bisection.
-func (t *Table) startRow(x1 int, theta float64, ps *pointers) {
+func (t *OutcomeLimits) startRow(x1 int, theta float64, ps *pointers) {
 	ps.ready[x1] = true
 	base := x1 * t.stride
 	lower, upper := t.lower[base:base+t.stride], t.upper[base:base+t.stride]
@@ -327,7 +327,7 @@ func (ev *evaluation) point(q *query, ps *pointers) result {
 	return r
 }
 
-func (t *Table) family() proportions.Family { return t.method.Family }
+func (t *OutcomeLimits) family() proportions.Scale { return t.method.Scale }
 
 // amongBounded turns Σ P(x)·width(x) over bounded intervals into the
 // expected width among bounded intervals; +Inf when (up to rounding) every

@@ -28,9 +28,9 @@ func ExampleCoverage() {
 }
 
 // The coverage map of an interval over every pair of rates, summarised.
-func ExampleTable_Surface() {
+func ExampleOutcomeLimits_Surface() {
 	d, _ := operating.NewDesign(24, 30, 0.95)
-	tab, err := operating.NewTable(context.Background(), proportions.Wald, d)
+	tab, err := operating.NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -61,7 +61,7 @@ func ExampleRecommend() {
 	}
 	for _, r := range rec.Ranking {
 		if r.Method == "wald" {
-			fmt.Println(r.Name+":", r.Reason)
+			fmt.Println(r.MethodName+":", r.Reason)
 		}
 	}
 	// Output:
@@ -70,9 +70,9 @@ func ExampleRecommend() {
 
 // Coverage along the line of a true difference of 10 points, where a
 // germination trial would be planned.
-func ExampleTable_AlongEffect() {
+func ExampleOutcomeLimits_AlongEffect() {
 	d, _ := operating.NewDesign(40, 40, 0.95)
-	tab, err := operating.NewTable(context.Background(), proportions.AgrestiCaffo, d)
+	tab, err := operating.NewOutcomeLimits(context.Background(), proportions.AgrestiCaffo, d)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -94,7 +94,7 @@ func ExampleTable_AlongEffect() {
 
 // The exact power of a test for a planned study, and its actual size.
 func ExamplePower() {
-	fisher, err := proportions.LookupTest("fisher")
+	fisher, err := proportions.LookupTest("fisher-test")
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -107,7 +107,7 @@ func ExamplePower() {
 		return
 	}
 	fmt.Printf("exact power %.4f\n", power)
-	size, err := operating.Size(context.Background(), fisher, 60, 60, h)
+	size, err := operating.TypeIError(context.Background(), fisher, 60, 60, h)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -121,7 +121,7 @@ func ExamplePower() {
 // A rejection region built once gives the power at any pair of rates, for
 // a power curve: here Fisher's exact test, 40 patients per arm.
 func ExampleNewRejectionRegion() {
-	fisher, err := proportions.LookupTest("fisher")
+	fisher, err := proportions.LookupTest("fisher-test")
 	if err != nil {
 		fmt.Println(err)
 		return

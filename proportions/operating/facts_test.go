@@ -22,7 +22,7 @@ func TestFactsOfTheTrade(t *testing.T) {
 	nearOne := Region{Pi1Min: 0.9, Pi1Max: 0.99, Pi2Min: 0.9, Pi2Max: 0.99}
 	interior := Region{Pi1Min: 0.01, Pi1Max: 0.99, Pi2Min: 0.01, Pi2Max: 0.99}
 	summaries := func(m proportions.IntervalMethod) (zero, one, all Summary) {
-		tab, err := NewTable(context.Background(), m, d)
+		tab, err := NewOutcomeLimits(context.Background(), m, d)
 		if err != nil {
 			t.Fatal(err)
 		}

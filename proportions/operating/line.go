@@ -16,8 +16,8 @@ import (
 // At θ = no effect this is the line π1 = π2. Errors wrap
 // proportions.ErrMargin for θ outside the family's open parameter space
 // (−1 < δ < 1, 0 < ρ, ψ < ∞).
-func EffectLine(f proportions.Family, theta float64, k int) ([][2]float64, error) {
-	if f == proportions.Proportion {
+func EffectLine(f proportions.Scale, theta float64, k int) ([][2]float64, error) {
+	if f == proportions.SingleRate {
 		return nil, fmt.Errorf("effect line for one proportion: %w; use the difference, ratio or odds ratio", proportions.ErrUnsupported)
 	}
 	if err := proportions.ValidateNull(f, theta); err != nil {

@@ -90,7 +90,7 @@ func TestBinomialProbabilities(t *testing.T) {
 // widths "Infinity", and the JSON parses.
 func TestSurfaceJSONHasNoNaN(t *testing.T) {
 	m := zigzagRatio
-	tab, err := NewTable(context.Background(), m, Design{N1: 5, N2: 6, Level: 0.95})
+	tab, err := NewOutcomeLimits(context.Background(), m, Design{N1: 5, N2: 6, Level: 0.95})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -121,10 +121,10 @@ func TestCancellationAndProgress(t *testing.T) {
 	d := Design{N1: 60, N2: 60, Level: 0.95}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
-	if _, err := NewTable(ctx, proportions.Wald, d); !errors.Is(err, context.Canceled) {
+	if _, err := NewOutcomeLimits(ctx, proportions.Wald, d); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled NewTable: %v", err)
 	}
-	tab, err := NewTable(context.Background(), proportions.Wald, d)
+	tab, err := NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -150,7 +150,7 @@ func TestBadInput(t *testing.T) {
 	if _, err := NewDesign(0, 10, 0.95); !errors.Is(err, proportions.ErrNoTrials) {
 		t.Errorf("n1 = 0: %v", err)
 	}
-	if _, err := NewDesign(10, MaxGroupSize+1, 0.95); !errors.Is(err, proportions.ErrTooLarge) {
+	if _, err := NewDesign(10, MaxDesignTrials+1, 0.95); !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("n2 too large: %v", err)
 	}
 	if _, err := NewDesign(10, 10, 1); !errors.Is(err, proportions.ErrLevel) {
@@ -158,17 +158,17 @@ func TestBadInput(t *testing.T) {
 	}
 	d := Design{N1: 10, N2: 10, Level: 0.95}
 	for _, pi := range []float64{-0.1, 1.5, math.NaN()} {
-		if _, err := Coverage(proportions.Wald, d, pi, 0.5); !errors.Is(err, proportions.ErrDesign) {
+		if _, err := Coverage(proportions.Wald, d, pi, 0.5); !errors.Is(err, proportions.ErrPlan) {
 			t.Errorf("π1 = %v: %v", pi, err)
 		}
 	}
-	tab, _ := NewTable(context.Background(), proportions.Wald, d)
+	tab, _ := NewOutcomeLimits(context.Background(), proportions.Wald, d)
 	if _, err := tab.Surface(context.Background(), WithGrid(nil, []float64{0.5})); !errors.Is(err, proportions.ErrEmptyInput) {
 		t.Errorf("empty grid: %v", err)
 	}
-	bad := proportions.IntervalMethod{Key: "bad", Family: proportions.Difference,
+	bad := proportions.IntervalMethod{Key: "bad", Scale: proportions.Difference,
 		Limits: func(proportions.Counts, proportions.Confidence) (float64, float64) { return math.NaN(), 0 }}
-	if _, err := NewTable(context.Background(), bad, d); err == nil {
+	if _, err := NewOutcomeLimits(context.Background(), bad, d); err == nil {
 		t.Error("a method returning NaN must be reported")
 	}
 }

@@ -91,9 +91,9 @@ func undefinedPoint(pi1, pi2 float64) Point {
 
 // At returns the exact coverage, its two sides and the expected width at
 // (π1, π2). Each call costs O(n1·n2) for the expected width and
-// O((n1 + n2)·log n2) for the coverage; for many points use [Table.Surface]
+// O((n1 + n2)·log n2) for the coverage; for many points use [OutcomeLimits.Surface]
 // or the slices, which share that work.
-func (t *Table) At(pi1, pi2 float64) (Point, error) {
+func (t *OutcomeLimits) At(pi1, pi2 float64) (Point, error) {
 	if err := validateRates(pi1, pi2); err != nil {
 		return Point{}, err
 	}
@@ -108,7 +108,7 @@ func (t *Table) At(pi1, pi2 float64) (Point, error) {
 // design, with the two sides of non-coverage and the expected width (see
 // [Point]). It enumerates only the outcomes whose probability is not
 // negligible at (π1, π2) and calls the method once for each: use it for a
-// few points; for maps and slices build a [Table] once.
+// few points; for maps and slices build an [OutcomeLimits] once.
 func Coverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) (Point, error) {
 	if err := d.Validate(); err != nil {
 		return Point{}, err
@@ -116,21 +116,21 @@ func Coverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) (Point, 
 	if err := validateRates(pi1, pi2); err != nil {
 		return Point{}, err
 	}
-	if m.Limits == nil || m.Family == proportions.Proportion {
+	if m.Limits == nil || m.Scale == proportions.SingleRate {
 		return Point{}, fmt.Errorf("interval method %q: %w; use a registered method for the difference, ratio or odds ratio", m.Key, proportions.ErrUnsupported)
 	}
 	conf, err := proportions.NewConfidence(d.Level)
 	if err != nil {
 		return Point{}, err
 	}
-	theta, ok := Truth(m.Family, pi1, pi2)
+	theta, ok := Truth(m.Scale, pi1, pi2)
 	if !ok {
 		return undefinedPoint(pi1, pi2), nil
 	}
 	var b1, b2 binomial
 	b1.fill(d.N1, pi1, make([]float64, d.N1+1))
 	b2.fill(d.N2, pi2, make([]float64, d.N2+1))
-	blo, bhi := m.Family.Bounds()
+	blo, bhi := m.Scale.Bounds()
 	var r result
 	c := proportions.Counts{N1: int64(d.N1), N2: int64(d.N2)}
 	for x1 := b1.lo; x1 <= b1.hi; x1++ {
@@ -151,7 +151,7 @@ func Coverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) (Point, 
 			default:
 				r.cov += w
 			}
-			if m.Family == proportions.Difference {
+			if m.Scale == proportions.Difference {
 				r.width += w * (min(hi, bhi) - max(lo, blo))
 			} else if lw := logWidth(lo, hi); math.IsInf(lw, 1) {
 				r.unbounded += w
@@ -160,7 +160,7 @@ func Coverage(m proportions.IntervalMethod, d Design, pi1, pi2 float64) (Point, 
 			}
 		}
 	}
-	if m.Family != proportions.Difference {
+	if m.Scale != proportions.Difference {
 		r.width = amongBounded(r.width, r.unbounded)
 	}
 	return Point{Pi1: pi1, Pi2: pi2, Truth: theta, Defined: true,

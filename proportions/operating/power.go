@@ -42,12 +42,12 @@ func (d Decision) Validate() error {
 		if err := proportions.ValidateLevel(h.Conf.Level); err != nil {
 			return err
 		}
-		if err := proportions.ValidateNull(d.Test.Family, h.Null); err != nil {
+		if err := proportions.ValidateNull(d.Test.Scale, h.Null); err != nil {
 			return err
 		}
-		if !d.Test.Margins && h.Null != d.Test.Family.NoEffect() {
+		if !d.Test.Margins && h.Null != d.Test.Scale.NoEffect() {
 			return fmt.Errorf("%s with null %v: %w; this test is defined only for a null of %v",
-				d.Test.Name, h.Null, proportions.ErrUnsupported, d.Test.Family.NoEffect())
+				d.Test.Name, h.Null, proportions.ErrUnsupported, d.Test.Scale.NoEffect())
 		}
 	}
 	return nil

@@ -15,7 +15,7 @@ import (
 // |d̂ − δ| ≥ z·se, se > 0), a simple asymptotic test whose size is known
 // to exceed α at small n (common practice).
 var waldZ = proportions.TestMethod{
-	Key: "wald-z", Name: "Wald z (test only)", Family: proportions.Difference, Margins: true,
+	Key: "wald-z", Name: "Wald z (test only)", Scale: proportions.Difference, Margins: true,
 	Run: func(c proportions.Counts, h proportions.Hypothesis) proportions.TestResult {
 		p1, p2 := c.P1(), c.P2()
 		se := math.Sqrt(p1*(1-p1)/float64(c.N1) + p2*(1-p2)/float64(c.N2))
@@ -36,7 +36,7 @@ var waldZ = proportions.TestMethod{
 // firstOnly rejects when x1 ≥ 7, whatever x2: its power is the upper tail
 // of the first binomial, known in closed form from gonum's CDF.
 var firstOnly = proportions.TestMethod{
-	Key: "first-only", Name: "x1 ≥ 7 (test only)", Family: proportions.Difference,
+	Key: "first-only", Name: "x1 ≥ 7 (test only)", Scale: proportions.Difference,
 	Run: func(c proportions.Counts, h proportions.Hypothesis) proportions.TestResult {
 		return proportions.TestResult{Reject: c.X1 >= 7}
 	},
@@ -90,11 +90,11 @@ func TestPowerAgainstBruteForce(t *testing.T) {
 	n1, n2 := 12, 17
 	var decisions []Decision
 	for _, m := range append(proportions.Tests(), waldZ) {
-		if m.SizeLimit > 0 && int64(n1+n2) > m.SizeLimit {
+		if m.TrialLimit > 0 && int64(n1+n2) > m.TrialLimit {
 			continue
 		}
 		decisions = append(decisions, Decision{Test: m, Hypotheses: []proportions.Hypothesis{hypothesis(t, m)}})
-		if m.Margins && m.Family == proportions.Difference {
+		if m.Margins && m.Scale == proportions.Difference {
 			decisions = append(decisions, Decision{Test: m, Hypotheses: []proportions.Hypothesis{
 				hypothesis(t, m, proportions.WithNull(-0.2), proportions.WithAlternative(proportions.Greater), proportions.WithLevel(0.9)),
 				hypothesis(t, m, proportions.WithNull(0.2), proportions.WithAlternative(proportions.Less), proportions.WithLevel(0.9)),
@@ -155,10 +155,10 @@ func TestPowerClosedForm(t *testing.T) {
 func TestSizeOfExactTests(t *testing.T) {
 	n1, n2 := 15, 12
 	for _, m := range proportions.Tests() {
-		if !m.Exact || (m.SizeLimit > 0 && int64(n1+n2) > m.SizeLimit) {
+		if !m.Exact || (m.TrialLimit > 0 && int64(n1+n2) > m.TrialLimit) {
 			continue
 		}
-		s, err := Size(context.Background(), m, n1, n2, hypothesis(t, m), WithSteps(201))
+		s, err := TypeIError(context.Background(), m, n1, n2, hypothesis(t, m), WithSteps(201))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -166,7 +166,7 @@ func TestSizeOfExactTests(t *testing.T) {
 			t.Errorf("%s", s)
 		}
 	}
-	s, err := Size(context.Background(), waldZ, n1, n2, hypothesis(t, waldZ))
+	s, err := TypeIError(context.Background(), waldZ, n1, n2, hypothesis(t, waldZ))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,7 +184,7 @@ func TestPowerBadInput(t *testing.T) {
 	if _, err := Power(waldZ, 0, 5, h, 0.5, 0.5); !errors.Is(err, proportions.ErrNoTrials) {
 		t.Errorf("n1 = 0: %v", err)
 	}
-	if _, err := Power(waldZ, 5, 5, h, 0.5, 2); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := Power(waldZ, 5, 5, h, 0.5, 2); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("π2 = 2: %v", err)
 	}
 	bad := h
@@ -202,21 +202,21 @@ func TestPowerBadInput(t *testing.T) {
 // (scipy.stats.fisher_exact at every outcome; source and status in
 // testdata/reference/coverage.json).
 func TestFisherPowerSciPy(t *testing.T) {
-	fisher, err := proportions.LookupTest("fisher")
+	fisher, err := proportions.LookupTest("fisher-test")
 	if err != nil {
 		t.Skip("Fisher's test not registered")
 	}
 	h := hypothesis(t, fisher)
 	for _, c := range loadReference(t) {
-		if c.Method != "fisher" {
+		if c.Method != "fisher-test" {
 			continue
 		}
 		var got float64
 		if c.Pi1 != nil {
 			got, err = Power(fisher, c.N1, c.N2, h, *c.Pi1, *c.Pi2)
 		} else {
-			var s *SizeCurve
-			s, err = Size(context.Background(), fisher, c.N1, c.N2, h)
+			var s *TypeIErrorCurve
+			s, err = TypeIError(context.Background(), fisher, c.N1, c.N2, h)
 			if s != nil {
 				got = s.Max
 			}

@@ -29,9 +29,9 @@ const Criterion = "Coverage is computed exactly at every grid point with both ra
 
 // Ranked is one method's place in a recommendation.
 type Ranked struct {
-	Rank   int    `json:"rank"`
-	Method string `json:"method"`
-	Name   string `json:"name"`
+	Rank       int    `json:"rank"`
+	Method     string `json:"method"`
+	MethodName string `json:"method_name"`
 	// HoldsLevel: the lowest coverage is at least nominal − tolerance.
 	HoldsLevel bool    `json:"holds_level"`
 	Summary    Summary `json:"summary"`
@@ -41,9 +41,9 @@ type Ranked struct {
 
 // Skipped is a registered method left out of a recommendation, and why.
 type Skipped struct {
-	Method string `json:"method"`
-	Name   string `json:"name"`
-	Reason string `json:"reason"`
+	Method     string `json:"method"`
+	MethodName string `json:"method_name"`
+	Reason     string `json:"reason"`
 }
 
 // Recommendation ranks the interval methods of one family for a design
@@ -52,12 +52,12 @@ type Skipped struct {
 // study is run and does not invite choosing the method after seeing the
 // results.
 type Recommendation struct {
-	Design    Design             `json:"design"`
-	Family    proportions.Family `json:"family"`
-	Tolerance float64            `json:"tolerance"`
-	Criterion string             `json:"criterion"`
-	Ranking   []Ranked           `json:"ranking"`
-	Skipped   []Skipped          `json:"skipped,omitempty"`
+	Design    Design            `json:"design"`
+	Scale     proportions.Scale `json:"scale"`
+	Tolerance float64           `json:"tolerance"`
+	Criterion string            `json:"criterion"`
+	Ranking   []Ranked          `json:"ranking"`
+	Skipped   []Skipped         `json:"skipped,omitempty"`
 }
 
 // Best returns the first-ranked method (false when none was ranked).
@@ -72,12 +72,12 @@ func (r *Recommendation) Best() (Ranked, bool) {
 func (r *Recommendation) String() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Interval methods for the %s at %s, ranked by exact coverage (tolerance %s points):\n",
-		r.Family, r.Design, formatPoints(r.Tolerance))
+		r.Scale, r.Design, formatPoints(r.Tolerance))
 	for _, m := range r.Ranking {
-		fmt.Fprintf(&b, "%d. %s: %s\n", m.Rank, m.Name, m.Reason)
+		fmt.Fprintf(&b, "%d. %s: %s\n", m.Rank, m.MethodName, m.Reason)
 	}
 	for _, s := range r.Skipped {
-		fmt.Fprintf(&b, "not ranked: %s: %s\n", s.Name, s.Reason)
+		fmt.Fprintf(&b, "not ranked: %s: %s\n", s.MethodName, s.Reason)
 	}
 	return b.String()
 }
@@ -90,20 +90,20 @@ func (r *Recommendation) String() string {
 // WithProgress (methods done out of those ranked) and WithWorkers, and
 // stops with ctx's error when ctx is cancelled. Methods whose SizeLimit is
 // below n1 + n2 are listed as skipped.
-func Recommend(ctx context.Context, f proportions.Family, d Design, opts ...Option) (*Recommendation, error) {
+func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...Option) (*Recommendation, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
 	cfg := newConfig(opts)
 	if !(cfg.tolerance >= 0 && cfg.tolerance < d.Level) {
-		return nil, fmt.Errorf("tolerance %v: %w; use a value from 0 up to the level, such as 0.02", cfg.tolerance, proportions.ErrDesign)
+		return nil, fmt.Errorf("tolerance %v: %w; use a value from 0 up to the level, such as 0.02", cfg.tolerance, proportions.ErrPlan)
 	}
-	rec := &Recommendation{Design: d, Family: f, Tolerance: cfg.tolerance, Criterion: Criterion}
+	rec := &Recommendation{Design: d, Scale: f, Tolerance: cfg.tolerance, Criterion: Criterion}
 	var methods []proportions.IntervalMethod
-	for _, m := range proportions.IntervalMethods(f) {
-		if m.SizeLimit > 0 && int64(d.N1+d.N2) > m.SizeLimit {
+	for _, m := range proportions.EnumerableIntervalMethods(f) {
+		if m.TrialLimit > 0 && int64(d.N1+d.N2) > m.TrialLimit {
 			rec.Skipped = append(rec.Skipped, Skipped{m.Key, m.Name,
-				fmt.Sprintf("too slow for exact enumeration beyond %d trials in all (this design has %d)", m.SizeLimit, d.N1+d.N2)})
+				fmt.Sprintf("too slow for exact enumeration beyond %d trials in all (this design has %d)", m.TrialLimit, d.N1+d.N2)})
 			continue
 		}
 		methods = append(methods, m)
@@ -116,7 +116,7 @@ func Recommend(ctx context.Context, f proportions.Family, d Design, opts ...Opti
 	inner.progress = nil
 	innerOpts := []Option{func(c *config) { *c = inner }}
 	for _, m := range methods {
-		tab, err := NewTable(ctx, m, d, innerOpts...)
+		tab, err := NewOutcomeLimits(ctx, m, d, innerOpts...)
 		if err != nil {
 			return nil, err
 		}
@@ -125,7 +125,7 @@ func Recommend(ctx context.Context, f proportions.Family, d Design, opts ...Opti
 			return nil, err
 		}
 		sum := s.summarise(inside)
-		rec.Ranking = append(rec.Ranking, Ranked{Method: m.Key, Name: m.Name,
+		rec.Ranking = append(rec.Ranking, Ranked{Method: m.Key, MethodName: m.Name,
 			HoldsLevel: sum.Min >= d.Level-cfg.tolerance, Summary: sum})
 		rep.add(1)
 	}

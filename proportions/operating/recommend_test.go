@@ -18,20 +18,20 @@ func TestRecommend(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rec.Ranking)+len(rec.Skipped) != len(proportions.IntervalMethods(proportions.Difference)) {
-		t.Errorf("%d ranked and %d skipped of %d methods", len(rec.Ranking), len(rec.Skipped), len(proportions.IntervalMethods(proportions.Difference)))
+	if len(rec.Ranking)+len(rec.Skipped) != len(proportions.EnumerableIntervalMethods(proportions.Difference)) {
+		t.Errorf("%d ranked and %d skipped of %d methods", len(rec.Ranking), len(rec.Skipped), len(proportions.EnumerableIntervalMethods(proportions.Difference)))
 	}
 	for i := 1; i < len(rec.Ranking); i++ {
 		a, b := rec.Ranking[i-1], rec.Ranking[i]
 		if compareRanked(a, b, d.Level) > 0 {
-			t.Errorf("%s ranked before %s against the criterion", a.Name, b.Name)
+			t.Errorf("%s ranked before %s against the criterion", a.MethodName, b.MethodName)
 		}
 		if a.HoldsLevel != (a.Summary.Min >= d.Level-DefaultTolerance) || a.Reason == "" || a.Rank != i {
 			t.Errorf("inconsistent entry %+v", a)
 		}
 	}
 	if last := rec.Ranking[len(rec.Ranking)-1]; last.Method != "wald" {
-		t.Errorf("last is %s; expected Wald\n%s", last.Name, rec)
+		t.Errorf("last is %s; expected Wald\n%s", last.MethodName, rec)
 	}
 	for _, r := range rec.Ranking {
 		if r.Method == "agresti-caffo" && !r.HoldsLevel {
@@ -47,7 +47,7 @@ func TestRecommend(t *testing.T) {
 			t.Errorf("with a 90-point tolerance every method holds: %s", r.Reason)
 		}
 	}
-	if _, err := Recommend(context.Background(), proportions.Difference, d, WithTolerance(-1)); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := Recommend(context.Background(), proportions.Difference, d, WithTolerance(-1)); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("negative tolerance: %v", err)
 	}
 }

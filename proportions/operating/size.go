@@ -8,62 +8,62 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// SizePoint is the probability of rejecting at one pair of rates on the
+// TypeIErrorPoint is the probability of rejecting at one pair of rates on the
 // null line.
-type SizePoint struct {
+type TypeIErrorPoint struct {
 	Pi1  float64 `json:"pi1"`
 	Pi2  float64 `json:"pi2"`
 	Size float64 `json:"size"`
 }
 
-// SizeCurve is the actual type I error of a decision along its null line
+// TypeIErrorCurve is the actual type I error of a decision along its null line
 // (π1 = π2 for a null of no effect; π1 − π2 = δ, π1/π2 = ρ or the odds
 // ratio = ψ for a margin), compared with the nominal α.
-type SizeCurve struct {
-	Test   string                  `json:"test"`
-	Name   string                  `json:"name"`
-	N1     int                     `json:"n1"`
-	N2     int                     `json:"n2"`
-	Null   float64                 `json:"null"`
-	Family proportions.Family      `json:"family"`
-	Alt    proportions.Alternative `json:"alternative"`
+type TypeIErrorCurve struct {
+	Method     string                  `json:"method"`
+	MethodName string                  `json:"method_name"`
+	N1         int                     `json:"n1"`
+	N2         int                     `json:"n2"`
+	Null       float64                 `json:"null"`
+	Scale      proportions.Scale       `json:"scale"`
+	Alt        proportions.Alternative `json:"alternative"`
 	// Alpha is the nominal level 1 − Conf.Level of the (first) hypothesis.
 	Alpha float64 `json:"alpha"`
 	// Max is the largest size on the line, at (MaxPi1, MaxPi2); Mean is
 	// the average over the points.
-	Max    float64     `json:"max"`
-	MaxPi1 float64     `json:"max_pi1"`
-	MaxPi2 float64     `json:"max_pi2"`
-	Mean   float64     `json:"mean"`
-	Points []SizePoint `json:"points"`
+	Max    float64           `json:"max"`
+	MaxPi1 float64           `json:"max_pi1"`
+	MaxPi2 float64           `json:"max_pi2"`
+	Mean   float64           `json:"mean"`
+	Points []TypeIErrorPoint `json:"points"`
 }
 
 // Exceeds reports whether the size somewhere on the line exceeds α by
 // more than tol (a liberal test).
-func (s *SizeCurve) Exceeds(tol float64) bool { return s.Max > s.Alpha+tol }
+func (s *TypeIErrorCurve) Exceeds(tol float64) bool { return s.Max > s.Alpha+tol }
 
 // String prints "Score at n1 = 30, n2 = 30: actual size up to 6.12% at π = (0.5, 0.5), mean 4.87%, nominal 5%".
-func (s *SizeCurve) String() string {
+func (s *TypeIErrorCurve) String() string {
 	return fmt.Sprintf("%s at n1 = %d, n2 = %d (null %v, %s): actual size up to %s at (%g, %g), mean %s, nominal %s",
-		s.Name, s.N1, s.N2, s.Null, s.Alt, percent(s.Max), s.MaxPi1, s.MaxPi2, percent(s.Mean), percent(s.Alpha))
+		s.MethodName, s.N1, s.N2, s.Null, s.Alt, percent(s.Max), s.MaxPi1, s.MaxPi2, percent(s.Mean), percent(s.Alpha))
 }
 
-// Size computes the actual size of test t with hypothesis h for a study of
+// TypeIError computes the actual size of test t with hypothesis h for a study of
 // n1 and n2 trials: the exact probability of rejecting at WithSteps points
 // (default 1001) of the null line (see [EffectLine] with θ = h.Null). For a
 // one-sided alternative the null is composite; its boundary is the line
 // computed here, where the usual tests, whose power grows with the
 // effect, reach their largest size. It reads WithSteps, WithProgress (rows
 // of the rejection region done) and WithWorkers.
-func Size(ctx context.Context, t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, opts ...Option) (*SizeCurve, error) {
+func TypeIError(ctx context.Context, t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, opts ...Option) (*TypeIErrorCurve, error) {
 	return Decision{Test: t, Hypotheses: []proportions.Hypothesis{h}}.Size(ctx, n1, n2, opts...)
 }
 
 // Size is the actual size of the decision along the null line of its
-// first hypothesis (see the function [Size]). For an equivalence decision
+// first hypothesis (see the function [TypeIError]). For an equivalence decision
 // (two one-sided hypotheses) the null has two boundary lines; list the
 // hypothesis whose line you want first, or call Size once per order.
-func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*SizeCurve, error) {
+func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*TypeIErrorCurve, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
@@ -73,7 +73,7 @@ func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*SizeCu
 		return nil, err
 	}
 	h := d.Hypotheses[0]
-	line, err := EffectLine(d.Test.Family, h.Null, k)
+	line, err := EffectLine(d.Test.Scale, h.Null, k)
 	if err != nil {
 		return nil, err
 	}
@@ -81,15 +81,15 @@ func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*SizeCu
 	if err != nil {
 		return nil, err
 	}
-	s := &SizeCurve{Test: d.Test.Key, Name: d.Test.Name, N1: n1, N2: n2, Null: h.Null, Family: d.Test.Family,
-		Alt: h.Alternative, Alpha: h.Alpha(), Max: math.Inf(-1), Points: make([]SizePoint, k)}
+	s := &TypeIErrorCurve{Method: d.Test.Key, MethodName: d.Test.Name, N1: n1, N2: n2, Null: h.Null, Scale: d.Test.Scale,
+		Alt: h.Alternative, Alpha: h.Alpha(), Max: math.Inf(-1), Points: make([]TypeIErrorPoint, k)}
 	var total float64
 	for i, p := range line {
 		size, err := r.Power(p[0], p[1])
 		if err != nil {
 			return nil, err
 		}
-		s.Points[i] = SizePoint{Pi1: p[0], Pi2: p[1], Size: size}
+		s.Points[i] = TypeIErrorPoint{Pi1: p[0], Pi2: p[1], Size: size}
 		total += size
 		if size > s.Max {
 			s.Max, s.MaxPi1, s.MaxPi2 = size, p[0], p[1]

@@ -12,23 +12,23 @@ import (
 // either at a fixed true effect (Along = "effect", Fixed = θ, varying π2)
 // or at a fixed second rate (Along = "first", Fixed = π2, varying π1).
 type Slice struct {
-	Method string             `json:"method"`
-	Name   string             `json:"name"`
-	Family proportions.Family `json:"family"`
-	Design Design             `json:"design"`
-	Along  string             `json:"along"`
-	Fixed  float64            `json:"fixed"`
-	Points []Point            `json:"points"`
+	Method     string            `json:"method"`
+	MethodName string            `json:"method_name"`
+	Scale      proportions.Scale `json:"scale"`
+	Design     Design            `json:"design"`
+	Along      string            `json:"along"`
+	Fixed      float64           `json:"fixed"`
+	Points     []Point           `json:"points"`
 }
 
 // String prints one line per point.
 func (s *Slice) String() string {
 	var b strings.Builder
-	what := fmt.Sprintf("%s fixed at %g", s.Family, s.Fixed)
+	what := fmt.Sprintf("%s fixed at %g", s.Scale, s.Fixed)
 	if s.Along == "first" {
 		what = fmt.Sprintf("π2 fixed at %g", s.Fixed)
 	}
-	fmt.Fprintf(&b, "%s, %s, %s:\n", s.Name, s.Design, what)
+	fmt.Fprintf(&b, "%s, %s, %s:\n", s.MethodName, s.Design, what)
 	for _, p := range s.Points {
 		fmt.Fprintf(&b, "  %s\n", p)
 	}
@@ -38,7 +38,7 @@ func (s *Slice) String() string {
 // AlongEffect evaluates the table along the line where the family's true
 // parameter equals θ (see [EffectLine]), at WithSteps points (default 101).
 // It reads WithSteps, WithProgress and WithWorkers.
-func (t *Table) AlongEffect(ctx context.Context, theta float64, opts ...Option) (*Slice, error) {
+func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...Option) (*Slice, error) {
 	cfg := newConfig(opts)
 	k, err := cfg.stepsOr(101)
 	if err != nil {
@@ -54,7 +54,7 @@ func (t *Table) AlongEffect(ctx context.Context, theta float64, opts ...Option) 
 // AlongFirst evaluates the table at a fixed π2 with π1 running from 0 to 1
 // at WithSteps points (default 101). It reads WithSteps, WithProgress and
 // WithWorkers.
-func (t *Table) AlongFirst(ctx context.Context, pi2 float64, opts ...Option) (*Slice, error) {
+func (t *OutcomeLimits) AlongFirst(ctx context.Context, pi2 float64, opts ...Option) (*Slice, error) {
 	if err := validateRate("π2", pi2); err != nil {
 		return nil, err
 	}
@@ -70,7 +70,7 @@ func (t *Table) AlongFirst(ctx context.Context, pi2 float64, opts ...Option) (*S
 	return t.slice(ctx, "first", pi2, pts, cfg)
 }
 
-func (t *Table) slice(ctx context.Context, along string, fixed float64, pts [][2]float64, cfg config) (*Slice, error) {
+func (t *OutcomeLimits) slice(ctx context.Context, along string, fixed float64, pts [][2]float64, cfg config) (*Slice, error) {
 	pi1, pi2 := make([]float64, len(pts)), make([]float64, len(pts))
 	pairs := make([]pair, len(pts))
 	for k, p := range pts {
@@ -81,6 +81,6 @@ func (t *Table) slice(ctx context.Context, along string, fixed float64, pts [][2
 	if err != nil {
 		return nil, err
 	}
-	return &Slice{Method: t.method.Key, Name: t.method.Name, Family: t.family(), Design: t.design,
+	return &Slice{Method: t.method.Key, MethodName: t.method.Name, Scale: t.family(), Design: t.design,
 		Along: along, Fixed: fixed, Points: points}, nil
 }

@@ -76,7 +76,7 @@ func (r Region) Validate() error {
 		}
 	}
 	if r.Pi1Min > r.Pi1Max || r.Pi2Min > r.Pi2Max {
-		return fmt.Errorf("region %+v: %w; each minimum must not exceed its maximum", r, proportions.ErrDesign)
+		return fmt.Errorf("region %+v: %w; each minimum must not exceed its maximum", r, proportions.ErrPlan)
 	}
 	return nil
 }
@@ -87,7 +87,7 @@ func (s *Surface) Summary() Summary {
 }
 
 // RegionSummary summarises the grid points inside r. It returns an error
-// wrapping proportions.ErrDesign for bounds outside [0, 1] or reversed,
+// wrapping proportions.ErrPlan for bounds outside [0, 1] or reversed,
 // and proportions.ErrEmptyInput when no grid point with a defined truth lies
 // inside.
 func (s *Surface) RegionSummary(r Region) (Summary, error) {

@@ -15,31 +15,31 @@ import (
 // fields have the meaning documented on [Point]; where the truth is not
 // defined, Defined is false and the other maps hold NaN (null in JSON).
 type Surface struct {
-	Method    string             `json:"method"`
-	Name      string             `json:"name"`
-	Family    proportions.Family `json:"family"`
-	Design    Design             `json:"design"`
-	Pi1       []float64          `json:"pi1"`
-	Pi2       []float64          `json:"pi2"`
-	Coverage  []float64          `json:"coverage"`
-	Below     []float64          `json:"below"`
-	Above     []float64          `json:"above"`
-	Width     []float64          `json:"width"`
-	Unbounded []float64          `json:"unbounded"`
-	Defined   []bool             `json:"defined"`
+	Method     string            `json:"method"`
+	MethodName string            `json:"method_name"`
+	Scale      proportions.Scale `json:"scale"`
+	Design     Design            `json:"design"`
+	Pi1        []float64         `json:"pi1"`
+	Pi2        []float64         `json:"pi2"`
+	Coverage   []float64         `json:"coverage"`
+	Below      []float64         `json:"below"`
+	Above      []float64         `json:"above"`
+	Width      []float64         `json:"width"`
+	Unbounded  []float64         `json:"unbounded"`
+	Defined    []bool            `json:"defined"`
 }
 
 // At returns the point at (Pi1[i], Pi2[j]).
 func (s *Surface) At(i, j int) Point {
 	k := i*len(s.Pi2) + j
-	theta, _ := Truth(s.Family, s.Pi1[i], s.Pi2[j])
+	theta, _ := Truth(s.Scale, s.Pi1[i], s.Pi2[j])
 	return Point{Pi1: s.Pi1[i], Pi2: s.Pi2[j], Truth: theta, Defined: s.Defined[k],
 		Coverage: s.Coverage[k], Below: s.Below[k], Above: s.Above[k], Width: s.Width[k], Unbounded: s.Unbounded[k]}
 }
 
 // String prints the method, the design and the grid summary.
 func (s *Surface) String() string {
-	return fmt.Sprintf("%s, %s, %d×%d grid: %s", s.Name, s.Design, len(s.Pi1), len(s.Pi2), s.Summary())
+	return fmt.Sprintf("%s, %s, %d×%d grid: %s", s.MethodName, s.Design, len(s.Pi1), len(s.Pi2), s.Summary())
 }
 
 // MarshalJSON writes the maps as arrays of rows (one row per π1), with
@@ -60,20 +60,20 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 		defined[i] = s.Defined[i*len(s.Pi2) : (i+1)*len(s.Pi2)]
 	}
 	return json.Marshal(struct {
-		Method    string                    `json:"method"`
-		Name      string                    `json:"name"`
-		Family    proportions.Family        `json:"family"`
-		Design    Design                    `json:"design"`
-		Pi1       []float64                 `json:"pi1"`
-		Pi2       []float64                 `json:"pi2"`
-		Coverage  [][]proportions.JSONFloat `json:"coverage"`
-		Below     [][]proportions.JSONFloat `json:"below"`
-		Above     [][]proportions.JSONFloat `json:"above"`
-		Width     [][]proportions.JSONFloat `json:"width"`
-		Unbounded [][]proportions.JSONFloat `json:"unbounded"`
-		Defined   [][]bool                  `json:"defined"`
-		Summary   Summary                   `json:"summary"`
-	}{s.Method, s.Name, s.Family, s.Design, s.Pi1, s.Pi2, rows(s.Coverage), rows(s.Below), rows(s.Above),
+		Method     string                    `json:"method"`
+		MethodName string                    `json:"method_name"`
+		Scale      proportions.Scale         `json:"scale"`
+		Design     Design                    `json:"design"`
+		Pi1        []float64                 `json:"pi1"`
+		Pi2        []float64                 `json:"pi2"`
+		Coverage   [][]proportions.JSONFloat `json:"coverage"`
+		Below      [][]proportions.JSONFloat `json:"below"`
+		Above      [][]proportions.JSONFloat `json:"above"`
+		Width      [][]proportions.JSONFloat `json:"width"`
+		Unbounded  [][]proportions.JSONFloat `json:"unbounded"`
+		Defined    [][]bool                  `json:"defined"`
+		Summary    Summary                   `json:"summary"`
+	}{s.Method, s.MethodName, s.Scale, s.Design, s.Pi1, s.Pi2, rows(s.Coverage), rows(s.Below), rows(s.Above),
 		rows(s.Width), rows(s.Unbounded), defined, s.Summary()})
 }
 
@@ -87,7 +87,7 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 // row's run of covered outcomes moves a few steps between points (see the
 // package documentation). Progress counts the points computed (about half
 // the grid when mirror images are copied, see below).
-func (t *Table) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
+func (t *OutcomeLimits) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
 	cfg := newConfig(opts)
 	pi1, pi2 := cfg.pi1, cfg.pi2
 	if pi1 == nil && pi2 == nil {
@@ -101,7 +101,7 @@ func (t *Table) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
 	}
 	g1, g2 := len(pi1), len(pi2)
 	s := &Surface{
-		Method: t.method.Key, Name: t.method.Name, Family: t.method.Family, Design: t.design,
+		Method: t.method.Key, MethodName: t.method.Name, Scale: t.method.Scale, Design: t.design,
 		Pi1: slices.Clone(pi1), Pi2: slices.Clone(pi2),
 		Coverage: make([]float64, g1*g2), Below: make([]float64, g1*g2), Above: make([]float64, g1*g2),
 		Width: make([]float64, g1*g2), Unbounded: make([]float64, g1*g2), Defined: make([]bool, g1*g2),

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"slices"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -17,16 +18,16 @@ import (
 // for ratios.
 func TestSymmetricClaims(t *testing.T) {
 	conf, _ := proportions.NewConfidence(0.95)
-	for _, m := range proportions.AllIntervalMethods() {
+	for _, m := range slices.Concat(proportions.EnumerableIntervalMethods(proportions.Difference), proportions.EnumerableIntervalMethods(proportions.Ratio), proportions.EnumerableIntervalMethods(proportions.OddsRatio)) {
 		if !m.Symmetric {
 			continue
 		}
-		tab := &Table{method: m}
+		tab := &OutcomeLimits{method: m}
 		far := func(a, b float64) bool {
 			if a == b {
 				return false
 			}
-			if m.Family != proportions.Difference {
+			if m.Scale != proportions.Difference {
 				a, b = math.Log(a), math.Log(b)
 			}
 			return !(math.Abs(a-b) <= 1e-8)
@@ -43,7 +44,7 @@ func TestSymmetricClaims(t *testing.T) {
 							t.Errorf("%s: exchanging the groups of %d/%d vs %d/%d gives (%v, %v), not the mirror of (%v, %v)", m.Key, x1, n[0], x2, n[1], a, b, lo, hi)
 						}
 					}
-					if m.Family != proportions.Ratio {
+					if m.Scale != proportions.Ratio {
 						if a, b := tab.mirror(limits(n[0]-x1, n[1]-x2, n[0], n[1])); far(a, lo) || far(b, hi) {
 							t.Errorf("%s: counting non-events at %d/%d vs %d/%d gives (%v, %v), not the mirror of (%v, %v)", m.Key, x1, n[0], x2, n[1], a, b, lo, hi)
 						}
@@ -60,8 +61,8 @@ func TestSymmetricClaims(t *testing.T) {
 func TestTableLimitsMatchMethod(t *testing.T) {
 	conf, _ := proportions.NewConfidence(0.9)
 	for _, d := range []Design{{N1: 9, N2: 9, Level: 0.9}, {N1: 8, N2: 13, Level: 0.9}} {
-		for _, m := range proportions.IntervalMethods(proportions.Difference) {
-			tab, err := NewTable(context.Background(), m, d)
+		for _, m := range proportions.EnumerableIntervalMethods(proportions.Difference) {
+			tab, err := NewOutcomeLimits(context.Background(), m, d)
 			if err != nil {
 				t.Fatal(err)
 			}

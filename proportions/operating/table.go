@@ -11,11 +11,11 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// Table holds the raw limits of one interval method for every outcome
+// OutcomeLimits holds the raw limits of one interval method for every outcome
 // (x1, x2) of a design, computed once, and the split of each row x1 into
 // pieces along which both limits are non-increasing in x2. Build it with
-// [NewTable]; it is read-only afterwards and safe for concurrent use.
-type Table struct {
+// [NewOutcomeLimits]; it is read-only afterwards and safe for concurrent use.
+type OutcomeLimits struct {
 	method proportions.IntervalMethod
 	design Design
 	conf   proportions.Confidence
@@ -37,7 +37,7 @@ type Table struct {
 	multi []int32
 }
 
-// NewTable computes the limits of method m for every outcome of the design,
+// NewOutcomeLimits computes the limits of method m for every outcome of the design,
 // on every core (or WithWorkers), and checks that they are numbers with
 // lower ≤ upper. For a method declared Symmetric it computes one outcome
 // of each mirror set and copies the mirror images (see
@@ -46,14 +46,14 @@ type Table struct {
 // options WithProgress (rows done out of n1+1) and WithWorkers, and stops
 // early with ctx's error when ctx is cancelled.
 // Memory: 24·(n1+1)·(n2+1) bytes, 24 MB at 1000 per group.
-func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...Option) (*Table, error) {
+func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...Option) (*OutcomeLimits, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
 	if m.Limits == nil {
 		return nil, fmt.Errorf("interval method %q has no limits function: %w", m.Key, proportions.ErrUnknownMethod)
 	}
-	if m.Family == proportions.Proportion {
+	if m.Scale == proportions.SingleRate {
 		return nil, fmt.Errorf("interval method %q is for one proportion: %w; use a method for the difference, ratio or odds ratio", m.Key, proportions.ErrUnsupported)
 	}
 	conf, err := proportions.NewConfidence(d.Level)
@@ -61,7 +61,7 @@ func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts 
 		return nil, err
 	}
 	cfg := newConfig(opts)
-	t := &Table{
+	t := &OutcomeLimits{
 		method: m, design: d, conf: conf, n1: d.N1, n2: d.N2, stride: d.N2 + 1,
 		lower: make([]float64, (d.N1+1)*(d.N2+1)),
 		upper: make([]float64, (d.N1+1)*(d.N2+1)),
@@ -116,16 +116,16 @@ func NewTable(ctx context.Context, m proportions.IntervalMethod, d Design, opts 
 }
 
 // Method returns the table's interval method.
-func (t *Table) Method() proportions.IntervalMethod { return t.method }
+func (t *OutcomeLimits) Method() proportions.IntervalMethod { return t.method }
 
 // Design returns the table's design.
-func (t *Table) Design() Design { return t.design }
+func (t *OutcomeLimits) Design() Design { return t.design }
 
 // Limits returns the raw limits stored for outcome (x1, x2), the mirror
 // image of a computed outcome for a Symmetric method. Outcomes outside the
 // design are an error wrapping proportions.ErrNegativeCount or
 // proportions.ErrEventsExceedTrials.
-func (t *Table) Limits(x1, x2 int) (lower, upper float64, err error) {
+func (t *OutcomeLimits) Limits(x1, x2 int) (lower, upper float64, err error) {
 	if err := (proportions.Counts{X1: int64(x1), N1: int64(t.n1), X2: int64(x2), N2: int64(t.n2)}).Validate(); err != nil {
 		return 0, 0, err
 	}
@@ -135,7 +135,7 @@ func (t *Table) Limits(x1, x2 int) (lower, upper float64, err error) {
 
 // Pieces returns the number of monotone pieces the rows were cut into
 // (n1+1 when every row is a single piece).
-func (t *Table) Pieces() int { return len(t.cuts) - (t.n1 + 1) }
+func (t *OutcomeLimits) Pieces() int { return len(t.cuts) - (t.n1 + 1) }
 
 // symmetry says which mirror images of an outcome the method's Symmetric
 // declaration lets the table copy instead of compute.
@@ -144,11 +144,11 @@ type symmetry struct {
 	complement bool // (x1, x2) ↔ (n1 − x1, n2 − x2), difference and odds ratio
 }
 
-func (t *Table) symmetries() symmetry {
+func (t *OutcomeLimits) symmetries() symmetry {
 	if !t.method.Symmetric {
 		return symmetry{}
 	}
-	return symmetry{swap: t.n1 == t.n2, complement: t.method.Family != proportions.Ratio}
+	return symmetry{swap: t.n1 == t.n2, complement: t.method.Scale != proportions.Ratio}
 }
 
 // computedRange returns the x2 of row x1 (x1 ≤ n1/2 when the complement
@@ -156,7 +156,7 @@ func (t *Table) symmetries() symmetry {
 // x2 < x1 is the mirror of (x2, x1) and, with the complement too,
 // x2 > n − x1 is (n − x2, n − x1) exchanged and complemented; both lie in
 // earlier rows' computed ranges.
-func (t *Table) computedRange(x1 int, sym symmetry) (lo, hi int) {
+func (t *OutcomeLimits) computedRange(x1 int, sym symmetry) (lo, hi int) {
 	lo, hi = 0, t.n2
 	if sym.swap {
 		lo = x1
@@ -169,7 +169,7 @@ func (t *Table) computedRange(x1 int, sym symmetry) (lo, hi int) {
 
 // computeRow calls the method for the computed range of row x1 and checks
 // the limits.
-func (t *Table) computeRow(x1 int, sym symmetry) error {
+func (t *OutcomeLimits) computeRow(x1 int, sym symmetry) error {
 	c := proportions.Counts{X1: int64(x1), N1: int64(t.n1), N2: int64(t.n2)}
 	base := x1 * t.stride
 	lo, hi := t.computedRange(x1, sym)
@@ -186,7 +186,7 @@ func (t *Table) computeRow(x1 int, sym symmetry) error {
 }
 
 // completeRow fills the rest of row x1 from the computed ranges.
-func (t *Table) completeRow(x1 int, sym symmetry) {
+func (t *OutcomeLimits) completeRow(x1 int, sym symmetry) {
 	lo, hi := t.computedRange(x1, sym)
 	base := x1 * t.stride
 	for x2 := 0; x2 < lo; x2++ { // groups exchanged
@@ -201,11 +201,11 @@ func (t *Table) completeRow(x1 int, sym symmetry) {
 
 // complementRow fills row x1 > n1/2 with the mirror images of row n1 − x1
 // read backwards (counting non-events in both groups).
-func (t *Table) complementRow(x1 int) {
+func (t *OutcomeLimits) complementRow(x1 int) {
 	base, src := x1*t.stride, (t.n1-x1)*t.stride
 	lower, upper := t.lower[base:base+t.stride], t.upper[base:base+t.stride]
 	srcLower, srcUpper := t.lower[src:src+t.stride], t.upper[src:src+t.stride]
-	if t.method.Family == proportions.Difference {
+	if t.method.Scale == proportions.Difference {
 		for x2, k := 0, t.n2; k >= 0; x2, k = x2+1, k-1 {
 			lower[x2], upper[x2] = -srcUpper[k], -srcLower[k]
 		}
@@ -218,8 +218,8 @@ func (t *Table) complementRow(x1 int) {
 
 // mirror returns the mirror image of an interval: (−U, −L) for the
 // difference, (1/U, 1/L) for the ratio families (1/0 = ∞, 1/∞ = 0).
-func (t *Table) mirror(lo, hi float64) (float64, float64) {
-	if t.method.Family == proportions.Difference {
+func (t *OutcomeLimits) mirror(lo, hi float64) (float64, float64) {
+	if t.method.Scale == proportions.Difference {
 		return -hi, -lo
 	}
 	inv := func(v float64) float64 {
@@ -236,7 +236,7 @@ func (t *Table) mirror(lo, hi float64) (float64, float64) {
 
 // finishRow computes row x1's reported widths and cuts it into pieces
 // where either limit rises with x2.
-func (t *Table) finishRow(x1 int) []int32 {
+func (t *OutcomeLimits) finishRow(x1 int) []int32 {
 	base := x1 * t.stride
 	lower := t.lower[base : base+t.stride]
 	upper := t.upper[base : base+t.stride][:len(lower)]
@@ -247,7 +247,7 @@ func (t *Table) finishRow(x1 int) []int32 {
 			cuts = append(cuts, int32(x2))
 		}
 	}
-	if t.method.Family != proportions.Difference {
+	if t.method.Scale != proportions.Difference {
 		for x2, lo := range lower {
 			width[x2] = t.reportedWidth(lo, upper[x2])
 		}
@@ -269,10 +269,10 @@ func (t *Table) finishRow(x1 int) []int32 {
 
 // reportedWidth is the width of the clipped interval: U − L for the
 // difference, log(U/L) for the ratio families (0 when unbounded).
-func (t *Table) reportedWidth(lo, hi float64) float64 {
-	blo, bhi := t.method.Family.Bounds()
+func (t *OutcomeLimits) reportedWidth(lo, hi float64) float64 {
+	blo, bhi := t.method.Scale.Bounds()
 	lo, hi = max(lo, blo), min(hi, bhi)
-	if t.method.Family == proportions.Difference {
+	if t.method.Scale == proportions.Difference {
 		return hi - lo
 	}
 	if w := logWidth(lo, hi); !math.IsInf(w, 1) {
@@ -282,7 +282,7 @@ func (t *Table) reportedWidth(lo, hi float64) float64 {
 }
 
 // unbounded reports whether the ratio-family interval at index k reaches 0 or ∞.
-func (t *Table) unbounded(k int) bool { return !(t.lower[k] > 0) || math.IsInf(t.upper[k], 1) }
+func (t *OutcomeLimits) unbounded(k int) bool { return !(t.lower[k] > 0) || math.IsInf(t.upper[k], 1) }
 
 // logWidth is log(U/L) of the reported (clipped at 0) ratio limits, +Inf
 // when the interval is unbounded.

@@ -20,7 +20,7 @@ import (
 // Coverage at an undefined truth is not defined: surfaces mark those grid
 // points and leave them out of every summary. An infinite truth is covered
 // exactly when the interval reaches +∞ (and a truth of 0 when it reaches 0).
-func Truth(f proportions.Family, pi1, pi2 float64) (theta float64, defined bool) {
+func Truth(f proportions.Scale, pi1, pi2 float64) (theta float64, defined bool) {
 	switch f {
 	case proportions.Difference:
 		return pi1 - pi2, true

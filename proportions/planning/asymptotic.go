@@ -55,7 +55,7 @@ func (t zTest) sizeFor(power float64) float64 {
 
 // model is a design's asymptotic power as a function of n1.
 type model struct {
-	design Design
+	design Plan
 	r      float64
 	tests  [2]zTest // the first count are in use (kept in an array: no allocation)
 	count  int
@@ -80,7 +80,7 @@ func normalCDF(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
 
 // critical returns the critical value of each one-sided z test of the
 // design: z_{1−α/2} for Equality, z_{1−α} otherwise.
-func (d Design) critical() float64 {
+func (d Plan) critical() float64 {
 	if d.Goal == Equality {
 		return special.NormalQuantile(1 - d.Alpha/2)
 	}
@@ -89,11 +89,11 @@ func (d Design) critical() float64 {
 
 // newModel builds the model for rates p1, p2 and ratio r; the design must
 // have been validated.
-func newModel(d Design, p1, p2, r float64) model { return newModelZ(d, p1, p2, r, d.critical()) }
+func newModel(d Plan, p1, p2, r float64) model { return newModelZ(d, p1, p2, r, d.critical()) }
 
 // newModelZ is newModel with the critical value z = d.critical() given, for
 // callers that build many models of one design.
-func newModelZ(d Design, p1, p2, r, z float64) model {
+func newModelZ(d Plan, p1, p2, r, z float64) model {
 	m := model{design: d, r: r}
 	switch d.Goal {
 	case Equality:
@@ -102,7 +102,7 @@ func newModelZ(d Design, p1, p2, r, z float64) model {
 		down.upper = false
 		m.tests, m.count, m.combine = [2]zTest{up, down}, 2, either
 	case Superiority, NonInferiority:
-		m.tests[0], m.count, m.combine = m.zTest(p1, p2, d.Margin, d.Alternative == proportions.Greater, z), 1, single
+		m.tests[0], m.count, m.combine = m.zTest(p1, p2, d.Margin, d.Better == proportions.HigherIsBetter, z), 1, single
 	case Equivalence:
 		lo, hi := d.equivalenceBounds()
 		m.tests = [2]zTest{m.zTest(p1, p2, lo, true, z), m.zTest(p1, p2, hi, false, z)}
@@ -173,8 +173,8 @@ func (m model) reachable() error {
 			return fmt.Errorf("anticipated %s %.4g is not strictly inside the equivalence range (%.4g, %.4g): %w; no finite sample size shows equivalence with power above α",
 				d.Scale, theta, lo, hi, proportions.ErrUnreachable)
 		}
-		return fmt.Errorf("anticipated %s %.4g does not lie beyond the margin %v in the direction %s: %w; power stays at or below α = %v at every sample size, so no finite n exists",
-			d.Scale, theta, d.Margin, d.Alternative, proportions.ErrUnreachable, d.Alpha)
+		return fmt.Errorf("anticipated %s %.4g does not lie beyond the margin %v on the side where %s rates are better: %w; power stays at or below α = %v at every sample size, so no finite n exists",
+			d.Scale, theta, d.Margin, d.Better, proportions.ErrUnreachable, d.Alpha)
 	}
 	return nil
 }
@@ -271,7 +271,7 @@ func findRootFrom(g func(float64) float64, a, b, ga, gb, tol float64) float64 {
 }
 
 // effectOf returns θ for rates p1, p2 on the scale.
-func effectOf(f proportions.Family, p1, p2 float64) float64 {
+func effectOf(f proportions.Scale, p1, p2 float64) float64 {
 	if f == proportions.Ratio {
 		return p1 / p2
 	}

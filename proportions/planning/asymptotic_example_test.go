@@ -11,7 +11,7 @@ import (
 // bare seed at 60%. How many seeds per treatment does a two-sided test at
 // 5% need for 80% power, if one tray in ten may be lost?
 func ExampleSampleSize() {
-	d := planning.NewDesign(planning.Equality, 0.75, 0.60)
+	d := planning.NewPlan(planning.Equality, 0.75, 0.60)
 	d.Dropout = 0.10
 	plan, err := planning.SampleSize(d)
 	if err != nil {
@@ -28,8 +28,8 @@ func ExampleSampleSize() {
 // defect rate of 4% by 2 points or more. Lower rates are better, so the
 // alternative is Less and the margin positive.
 func ExampleSampleSize_nonInferiority() {
-	d := planning.NewDesign(planning.NonInferiority, 0.04, 0.04)
-	d.Alternative, d.Margin = proportions.Less, 0.02
+	d := planning.NewPlan(planning.NonInferiority, 0.04, 0.04)
+	d.Better, d.Margin = proportions.LowerIsBetter, 0.02
 	plan, err := planning.SampleSize(d)
 	if err != nil {
 		fmt.Println(err)
@@ -37,17 +37,17 @@ func ExampleSampleSize_nonInferiority() {
 	}
 	fmt.Print(plan)
 	// Output:
-	// Sample size for non-inferiority on the difference, π1 = 0.04 vs π2 = 0.04, margin 0.02 (alternative less), one-sided α = 0.025, power 0.8, n2/n1 = 1
+	// Sample size for non-inferiority on the difference, π1 = 0.04 vs π2 = 0.04, margin 0.02 (lower is better), one-sided α = 0.025, power 0.8, n2/n1 = 1
 	//   1562 + 1562 = 3124 units with an outcome (formula gives n1 = 1561.16); power 0.8002
-	//   method: normal approximation, restricted-MLE null variance (Farrington–Manning)
+	//   approximation: normal approximation, restricted-MLE null variance (Farrington–Manning)
 	//   formula: n1 = [z(1−α)·√(p̃1q̃1 + p̃2q̃2/r) + z(power)·√(p1q1 + p2q2/r)]² / (p1 − p2 − δ)²; n2 = ⌈r·n1⌉
 	//   A plan is only as good as the anticipated rates behind it; significance is not importance, and where health or safety decisions follow, the applicable regulations and a qualified statistician decide.
 }
 
 // The power of a smaller seed trial, 100 seeds per treatment.
-func ExamplePowerAt() {
-	d := planning.NewDesign(planning.Equality, 0.75, 0.60)
-	p, err := planning.PowerAt(d, 100, 100)
+func ExamplePower() {
+	d := planning.NewPlan(planning.Equality, 0.75, 0.60)
+	p, err := planning.Power(d, 100, 100)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -60,7 +60,7 @@ func ExamplePowerAt() {
 // What germination rate of coated seed can 120 seeds per treatment detect
 // against bare seed at 60%, with 80% power?
 func ExampleDetectableDifference() {
-	d := planning.NewDesign(planning.Equality, 0, 0.60)
+	d := planning.NewPlan(planning.Equality, 0, 0.60)
 	res, err := planning.DetectableDifference(d, 120, 120)
 	if err != nil {
 		fmt.Println(err)
@@ -74,9 +74,9 @@ func ExampleDetectableDifference() {
 }
 
 // Power against the number of seeds per treatment, as data for a chart.
-func ExamplePowerByN() {
-	d := planning.NewDesign(planning.Equality, 0.75, 0.60)
-	curve, err := planning.PowerByN(d, 50, 250)
+func ExamplePowerByTrials() {
+	d := planning.NewPlan(planning.Equality, 0.75, 0.60)
+	curve, err := planning.PowerByTrials(d, 50, 250)
 	if err != nil {
 		fmt.Println(err)
 		return

@@ -61,7 +61,7 @@ func TestSampleSizeFleissLevinPaik(t *testing.T) {
 		if !ok || c.Status != "recomputed" {
 			t.Fatalf("%s missing or with unexpected status %q", id, c.Status)
 		}
-		d := NewDesign(Equality, c.Data.P1, c.Data.P2)
+		d := NewPlan(Equality, c.Data.P1, c.Data.P2)
 		plain, err := SampleSize(d)
 		if err != nil {
 			t.Fatal(err)
@@ -105,7 +105,7 @@ func TestSampleSizeFarringtonManning(t *testing.T) {
 		if !strings.Contains(c.Note, "restricted MLEs") {
 			t.Fatalf("%s: note %q", tc.id, c.Note)
 		}
-		d := NewDesign(NonInferiority, c.Data.P1, c.Data.P2)
+		d := NewPlan(NonInferiority, c.Data.P1, c.Data.P2)
 		d.Margin, d.Power = -0.10, tc.power
 		res, err := SampleSize(d)
 		if err != nil {
@@ -128,7 +128,7 @@ func TestSampleSizeFarringtonManning(t *testing.T) {
 func TestSampleSizeSixteenOverDSquared(t *testing.T) {
 	for _, h := range []float64{0.02, 0.05, 0.1, 0.2} {
 		p1, p2 := 0.5-h, 0.5+h
-		d := NewDesign(Equality, p1, p2)
+		d := NewPlan(Equality, p1, p2)
 		d.Variance = Unpooled
 		res, err := SampleSize(d)
 		if err != nil {
@@ -151,7 +151,7 @@ func TestSampleSizeSixteenOverDSquared(t *testing.T) {
 // bruteNullRates maximises the constrained log-likelihood by golden-section
 // search over π̃2, independently of the closed forms (the log-likelihood is
 // concave along the constraint).
-func bruteNullRates(scale proportions.Family, p1, p2, r, null float64) (float64, float64) {
+func bruteNullRates(scale proportions.Scale, p1, p2, r, null float64) (float64, float64) {
 	ll := func(q2 float64) float64 {
 		q1 := q2 + null
 		if scale == proportions.Ratio {
@@ -205,7 +205,7 @@ func TestNullRatesAgainstDirectMaximisation(t *testing.T) {
 // The Farrington–Manning formulas restated directly, with the restricted
 // MLEs from direct maximisation and the quantiles from SciPy-independent
 // gonum: n1 = [z_{1−α}√V0 + z_{power}√V1]² / E².
-func fmDirect(scale proportions.Family, p1, p2, r, null, alpha, power float64, pooled bool) float64 {
+func fmDirect(scale proportions.Scale, p1, p2, r, null, alpha, power float64, pooled bool) float64 {
 	c, e := 1.0, p1-p2-null
 	if scale == proportions.Ratio {
 		c, e = null, p1-null*p2
@@ -223,7 +223,7 @@ func fmDirect(scale proportions.Family, p1, p2, r, null, alpha, power float64, p
 func TestSampleSizeMarginsBothScales(t *testing.T) {
 	cases := []struct {
 		goal   Goal
-		scale  proportions.Family
+		scale  proportions.Scale
 		alt    proportions.Alternative
 		p1, p2 float64
 		margin float64
@@ -241,8 +241,8 @@ func TestSampleSizeMarginsBothScales(t *testing.T) {
 	}
 	for _, tc := range cases {
 		for _, v := range []VarianceRule{Pooled, Unpooled} {
-			d := NewDesign(tc.goal, tc.p1, tc.p2)
-			d.Scale, d.Alternative, d.Margin, d.Allocation, d.Variance = tc.scale, tc.alt, tc.margin, tc.r, v
+			d := NewPlan(tc.goal, tc.p1, tc.p2)
+			d.Scale, d.Better, d.Margin, d.Allocation, d.Variance = tc.scale, betterOf(tc.alt), tc.margin, tc.r, v
 			res, err := SampleSize(d)
 			if err != nil {
 				t.Errorf("%v: %v", d, err)
@@ -266,7 +266,7 @@ func TestSampleSizeMarginsBothScales(t *testing.T) {
 func TestSampleSizeEquivalenceSymmetric(t *testing.T) {
 	for _, p := range []float64{0.2, 0.5, 0.9} {
 		for _, delta := range []float64{0.05, 0.1} {
-			d := NewDesign(Equivalence, p, p)
+			d := NewPlan(Equivalence, p, p)
 			d.Margin, d.Variance, d.Power = delta, Unpooled, 0.9
 			res, err := SampleSize(d)
 			if err != nil {
@@ -282,7 +282,7 @@ func TestSampleSizeEquivalenceSymmetric(t *testing.T) {
 	// An asymmetric case: a true difference of 0.02 inside ±0.1 needs fewer
 	// units than the mirror case 0.1-wide on one side only would, and the
 	// power at the answer is at least the target.
-	d := NewDesign(Equivalence, 0.52, 0.5)
+	d := NewPlan(Equivalence, 0.52, 0.5)
 	d.Margin = 0.1
 	res, err := SampleSize(d)
 	if err != nil {
@@ -291,13 +291,13 @@ func TestSampleSizeEquivalenceSymmetric(t *testing.T) {
 	if res.Power < d.Power {
 		t.Errorf("equivalence: power %.4f below target at n1 = %d", res.Power, res.N1)
 	}
-	if p, _ := PowerAt(d, res.N1-1, res.N2-1); p.Power >= d.Power {
+	if p, _ := Power(d, res.N1-1, res.N2-1); p.Power >= d.Power {
 		t.Errorf("equivalence: n1 = %d is not the smallest (power %.4f one below)", res.N1, p.Power)
 	}
 }
 
 func TestSampleSizeRoundsUpAndInflates(t *testing.T) {
-	d := NewDesign(Equality, 0.6, 0.75)
+	d := NewPlan(Equality, 0.6, 0.75)
 	d.Allocation, d.Dropout = 1.5, 0.15
 	res, err := SampleSize(d)
 	if err != nil {
@@ -306,7 +306,7 @@ func TestSampleSizeRoundsUpAndInflates(t *testing.T) {
 	if res.Power < d.Power {
 		t.Errorf("power %.4f below target", res.Power)
 	}
-	if p, _ := PowerAt(d, res.N1-1, groupTwoSize(res.N1-1, 1.5)); p.Power >= d.Power {
+	if p, _ := Power(d, res.N1-1, groupTwoSize(res.N1-1, 1.5)); p.Power >= d.Power {
 		t.Errorf("n1 − 1 already reaches the target: %.4f", p.Power)
 	}
 	if want := int64(math.Ceil(float64(res.N1) / 0.85)); res.Enrolled1 != want {
@@ -318,8 +318,8 @@ func TestSampleSizeRoundsUpAndInflates(t *testing.T) {
 }
 
 func TestPlanningBadInput(t *testing.T) {
-	base := func(goal Goal) Design {
-		d := NewDesign(goal, 0.6, 0.5)
+	base := func(goal Goal) Plan {
+		d := NewPlan(goal, 0.6, 0.5)
 		if goal == NonInferiority {
 			d.Margin = -0.1
 		}
@@ -330,38 +330,37 @@ func TestPlanningBadInput(t *testing.T) {
 	}
 	cases := []struct {
 		name   string
-		change func(*Design)
+		change func(*Plan)
 		goal   Goal
 		want   error
 		words  string
 	}{
-		{"rate 0", func(d *Design) { d.Rate1 = 0 }, Equality, proportions.ErrDesign, "strictly between 0 and 1"},
-		{"rate 1", func(d *Design) { d.Rate2 = 1 }, Equality, proportions.ErrDesign, "strictly between 0 and 1"},
-		{"rate NaN", func(d *Design) { d.Rate1 = math.NaN() }, Equality, proportions.ErrDesign, "rate"},
-		{"equal rates equality", func(d *Design) { d.Rate1 = 0.5 }, Equality, proportions.ErrUnreachable, "no finite n"},
-		{"equal rates superiority", func(d *Design) { d.Rate1 = 0.5 }, Superiority, proportions.ErrUnreachable, "no finite n"},
-		{"wrong side superiority", func(d *Design) { d.Rate1 = 0.4 }, Superiority, proportions.ErrUnreachable, "no finite n"},
-		{"true effect inside NI margin", func(d *Design) { d.Rate1 = 0.35 }, NonInferiority, proportions.ErrUnreachable, "no finite n"},
-		{"outside equivalence", func(d *Design) { d.Rate1 = 0.65 }, Equivalence, proportions.ErrUnreachable, "equivalence range"},
-		{"NI margin wrong sign", func(d *Design) { d.Margin = 0.1 }, NonInferiority, proportions.ErrMargin, "below 0"},
-		{"NI margin wrong sign (lower better)", func(d *Design) { d.Alternative = proportions.Less }, NonInferiority, proportions.ErrMargin, "above 0"},
-		{"superiority margin wrong sign", func(d *Design) { d.Margin = -0.05 }, Superiority, proportions.ErrMargin, "at or above 0"},
-		{"ratio NI margin wrong side", func(d *Design) { d.Scale, d.Margin = proportions.Ratio, 1.2 }, NonInferiority, proportions.ErrMargin, "below 1"},
-		{"ratio margin negative", func(d *Design) { d.Scale, d.Margin = proportions.Ratio, -0.8 }, NonInferiority, proportions.ErrMargin, "greater than 0"},
-		{"margin out of range", func(d *Design) { d.Margin = -1.5 }, NonInferiority, proportions.ErrMargin, "between -1 and 1"},
-		{"equivalence zero margin", func(d *Design) { d.Margin = 0 }, Equivalence, proportions.ErrMargin, "other than 0"},
-		{"equality with margin", func(d *Design) { d.Margin = 0.1 }, Equality, proportions.ErrMargin, "no margin"},
-		{"power at alpha", func(d *Design) { d.Power = 0.05 }, Equality, proportions.ErrDesign, "between α"},
-		{"power 1", func(d *Design) { d.Power = 1 }, Equality, proportions.ErrDesign, "between α"},
-		{"alpha 0", func(d *Design) { d.Alpha = 0 }, Equality, proportions.ErrDesign, "(0, 0.5]"},
-		{"alpha 0.6", func(d *Design) { d.Alpha = 0.6 }, Equality, proportions.ErrDesign, "(0, 0.5]"},
-		{"allocation negative", func(d *Design) { d.Allocation = -1 }, Equality, proportions.ErrDesign, "allocation"},
-		{"dropout 1", func(d *Design) { d.Dropout = 1 }, Equality, proportions.ErrDesign, "[0, 1)"},
-		{"NI two-sided", func(d *Design) { d.Alternative = proportions.TwoSided }, NonInferiority, proportions.ErrAlternative, "one-sided"},
-		{"equality one-sided", func(d *Design) { d.Alternative = proportions.Greater }, Equality, proportions.ErrAlternative, "Superiority with margin 0"},
-		{"correction with margin", func(d *Design) { d.ContinuityCorrection = true }, NonInferiority, proportions.ErrUnsupported, "no difference"},
-		{"odds-ratio scale", func(d *Design) { d.Scale = proportions.OddsRatio }, Equality, proportions.ErrUnsupported, "difference or the ratio"},
-		{"unknown goal", func(d *Design) { d.Goal = 9 }, Equality, proportions.ErrDesign, "Equivalence"},
+		{"rate 0", func(d *Plan) { d.Rate1 = 0 }, Equality, proportions.ErrPlan, "strictly between 0 and 1"},
+		{"rate 1", func(d *Plan) { d.Rate2 = 1 }, Equality, proportions.ErrPlan, "strictly between 0 and 1"},
+		{"rate NaN", func(d *Plan) { d.Rate1 = math.NaN() }, Equality, proportions.ErrPlan, "rate"},
+		{"equal rates equality", func(d *Plan) { d.Rate1 = 0.5 }, Equality, proportions.ErrUnreachable, "no finite n"},
+		{"equal rates superiority", func(d *Plan) { d.Rate1 = 0.5 }, Superiority, proportions.ErrUnreachable, "no finite n"},
+		{"wrong side superiority", func(d *Plan) { d.Rate1 = 0.4 }, Superiority, proportions.ErrUnreachable, "no finite n"},
+		{"true effect inside NI margin", func(d *Plan) { d.Rate1 = 0.35 }, NonInferiority, proportions.ErrUnreachable, "no finite n"},
+		{"outside equivalence", func(d *Plan) { d.Rate1 = 0.65 }, Equivalence, proportions.ErrUnreachable, "equivalence range"},
+		{"NI margin wrong sign", func(d *Plan) { d.Margin = 0.1 }, NonInferiority, proportions.ErrMargin, "below 0"},
+		{"NI margin wrong sign (lower better)", func(d *Plan) { d.Better = proportions.LowerIsBetter }, NonInferiority, proportions.ErrMargin, "above 0"},
+		{"superiority margin wrong sign", func(d *Plan) { d.Margin = -0.05 }, Superiority, proportions.ErrMargin, "at or above 0"},
+		{"ratio NI margin wrong side", func(d *Plan) { d.Scale, d.Margin = proportions.Ratio, 1.2 }, NonInferiority, proportions.ErrMargin, "below 1"},
+		{"ratio margin negative", func(d *Plan) { d.Scale, d.Margin = proportions.Ratio, -0.8 }, NonInferiority, proportions.ErrMargin, "greater than 0"},
+		{"margin out of range", func(d *Plan) { d.Margin = -1.5 }, NonInferiority, proportions.ErrMargin, "between -1 and 1"},
+		{"equivalence zero margin", func(d *Plan) { d.Margin = 0 }, Equivalence, proportions.ErrMargin, "other than 0"},
+		{"equality with margin", func(d *Plan) { d.Margin = 0.1 }, Equality, proportions.ErrMargin, "no margin"},
+		{"power at alpha", func(d *Plan) { d.Power = 0.05 }, Equality, proportions.ErrPlan, "between α"},
+		{"power 1", func(d *Plan) { d.Power = 1 }, Equality, proportions.ErrPlan, "between α"},
+		{"alpha 0", func(d *Plan) { d.Alpha = 0 }, Equality, proportions.ErrPlan, "(0, 0.5]"},
+		{"alpha 0.6", func(d *Plan) { d.Alpha = 0.6 }, Equality, proportions.ErrPlan, "(0, 0.5]"},
+		{"allocation negative", func(d *Plan) { d.Allocation = -1 }, Equality, proportions.ErrPlan, "allocation"},
+		{"dropout 1", func(d *Plan) { d.Dropout = 1 }, Equality, proportions.ErrPlan, "[0, 1)"},
+		{"unknown better", func(d *Plan) { d.Better = 7 }, NonInferiority, proportions.ErrBetter, "HigherIsBetter or LowerIsBetter"},
+		{"correction with margin", func(d *Plan) { d.ContinuityCorrection = true }, NonInferiority, proportions.ErrUnsupported, "no difference"},
+		{"odds-ratio scale", func(d *Plan) { d.Scale = proportions.OddsRatio }, Equality, proportions.ErrUnsupported, "difference or the ratio"},
+		{"unknown goal", func(d *Plan) { d.Goal = 9 }, Equality, proportions.ErrPlan, "Equivalence"},
 	}
 	for _, tc := range cases {
 		d := base(tc.goal)
@@ -371,30 +370,30 @@ func TestPlanningBadInput(t *testing.T) {
 			t.Errorf("%s: got %v, want %v mentioning %q", tc.name, err, tc.want, tc.words)
 		}
 	}
-	if _, err := PowerAt(NewDesign(Equality, 0.6, 0.5), 0, 10); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := Power(NewPlan(Equality, 0.6, 0.5), 0, 10); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("PowerAt n1 = 0: %v", err)
 	}
-	if _, err := PowerByN(NewDesign(Equality, 0.6, 0.5), 10, 5); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := PowerByTrials(NewPlan(Equality, 0.6, 0.5), 10, 5); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("PowerByN empty range: %v", err)
 	}
-	if _, err := PowerByDifference(NewDesign(Equality, 0.6, 0.5), 10, 10, 0, 0.5, 10); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := PowerByDifference(NewPlan(Equality, 0.6, 0.5), 10, 10, 0, 0.5, 10); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("PowerByDifference rate 0: %v", err)
 	}
-	if _, err := DetectableDifference(func() Design { d := NewDesign(Equivalence, 0.5, 0.5); d.Margin = 0.05; return d }(), 5, 5); !errors.Is(err, proportions.ErrUnreachable) {
+	if _, err := DetectableDifference(func() Plan { d := NewPlan(Equivalence, 0.5, 0.5); d.Margin = 0.05; return d }(), 5, 5); !errors.Is(err, proportions.ErrUnreachable) {
 		t.Errorf("DetectableDifference tiny equivalence study: %v", err)
 	}
 }
 
 func TestDetectableDifference(t *testing.T) {
-	cases := []Design{
-		NewDesign(Equality, 0.6, 0.5),
-		func() Design { d := NewDesign(NonInferiority, 0.6, 0.5); d.Margin = -0.1; return d }(),
-		func() Design {
-			d := NewDesign(Superiority, 0.1, 0.2)
-			d.Alternative, d.Scale, d.Margin = proportions.Less, proportions.Ratio, 1
+	cases := []Plan{
+		NewPlan(Equality, 0.6, 0.5),
+		func() Plan { d := NewPlan(NonInferiority, 0.6, 0.5); d.Margin = -0.1; return d }(),
+		func() Plan {
+			d := NewPlan(Superiority, 0.1, 0.2)
+			d.Better, d.Scale, d.Margin = proportions.LowerIsBetter, proportions.Ratio, 1
 			return d
 		}(),
-		func() Design { d := NewDesign(Equivalence, 0.6, 0.5); d.Margin = 0.15; return d }(),
+		func() Plan { d := NewPlan(Equivalence, 0.6, 0.5); d.Margin = 0.15; return d }(),
 	}
 	for _, d := range cases {
 		res, err := DetectableDifference(d, 300, 375)
@@ -406,7 +405,7 @@ func TestDetectableDifference(t *testing.T) {
 				continue
 			}
 			d.Rate1 = s.Rate1
-			p, err := PowerAt(d, 300, 375)
+			p, err := Power(d, 300, 375)
 			if err != nil || math.Abs(p.Power-d.Power) > 1e-6 {
 				t.Errorf("%v: power %.8f at the detectable rate, want %v (%v)", d, p.Power, d.Power, err)
 			}
@@ -428,7 +427,7 @@ func TestDetectableDifference(t *testing.T) {
 	}
 	// Inverse of SampleSize: at the planned size the detectable rate is at
 	// most the anticipated one.
-	d := NewDesign(Equality, 0.75, 0.6)
+	d := NewPlan(Equality, 0.75, 0.6)
 	plan, _ := SampleSize(d)
 	res, _ := DetectableDifference(d, plan.N1, plan.N2)
 	if !(res.Above.Rate1 <= 0.75 && res.Above.Rate1 > 0.74) {
@@ -437,8 +436,8 @@ func TestDetectableDifference(t *testing.T) {
 }
 
 func TestPowerCurves(t *testing.T) {
-	d := NewDesign(Equality, 0.6, 0.75)
-	c, err := PowerByN(d, 10, 300)
+	d := NewPlan(Equality, 0.6, 0.75)
+	c, err := PowerByTrials(d, 10, 300)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -450,7 +449,7 @@ func TestPowerCurves(t *testing.T) {
 			t.Errorf("asymptotic power falls from n1 = %d to %d", c.Points[i-1].N1, c.Points[i].N1)
 		}
 	}
-	long, _ := PowerByN(d, 1, 100000)
+	long, _ := PowerByTrials(d, 1, 100000)
 	if len(long.Points) > MaxCurvePoints+1 || long.Points[len(long.Points)-1].N1 != 100000 {
 		t.Errorf("long range: %d points ending at %d", len(long.Points), long.Points[len(long.Points)-1].N1)
 	}
@@ -474,7 +473,7 @@ func TestPowerCurves(t *testing.T) {
 }
 
 func TestPlanningJSON(t *testing.T) {
-	d := NewDesign(NonInferiority, 0.85, 0.85)
+	d := NewPlan(NonInferiority, 0.85, 0.85)
 	d.Margin, d.Scale, d.Dropout = -0.1, proportions.Difference, 0.1
 	res, err := SampleSize(d)
 	if err != nil {
@@ -484,7 +483,7 @@ func TestPlanningJSON(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{`"goal":"non-inferiority"`, `"scale":"difference"`, `"alternative":"greater"`, `"variance":"pooled"`, `"n1":207`, `"enrolled1":230`} {
+	for _, want := range []string{`"goal":"non-inferiority"`, `"scale":"difference"`, `"better":"higher"`, `"variance":"pooled"`, `"n1":207`, `"enrolled1":230`} {
 		if !strings.Contains(string(b), want) {
 			t.Errorf("JSON lacks %s: %s", want, b)
 		}
@@ -493,11 +492,11 @@ func TestPlanningJSON(t *testing.T) {
 	if err := json.Unmarshal(b, &back); err != nil {
 		t.Fatal(err)
 	}
-	if back.Design != d || back.N1 != res.N1 {
-		t.Errorf("round trip: %+v", back.Design)
+	if back.Plan != d || back.N1 != res.N1 {
+		t.Errorf("round trip: %+v", back.Plan)
 	}
 	var g Goal
-	if err := json.Unmarshal([]byte(`"superb"`), &g); !errors.Is(err, proportions.ErrDesign) {
+	if err := json.Unmarshal([]byte(`"superb"`), &g); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("bad goal name: %v", err)
 	}
 }
@@ -538,7 +537,7 @@ func TestPlanningAgainstSciPy(t *testing.T) {
 		t.Fatalf("only %d SciPy checks", len(f.SciPy))
 	}
 	for _, c := range f.SciPy {
-		d := Design{Rate1: c.P1, Rate2: c.P2, Allocation: c.R, Margin: c.Margin, Alpha: c.Alpha, Power: c.Power}
+		d := Plan{Rate1: c.P1, Rate2: c.P2, Allocation: c.R, Margin: c.Margin, Alpha: c.Alpha, Power: c.Power}
 		for _, u := range []struct {
 			ptr  json.Unmarshaler
 			name string
@@ -547,10 +546,8 @@ func TestPlanningAgainstSciPy(t *testing.T) {
 				t.Fatal(err)
 			}
 		}
-		if c.Alternative != "" {
-			if err := d.Alternative.UnmarshalJSON([]byte(`"` + c.Alternative + `"`)); err != nil {
-				t.Fatal(err)
-			}
+		if c.Alternative == "less" { // the reference states the test's direction
+			d.Better = proportions.LowerIsBetter
 		}
 		res, err := SampleSize(d)
 		if err != nil {
@@ -564,7 +561,7 @@ func TestPlanningAgainstSciPy(t *testing.T) {
 		if math.Abs(res.Unrounded-c.N1) > tol {
 			t.Errorf("%s: n1 = %.6f, SciPy %.6f", c.ID, res.Unrounded, c.N1)
 		}
-		p, err := PowerAt(d, 100, int64(math.Round(100*c.R)))
+		p, err := Power(d, 100, int64(math.Round(100*c.R)))
 		if err != nil || math.Abs(p.Power-c.PowerAt100) > 1e-8 {
 			t.Errorf("%s: power at n1 = 100 is %.10f, SciPy %.10f (%v)", c.ID, p.Power, c.PowerAt100, err)
 		}
@@ -586,4 +583,13 @@ func TestNullRatesRareEvents(t *testing.T) {
 			t.Errorf("p = %v, δ = %v: π̃1 = %.17g, want %.17g", c.p1, c.delta, q1, c.want1)
 		}
 	}
+}
+
+// betterOf is the direction of benefit behind a one-sided alternative (the
+// cases above state the alternative, as the references do).
+func betterOf(a proportions.Alternative) proportions.Better {
+	if a == proportions.Less {
+		return proportions.LowerIsBetter
+	}
+	return proportions.HigherIsBetter
 }

@@ -9,7 +9,7 @@ import (
 // π1 = 0.60 against π2 = 0.75, two-sided score test at α = 0.05, under 1 s.
 // The whole search runs: from n1 = 1 to the default horizon.
 func BenchmarkExactSampleSizeScore(b *testing.B) {
-	d := NewDesign(Equality, 0.60, 0.75)
+	d := NewPlan(Equality, 0.60, 0.75)
 	for range b.N {
 		res, err := ExactSampleSize(context.Background(), d, scoreTest, Search{})
 		if err != nil {
@@ -21,7 +21,7 @@ func BenchmarkExactSampleSizeScore(b *testing.B) {
 
 // BenchmarkExactPowerScore is one exact power at n = 150 per group.
 func BenchmarkExactPowerScore(b *testing.B) {
-	d := NewDesign(Equality, 0.60, 0.75)
+	d := NewPlan(Equality, 0.60, 0.75)
 	for range b.N {
 		if _, err := ExactPower(context.Background(), d, scoreTest, 150, 150); err != nil {
 			b.Fatal(err)

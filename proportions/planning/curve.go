@@ -25,19 +25,19 @@ type PowerPoint struct {
 // PowerCurve is power as data for a chart: against the group size
 // (Axis "n1") or against the first group's true rate (Axis "rate1").
 type PowerCurve struct {
-	Design Design `json:"design"`
-	// Method is the asymptotic method or the exact test behind the powers.
-	Method  string       `json:"method"`
+	Plan Plan `json:"plan"`
+	// Basis is the asymptotic method or the exact test behind the powers.
+	Basis   string       `json:"basis"`
 	Axis    string       `json:"axis"`
 	Points  []PowerPoint `json:"points"`
 	Caution string       `json:"caution"`
 }
 
-// PowerByN returns the asymptotic power of the design for every n1 from
+// PowerByTrials returns the asymptotic power of the design for every n1 from
 // n1From to n1To (in equal steps when that is more than MaxCurvePoints
 // sizes, always ending at n1To), with n2 = ⌈r·n1⌉. Design.Power is not used.
-// Errors are those of PowerAt, and ErrDesign for an empty range.
-func PowerByN(d Design, n1From, n1To int64) (PowerCurve, error) {
+// Errors are those of PowerAt, and ErrPlan for an empty range.
+func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
 	if _, err := checkedModel(d); err != nil {
 		return PowerCurve{}, err
 	}
@@ -46,7 +46,7 @@ func PowerByN(d Design, n1From, n1To int64) (PowerCurve, error) {
 		return PowerCurve{}, err
 	}
 	method, _, _ := describeMethod(d)
-	c := PowerCurve{Design: d, Method: method, Axis: "n1", Points: make([]PowerPoint, 0, len(sizes)), Caution: PlanningCaution}
+	c := PowerCurve{Plan: d, Basis: method, Axis: "n1", Points: make([]PowerPoint, 0, len(sizes)), Caution: Caution}
 	for _, s := range sizes {
 		c.Points = append(c.Points, d.point(s[0], s[1], d.Rate1, powerAtSizes(d, s[0], s[1])))
 	}
@@ -57,7 +57,7 @@ func PowerByN(d Design, n1From, n1To int64) (PowerCurve, error) {
 // n2 units against the first group's true rate, at points rates evenly
 // spaced from rate1From to rate1To (both in (0, 1)), π2 = Design.Rate2
 // fixed. Design.Rate1 and Power are not used.
-func PowerByDifference(d Design, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
+func PowerByDifference(d Plan, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
 	if err := d.validate(); err != nil {
 		return PowerCurve{}, err
 	}
@@ -69,7 +69,7 @@ func PowerByDifference(d Design, n1, n2 int64, rate1From, rate1To float64, point
 		return PowerCurve{}, err
 	}
 	method, _, _ := describeMethod(d)
-	c := PowerCurve{Design: d, Method: method, Axis: "rate1", Points: make([]PowerPoint, 0, len(rates)), Caution: PlanningCaution}
+	c := PowerCurve{Plan: d, Basis: method, Axis: "rate1", Points: make([]PowerPoint, 0, len(rates)), Caution: Caution}
 	r, z := float64(n2)/float64(n1), d.critical()
 	for _, p1 := range rates {
 		c.Points = append(c.Points, d.point(n1, n2, p1, newModelZ(d, p1, d.Rate2, r, z).power(float64(n1))))
@@ -77,14 +77,14 @@ func PowerByDifference(d Design, n1, n2 int64, rate1From, rate1To float64, point
 	return c, nil
 }
 
-func (d Design) point(n1, n2 int64, p1, power float64) PowerPoint {
+func (d Plan) point(n1, n2 int64, p1, power float64) PowerPoint {
 	return PowerPoint{N1: n1, N2: n2, Rate1: p1, Difference: p1 - d.Rate2, Ratio: p1 / d.Rate2, Power: power}
 }
 
 // sizeGrid lists (n1, ⌈r·n1⌉) from n1From to n1To, at most MaxCurvePoints.
 func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 	if n1From < 1 || n1To < n1From || n1To > proportions.MaxTrials || groupTwoSize(n1From, r) < 1 {
-		return nil, fmt.Errorf("group-1 sizes %d to %d: %w; give 1 ≤ from ≤ to ≤ %d", n1From, n1To, proportions.ErrDesign, proportions.MaxTrials)
+		return nil, fmt.Errorf("group-1 sizes %d to %d: %w; give 1 ≤ from ≤ to ≤ %d", n1From, n1To, proportions.ErrPlan, proportions.MaxTrials)
 	}
 	step := max(1, (n1To-n1From+MaxCurvePoints-1)/MaxCurvePoints)
 	var out [][2]int64
@@ -100,10 +100,10 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 // rateGrid lists points rates evenly spaced from a to b.
 func rateGrid(a, b float64, points int) ([]float64, error) {
 	if !(a > 0 && a < 1 && b > 0 && b < 1 && a <= b) {
-		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1", a, b, proportions.ErrDesign)
+		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1", a, b, proportions.ErrPlan)
 	}
 	if points < 2 || points > MaxCurvePoints {
-		return nil, fmt.Errorf("%d points: %w; ask for 2 to %d points", points, proportions.ErrDesign, MaxCurvePoints)
+		return nil, fmt.Errorf("%d points: %w; ask for 2 to %d points", points, proportions.ErrPlan, MaxCurvePoints)
 	}
 	out := make([]float64, points)
 	for i := range out {
@@ -115,7 +115,7 @@ func rateGrid(a, b float64, points int) ([]float64, error) {
 // String prints the curve as a small table.
 func (c PowerCurve) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Power by %s for %s\n  method: %s\n", c.Axis, c.Design, c.Method)
+	fmt.Fprintf(&b, "Power by %s for %s\n  approximation: %s\n", c.Axis, c.Plan, c.Basis)
 	fmt.Fprintf(&b, "  %8s %8s %8s %10s %8s\n", "n1", "n2", "π1", "π1 − π2", "power")
 	for _, p := range c.Points {
 		fmt.Fprintf(&b, "  %8d %8d %8.4f %+10.4f %8.4f\n", p.N1, p.N2, p.Rate1, p.Difference, p.Power)

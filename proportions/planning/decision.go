@@ -11,20 +11,20 @@ import (
 
 // Validate checks every field of the design and both rates; the target
 // power and whether it can be reached are checked by the sample-size
-// questions (SampleSize, DetectableDifference). Errors wrap ErrDesign,
+// questions (SampleSize, DetectableDifference). Errors wrap ErrPlan,
 // ErrMargin, ErrAlternative or ErrUnsupported.
-func (d Design) Validate() error {
+func (d Plan) Validate() error {
 	_, err := checkedModel(d)
 	return err
 }
 
 // SecondGroupSize returns the size of group 2 for n1 units in group 1,
 // ⌈r·n1⌉ with r = Allocation (equal groups when Allocation is 0).
-func (d Design) SecondGroupSize(n1 int64) int64 { return groupTwoSize(n1, d.allocation()) }
+func (d Plan) SecondGroupSize(n1 int64) int64 { return groupTwoSize(n1, d.allocation()) }
 
 // Enrolled returns the units to enrol for n with an outcome,
 // ⌈n/(1 − Dropout)⌉.
-func (d Design) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
+func (d Plan) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 
 // TestHypotheses returns the hypotheses with which the test m carries out
 // the design's decision, each at level α (Conf.Level = 1 − α): one
@@ -38,7 +38,7 @@ func (d Design) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 // margin needs a test on the design's scale that accepts margins. Errors
 // wrap ErrUnsupported for a test that cannot carry out the design, and the
 // errors of Design validation.
-func (d Design) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothesis, error) {
+func (d Plan) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothesis, error) {
 	if err := d.validate(); err != nil {
 		return nil, err
 	}
@@ -52,9 +52,9 @@ func (d Design) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothes
 	var specs []spec
 	switch d.Goal {
 	case Equality:
-		specs = []spec{{m.Family.NoEffect(), proportions.TwoSided}}
+		specs = []spec{{m.Scale.NoEffect(), proportions.TwoSided}}
 	case Superiority, NonInferiority:
-		specs = []spec{{d.Margin, d.Alternative}}
+		specs = []spec{{d.Margin, d.alternative()}}
 	case Equivalence:
 		lo, hi := d.equivalenceBounds()
 		specs = []spec{{lo, proportions.Greater}, {hi, proportions.Less}}
@@ -62,12 +62,12 @@ func (d Design) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothes
 	hs := make([]proportions.Hypothesis, 0, len(specs))
 	for _, s := range specs {
 		null := s.null
-		if d.Goal != Equality && m.Family != d.Scale {
+		if d.Goal != Equality && m.Scale != d.Scale {
 			if null != d.Scale.NoEffect() {
 				return nil, fmt.Errorf("%s on the %s scale with %s: %w; a margin on the %s scale needs a test on that scale",
 					d.Goal, d.Scale, m.Name, proportions.ErrUnsupported, d.Scale)
 			}
-			null = m.Family.NoEffect()
+			null = m.Scale.NoEffect()
 		}
 		settings, err := proportions.NewSettings(proportions.WithLevel(1-d.Alpha), proportions.WithNull(null), proportions.WithAlternative(s.alt))
 		if err != nil {

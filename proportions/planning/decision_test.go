@@ -8,18 +8,18 @@ import (
 )
 
 func TestDesignTestHypotheses(t *testing.T) {
-	ni := NewDesign(NonInferiority, 0.8, 0.8)
+	ni := NewPlan(NonInferiority, 0.8, 0.8)
 	ni.Margin = -0.1
-	equiv := NewDesign(Equivalence, 0.5, 0.5)
+	equiv := NewPlan(Equivalence, 0.5, 0.5)
 	equiv.Scale, equiv.Margin = proportions.Ratio, 0.8 // read as 0.8 to 1.25
-	sup := NewDesign(Superiority, 0.3, 0.2)
+	sup := NewPlan(Superiority, 0.3, 0.2)
 	cases := []struct {
-		d    Design
+		d    Plan
 		m    proportions.TestMethod
 		want []proportions.Hypothesis
 	}{
-		{NewDesign(Equality, 0.6, 0.75), proportions.FarringtonManningRatio, []proportions.Hypothesis{{Null: 1, Alternative: proportions.TwoSided}}},
-		{equiv, proportions.FarringtonManningRatio, []proportions.Hypothesis{{Null: 0.8, Alternative: proportions.Greater}, {Null: 1.25, Alternative: proportions.Less}}},
+		{NewPlan(Equality, 0.6, 0.75), proportions.FarringtonManningRatioTest, []proportions.Hypothesis{{Null: 1, Alternative: proportions.TwoSided}}},
+		{equiv, proportions.FarringtonManningRatioTest, []proportions.Hypothesis{{Null: 0.8, Alternative: proportions.Greater}, {Null: 1.25, Alternative: proportions.Less}}},
 		// A no-effect margin may be tested on another scale.
 		{sup, proportions.MiettinenNurminenRatioTest, []proportions.Hypothesis{{Null: 1, Alternative: proportions.Greater}}},
 	}
@@ -37,16 +37,16 @@ func TestDesignTestHypotheses(t *testing.T) {
 			}
 		}
 	}
-	if _, err := ni.TestHypotheses(proportions.FarringtonManningRatio); !errors.Is(err, proportions.ErrUnsupported) {
+	if _, err := ni.TestHypotheses(proportions.FarringtonManningRatioTest); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("difference margin with a ratio test: %v", err)
 	}
-	if _, err := ni.TestHypotheses(proportions.Fisher); !errors.Is(err, proportions.ErrUnsupported) {
+	if _, err := ni.TestHypotheses(proportions.FisherTest); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("margin with a test of no effect only: %v", err)
 	}
-	if got := (Design{Allocation: 1.5}).SecondGroupSize(11); got != 17 {
+	if got := (Plan{Allocation: 1.5}).SecondGroupSize(11); got != 17 {
 		t.Errorf("⌈1.5·11⌉ = %d", got)
 	}
-	if got := (Design{Dropout: 0.2}).Enrolled(100); got != 125 {
+	if got := (Plan{Dropout: 0.2}).Enrolled(100); got != 125 {
 		t.Errorf("100/(1 − 0.2) = %d", got)
 	}
 }

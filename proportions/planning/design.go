@@ -98,10 +98,10 @@ func unmarshalName(b []byte, names []string, what string) (int, error) {
 			return i, nil
 		}
 	}
-	return 0, fmt.Errorf("%s %q: %w; use one of %q", what, s, proportions.ErrDesign, names)
+	return 0, fmt.Errorf("%s %q: %w; use one of %q", what, s, proportions.ErrPlan, names)
 }
 
-// Design describes a planned two-group study: what it sets out to show, the
+// Plan describes a planned two-group study: what it sets out to show, the
 // rates anticipated in each group, the error rates and the shape of the
 // groups. The study-planning functions (SampleSize, PowerAt,
 // DetectableDifference, the curves and the exact searches) all take one.
@@ -114,16 +114,16 @@ func unmarshalName(b []byte, names []string, what string) (int, error) {
 // Conventions: group 1 is the new or experimental arm, group 2 the
 // reference; θ is π1 − π2 on the difference scale and π1/π2 on the ratio
 // scale.
-type Design struct {
+type Plan struct {
 	Goal Goal `json:"goal"`
 	// Scale is Difference (default) or Ratio; it is the scale of Margin.
 	// A test of equality is the same on both scales.
-	Scale proportions.Family `json:"scale"`
-	// Alternative is the direction of a Superiority or NonInferiority
-	// design: Greater when higher rates are better, Less when lower rates
-	// are better. It must be TwoSided (the zero value) for Equality and
-	// Equivalence.
-	Alternative proportions.Alternative `json:"alternative"`
+	Scale proportions.Scale `json:"scale"`
+	// Better says which way the rates are good (HigherIsBetter, the zero
+	// value, or LowerIsBetter); a Superiority or NonInferiority plan tests
+	// the one-sided alternative that the first group is better. Equality
+	// and Equivalence plans are two-sided and do not read it.
+	Better proportions.Better `json:"better"`
 	// Rate1 and Rate2 are the anticipated true rates π1 and π2, in (0, 1).
 	Rate1 float64 `json:"rate1"`
 	Rate2 float64 `json:"rate2"`
@@ -153,8 +153,8 @@ type Design struct {
 
 // Default planning error rates used by NewDesign.
 const (
-	// DefaultPlanningPower is the target power used by NewDesign.
-	DefaultPlanningPower = 0.8
+	// DefaultPower is the target power used by NewDesign.
+	DefaultPower = 0.8
 	// DefaultTwoSidedAlpha is NewDesign's α for Equality.
 	DefaultTwoSidedAlpha = 0.05
 	// DefaultOneSidedAlpha is NewDesign's α for the one-sided goals and for
@@ -163,25 +163,23 @@ const (
 	DefaultOneSidedAlpha = 0.025
 )
 
-// NewDesign returns a design on the difference scale with the defaults:
+// NewPlan returns a design on the difference scale with the defaults:
 // power 0.8, α 0.05 two-sided for Equality and 0.025 one-sided otherwise,
 // equal groups, no drop-out, pooled variance, no continuity correction, and
-// Alternative Greater for the one-sided goals. Set Margin (and any other
+// higher rates better. Set Margin (and any other
 // field) on the result.
-func NewDesign(goal Goal, rate1, rate2 float64) Design {
-	d := Design{Goal: goal, Scale: proportions.Difference, Rate1: rate1, Rate2: rate2,
-		Alpha: DefaultOneSidedAlpha, Power: DefaultPlanningPower, Allocation: 1}
+func NewPlan(goal Goal, rate1, rate2 float64) Plan {
+	d := Plan{Goal: goal, Scale: proportions.Difference, Rate1: rate1, Rate2: rate2,
+		Alpha: DefaultOneSidedAlpha, Power: DefaultPower, Allocation: 1}
 	switch goal {
 	case Equality:
 		d.Alpha = DefaultTwoSidedAlpha
-	case Superiority, NonInferiority:
-		d.Alternative = proportions.Greater
 	}
 	return d
 }
 
 // allocation returns r = n2/n1 with 0 read as 1.
-func (d Design) allocation() float64 {
+func (d Plan) allocation() float64 {
 	if d.Allocation == 0 {
 		return 1
 	}
@@ -190,7 +188,7 @@ func (d Design) allocation() float64 {
 
 // String prints the design in one line, for example
 // "non-inferiority on the difference, π1 = 0.85 vs π2 = 0.85, margin -0.1, one-sided α = 0.025, power 0.8, n2/n1 = 1".
-func (d Design) String() string {
+func (d Plan) String() string {
 	alpha := fmt.Sprintf("one-sided α = %v", d.Alpha)
 	switch d.Goal {
 	case Equality:
@@ -203,7 +201,7 @@ func (d Design) String() string {
 		s += fmt.Sprintf(", margin %v", d.Margin)
 	}
 	if d.Goal == Superiority || d.Goal == NonInferiority {
-		s += fmt.Sprintf(" (alternative %s)", d.Alternative)
+		s += fmt.Sprintf(" (%s is better)", d.Better)
 	}
 	s += fmt.Sprintf(", %s, power %v, n2/n1 = %v", alpha, d.Power, d.allocation())
 	if d.Dropout > 0 {
@@ -221,26 +219,26 @@ const (
 
 // validate checks every field except the rates and the power, which not
 // every question uses (validateRate, validatePower).
-func (d Design) validate() error {
+func (d Plan) validate() error {
 	if d.Goal < Equality || d.Goal > Equivalence {
-		return fmt.Errorf("goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrDesign)
+		return fmt.Errorf("goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrPlan)
 	}
 	if d.Scale != proportions.Difference && d.Scale != proportions.Ratio {
 		return fmt.Errorf("scale %s: %w; planning works on the difference or the ratio scale", d.Scale, proportions.ErrUnsupported)
 	}
 	if !(d.Alpha > 0 && d.Alpha <= 0.5) {
-		return fmt.Errorf("alpha %v: %w; the significance level must lie in (0, 0.5], such as 0.05 (two-sided) or 0.025 (one-sided)", d.Alpha, proportions.ErrDesign)
+		return fmt.Errorf("alpha %v: %w; the significance level must lie in (0, 0.5], such as 0.05 (two-sided) or 0.025 (one-sided)", d.Alpha, proportions.ErrPlan)
 	}
 	if r := d.allocation(); !(r >= minAllocation && r <= maxAllocation) {
-		return fmt.Errorf("allocation n2/n1 = %v: %w; it must lie in [%v, %v] (0 means equal groups)", d.Allocation, proportions.ErrDesign, minAllocation, maxAllocation)
+		return fmt.Errorf("allocation n2/n1 = %v: %w; it must lie in [%v, %v] (0 means equal groups)", d.Allocation, proportions.ErrPlan, minAllocation, maxAllocation)
 	}
 	if !(d.Dropout >= 0 && d.Dropout < 1) {
-		return fmt.Errorf("drop-out share %v: %w; it must lie in [0, 1), such as 0.1 for 10%%", d.Dropout, proportions.ErrDesign)
+		return fmt.Errorf("drop-out share %v: %w; it must lie in [0, 1), such as 0.1 for 10%%", d.Dropout, proportions.ErrPlan)
 	}
 	if d.Variance != Pooled && d.Variance != Unpooled {
-		return fmt.Errorf("variance rule %d: %w; use Pooled or Unpooled", int(d.Variance), proportions.ErrDesign)
+		return fmt.Errorf("variance rule %d: %w; use Pooled or Unpooled", int(d.Variance), proportions.ErrPlan)
 	}
-	if err := d.validateAlternative(); err != nil {
+	if err := d.Better.Validate(); err != nil {
 		return err
 	}
 	if err := d.validateMargin(); err != nil {
@@ -254,34 +252,30 @@ func (d Design) validate() error {
 
 func validateRate(which string, p float64) error {
 	if !(p > 0 && p < 1) {
-		return fmt.Errorf("%s anticipated rate %v: %w; a rate must lie strictly between 0 and 1", which, p, proportions.ErrDesign)
+		return fmt.Errorf("%s anticipated rate %v: %w; a rate must lie strictly between 0 and 1", which, p, proportions.ErrPlan)
 	}
 	return nil
 }
 
-func (d Design) validatePower() error {
+func (d Plan) validatePower() error {
 	if !(d.Power > d.Alpha && d.Power < 1) {
-		return fmt.Errorf("power %v: %w; the target power must lie strictly between α = %v and 1, such as 0.8 or 0.9", d.Power, proportions.ErrDesign, d.Alpha)
+		return fmt.Errorf("power %v: %w; the target power must lie strictly between α = %v and 1, such as 0.8 or 0.9", d.Power, proportions.ErrPlan, d.Alpha)
 	}
 	return nil
 }
 
-func (d Design) validateAlternative() error {
-	switch d.Goal {
-	case Superiority, NonInferiority:
-		if d.Alternative != proportions.Greater && d.Alternative != proportions.Less {
-			return fmt.Errorf("%s with alternative %s: %w; a %s design is one-sided: use Greater when higher rates are better, Less when lower rates are better", d.Goal, d.Alternative, proportions.ErrAlternative, d.Goal)
-		}
-	default:
-		if d.Alternative != proportions.TwoSided {
-			return fmt.Errorf("%s with alternative %s: %w; leave Alternative at TwoSided (a one-sided test of no difference is Superiority with margin 0)", d.Goal, d.Alternative, proportions.ErrAlternative)
-		}
+// alternative is the alternative hypothesis of the plan's test: one-sided
+// towards the better group for Superiority and NonInferiority, two-sided
+// otherwise (Equivalence's two one-sided tests are built in decision.go).
+func (d Plan) alternative() proportions.Alternative {
+	if d.Goal == Superiority || d.Goal == NonInferiority {
+		return d.Better.Alternative()
 	}
-	return nil
+	return proportions.TwoSided
 }
 
 // validateMargin checks the margin's range and its sign for the goal.
-func (d Design) validateMargin() error {
+func (d Plan) validateMargin() error {
 	m := d.Margin
 	if d.Goal == Equality {
 		if m != 0 {
@@ -293,12 +287,12 @@ func (d Design) validateMargin() error {
 		m = 1 / m // read as the upper bound
 	}
 	if err := proportions.ValidateNull(d.Scale, m); err != nil {
-		return err
+		return fmt.Errorf("%s margin %v on the %s scale: %w (%v)", d.Goal, d.Margin, d.Scale, proportions.ErrMargin, err)
 	}
 	one := d.Scale.NoEffect()
 	var ok bool
 	var want string
-	up := d.Alternative == proportions.Greater
+	up := d.Better == proportions.HigherIsBetter
 	switch d.Goal {
 	case NonInferiority:
 		ok = (up && m < one) || (!up && m > one)
@@ -312,7 +306,7 @@ func (d Design) validateMargin() error {
 	if !ok {
 		hint := ""
 		if d.Goal != Equivalence {
-			hint = fmt.Sprintf(" when the alternative is %s", d.Alternative)
+			hint = fmt.Sprintf(" when %s rates are better", d.Better)
 		}
 		return fmt.Errorf("%s margin %v on the %s scale: %w; it must be %s %v%s",
 			d.Goal, d.Margin, d.Scale, proportions.ErrMargin, want, one, hint)
@@ -322,7 +316,7 @@ func (d Design) validateMargin() error {
 
 // nullValue is the value of θ under the null hypothesis (the no-effect
 // value for Equality).
-func (d Design) nullValue() float64 {
+func (d Plan) nullValue() float64 {
 	if d.Goal == Equality {
 		return d.Scale.NoEffect()
 	}
@@ -330,7 +324,7 @@ func (d Design) nullValue() float64 {
 }
 
 // equivalenceBounds returns the lower and upper equivalence limits of θ.
-func (d Design) equivalenceBounds() (lo, hi float64) {
+func (d Plan) equivalenceBounds() (lo, hi float64) {
 	m := math.Abs(d.Margin)
 	if d.Scale == proportions.Ratio {
 		if m < 1 {

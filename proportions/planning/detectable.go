@@ -31,14 +31,14 @@ type DetectableSide struct {
 // Equivalence, Below and Above are the ends of the range of π1 within which
 // the power is at least the target.
 type DetectableResult struct {
-	Design   Design         `json:"design"`
-	Method   string         `json:"method"`
-	Citation string         `json:"citation"`
-	N1       int64          `json:"n1"`
-	N2       int64          `json:"n2"`
-	Below    DetectableSide `json:"below"`
-	Above    DetectableSide `json:"above"`
-	Caution  string         `json:"caution"`
+	Plan          Plan           `json:"plan"`
+	Approximation string         `json:"approximation"`
+	Citation      string         `json:"citation"`
+	N1            int64          `json:"n1"`
+	N2            int64          `json:"n2"`
+	Below         DetectableSide `json:"below"`
+	Above         DetectableSide `json:"above"`
+	Caution       string         `json:"caution"`
 }
 
 // DetectableDifference returns the true rates of the first group that the
@@ -48,7 +48,7 @@ type DetectableResult struct {
 // Dropout are not used. It returns an error wrapping ErrUnreachable when
 // no rate on any side reaches the power, and the errors of PowerAt for
 // bad input.
-func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
+func DetectableDifference(d Plan, n1, n2 int64) (DetectableResult, error) {
 	if err := d.validate(); err != nil {
 		return DetectableResult{}, err
 	}
@@ -60,7 +60,7 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 	}
 	sr := rateSearch{d: d, r: float64(n2) / float64(n1), n1: float64(n1), z: d.critical(), zp: special.NormalQuantile(d.Power)}
 	method, cite, _ := describeMethod(d)
-	res := DetectableResult{Design: d, Method: method, Citation: cite, N1: n1, N2: n2, Caution: PlanningCaution}
+	res := DetectableResult{Plan: d, Approximation: method, Citation: cite, N1: n1, N2: n2, Caution: Caution}
 	const edge = 1e-9 // keep π1 inside (0, 1)
 	lo, hi := edge, 1-edge
 	switch d.Goal {
@@ -81,7 +81,7 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 		res.Above = d.side(sr.find(0, d.Rate2, hi, p2))
 	default:
 		start := d.rateAt(d.Margin)
-		if d.Alternative == proportions.Greater {
+		if d.Better == proportions.HigherIsBetter {
 			from := math.Max(lo, start)
 			res.Above = d.side(sr.find(0, from, hi, sr.power(from)))
 		} else {
@@ -99,7 +99,7 @@ func DetectableDifference(d Design, n1, n2 int64) (DetectableResult, error) {
 // rateSearch solves the design's power for the first group's rate, π2 and
 // the group sizes fixed.
 type rateSearch struct {
-	d     Design
+	d     Plan
 	r, n1 float64
 	z, zp float64 // critical value and z_{power}
 }
@@ -176,7 +176,7 @@ func (s rateSearch) find(k int, from, to, powerFrom float64) (float64, bool) {
 }
 
 // rateAt returns the first group's rate at which θ equals v, given π2.
-func (d Design) rateAt(v float64) float64 {
+func (d Plan) rateAt(v float64) float64 {
 	if d.Scale == proportions.Ratio {
 		return v * d.Rate2
 	}
@@ -184,7 +184,7 @@ func (d Design) rateAt(v float64) float64 {
 }
 
 // side wraps a rate found (ok) into a DetectableSide.
-func (d Design) side(p1 float64, ok bool) DetectableSide {
+func (d Plan) side(p1 float64, ok bool) DetectableSide {
 	if !ok {
 		return DetectableSide{}
 	}
@@ -194,7 +194,7 @@ func (d Design) side(p1 float64, ok bool) DetectableSide {
 // String prints what the design can detect.
 func (r DetectableResult) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Detectable with %d + %d units, power %v, π2 = %v (%s)\n", r.N1, r.N2, r.Design.Power, r.Design.Rate2, r.Design.Goal)
+	fmt.Fprintf(&b, "Detectable with %d + %d units, power %v, π2 = %v (%s)\n", r.N1, r.N2, r.Plan.Power, r.Plan.Rate2, r.Plan.Goal)
 	for _, s := range []struct {
 		name string
 		side DetectableSide
@@ -203,7 +203,7 @@ func (r DetectableResult) String() string {
 			fmt.Fprintf(&b, "  %s: π1 = %.4f (difference %+.4f, ratio %.4f)\n", s.name, s.side.Rate1, s.side.Difference, s.side.Ratio)
 		}
 	}
-	fmt.Fprintf(&b, "  method: %s\n", r.Method)
+	fmt.Fprintf(&b, "  approximation: %s\n", r.Approximation)
 	writeNotes(&b, nil, r.Caution)
 	return b.String()
 }

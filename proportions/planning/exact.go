@@ -9,17 +9,17 @@ import (
 	"github.com/propscope/propscope/proportions/operating"
 )
 
-// MaxExactGroup is the largest group size for which exact power is
+// MaxExactTrials is the largest group size for which exact power is
 // computed: that of the operating-characteristics engine (package operating).
-const MaxExactGroup = operating.MaxGroupSize
+const MaxExactTrials = operating.MaxDesignTrials
 
 // ExactPowerResult is the exact power of the test the user will run, for a
 // design and group sizes.
 type ExactPowerResult struct {
-	Design Design `json:"design"`
-	// Test is the key of the test, TestName its published name.
-	Test       string                   `json:"test"`
-	TestName   string                   `json:"test_name"`
+	Plan Plan `json:"plan"`
+	// Method is the key of the test, TestName its published name.
+	Method     string                   `json:"method"`
+	MethodName string                   `json:"method_name"`
 	Citation   string                   `json:"citation"`
 	Hypotheses []proportions.Hypothesis `json:"hypotheses"`
 	N1         int64                    `json:"n1"`
@@ -46,9 +46,9 @@ type ExactPowerResult struct {
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
 // its own statistic). Errors wrap the sentinels of SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the
-// design, ErrDesign for sizes outside [1, MaxExactGroup], or the context's
+// design, ErrPlan for sizes outside [1, MaxExactGroup], or the context's
 // error when it is cancelled.
-func ExactPower(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
+func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return ExactPowerResult{}, err
@@ -56,7 +56,7 @@ func ExactPower(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 
 	if err := checkSizes(n1, n2); err != nil {
 		return ExactPowerResult{}, err
 	}
-	asym, err := PowerAt(d, n1, n2)
+	asym, err := Power(d, n1, n2)
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
@@ -64,13 +64,13 @@ func ExactPower(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
-	return ExactPowerResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Hypotheses: dc.Hypotheses,
-		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: PlanningCaution}, nil
+	return ExactPowerResult{Plan: d, Method: m.Key, MethodName: m.Name, Citation: m.Citation, Hypotheses: dc.Hypotheses,
+		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: Caution}, nil
 }
 
 // newDecision validates the design's fields and rates (not its power) and
 // the test, and returns the decision rule for the engine.
-func newDecision(d Design, m proportions.TestMethod) (operating.Decision, error) {
+func newDecision(d Plan, m proportions.TestMethod) (operating.Decision, error) {
 	if err := d.Validate(); err != nil {
 		return operating.Decision{}, err
 	}
@@ -88,8 +88,8 @@ func exactPower(ctx context.Context, dc operating.Decision, n1, n2 int64, p1, p2
 
 func checkSizes(n1, n2 int64) error {
 	for i, n := range []int64{n1, n2} {
-		if n < 1 || n > MaxExactGroup {
-			return fmt.Errorf("group %d size %d: %w; exact power is computed for 1 to %d units per group", i+1, n, proportions.ErrDesign, MaxExactGroup)
+		if n < 1 || n > MaxExactTrials {
+			return fmt.Errorf("group %d size %d: %w; exact power is computed for 1 to %d units per group", i+1, n, proportions.ErrPlan, MaxExactTrials)
 		}
 	}
 	return nil
@@ -110,26 +110,26 @@ func testNotes(m proportions.TestMethod) []string {
 // is the smallest size from which every size up to Horizon reaches it (the
 // safer plan). Curve holds the exact power at every size scanned.
 type ExactSampleSizeResult struct {
-	Design   Design `json:"design"`
-	Test     string `json:"test"`
-	TestName string `json:"test_name"`
-	Citation string `json:"citation"`
+	Plan       Plan   `json:"plan"`
+	Method     string `json:"method"`
+	MethodName string `json:"method_name"`
+	Citation   string `json:"citation"`
 	// Asymptotic is the normal-approximation answer of SampleSize.
 	Asymptotic SampleSizeResult `json:"asymptotic"`
 	From       int64            `json:"from"`
 	Horizon    int64            `json:"horizon"`
-	First      ExactSize        `json:"first"`
+	First      GroupSizes       `json:"first"`
 	// Stable is the zero ExactSize with StableFound false when the power at
 	// a horizon set in Search falls below the target.
-	Stable      ExactSize  `json:"stable"`
+	Stable      GroupSizes `json:"stable"`
 	StableFound bool       `json:"stable_found"`
 	Curve       PowerCurve `json:"curve"`
 	Notes       []string   `json:"notes"`
 	Caution     string     `json:"caution"`
 }
 
-// ExactSize is one group-size answer of the exact search.
-type ExactSize struct {
+// GroupSizes is one group-size answer of the exact search.
+type GroupSizes struct {
 	N1    int64   `json:"n1"`
 	N2    int64   `json:"n2"`
 	Power float64 `json:"power"`
@@ -147,8 +147,8 @@ type ExactSize struct {
 // Errors are those of SampleSize and ExactPower, ErrUnreachable
 // when no size up to Search.MaxN1 reaches the target, ErrTooLarge when the
 // asymptotic size is above 1.5·MaxN1 (checked first, to fail fast), and
-// ErrDesign for a bad Search.
-func ExactSampleSize(ctx context.Context, d Design, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
+// ErrPlan for a bad Search.
+func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
 	asym, err := SampleSize(d)
 	if err != nil {
 		return ExactSampleSizeResult{}, err
@@ -171,9 +171,9 @@ func ExactSampleSize(ctx context.Context, d Design, m proportions.TestMethod, s 
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
-	res := ExactSampleSizeResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Asymptotic: asym,
-		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: PlanningCaution,
-		Curve: PowerCurve{Design: d, Method: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: PlanningCaution}}
+	res := ExactSampleSizeResult{Plan: d, Method: m.Key, MethodName: m.Name, Citation: m.Citation, Asymptotic: asym,
+		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: Caution,
+		Curve: PowerCurve{Plan: d, Basis: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: Caution}}
 	res.First = sizeAt(d, sc.curve, sc.first)
 	if sc.stableFound {
 		res.Stable = sizeAt(d, sc.curve, sc.stable)
@@ -183,13 +183,13 @@ func ExactSampleSize(ctx context.Context, d Design, m proportions.TestMethod, s 
 }
 
 // sizeAt picks the curve point at n1.
-func sizeAt(d Design, curve []PowerPoint, n1 int64) ExactSize {
+func sizeAt(d Plan, curve []PowerPoint, n1 int64) GroupSizes {
 	for _, p := range curve {
 		if p.N1 == n1 {
-			return ExactSize{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
+			return GroupSizes{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
 		}
 	}
-	return ExactSize{}
+	return GroupSizes{}
 }
 
 func searchNotes(r ExactSampleSizeResult) []string {
@@ -205,20 +205,20 @@ func searchNotes(r ExactSampleSizeResult) []string {
 	return notes
 }
 
-// ExactPowerByN returns the exact power of test m for every n1 from n1From
+// ExactPowerByTrials returns the exact power of test m for every n1 from n1From
 // to n1To (in equal steps when that is more than MaxCurvePoints
 // sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Design.Power is
 // not used.
-func ExactPowerByN(ctx context.Context, d Design, m proportions.TestMethod, n1From, n1To int64) (PowerCurve, error) {
+func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n1From, n1To int64) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return PowerCurve{}, err
 	}
-	grid, err := PowerByN(d, n1From, n1To) // validates the range, gives the sizes
+	grid, err := PowerByTrials(d, n1From, n1To) // validates the range, gives the sizes
 	if err != nil {
 		return PowerCurve{}, err
 	}
-	grid.Method = "exact power of " + m.Name
+	grid.Basis = "exact power of " + m.Name
 	for i, p := range grid.Points {
 		if err := checkSizes(p.N1, p.N2); err != nil {
 			return PowerCurve{}, err
@@ -235,7 +235,7 @@ func ExactPowerByN(ctx context.Context, d Design, m proportions.TestMethod, n1Fr
 // from rate1From to rate1To, π2 = Design.Rate2 fixed. The test runs once on
 // every outcome (operating.NewRejectionRegion, which stops when ctx is
 // cancelled); each rate then costs one sum over the region's runs.
-func ExactPowerByDifference(ctx context.Context, d Design, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
+func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return PowerCurve{}, err
@@ -251,7 +251,7 @@ func ExactPowerByDifference(ctx context.Context, d Design, m proportions.TestMet
 	if err != nil {
 		return PowerCurve{}, err
 	}
-	grid.Method = "exact power of " + m.Name
+	grid.Basis = "exact power of " + m.Name
 	for i, p := range grid.Points {
 		if grid.Points[i].Power, err = region.Power(p.Rate1, d.Rate2); err != nil {
 			return PowerCurve{}, err
@@ -264,7 +264,7 @@ func ExactPowerByDifference(ctx context.Context, d Design, m proportions.TestMet
 func (r ExactPowerResult) String() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Exact power %.4f of %s with %d + %d units (normal approximation %.4f)\n  design: %s\n",
-		r.Power, r.TestName, r.N1, r.N2, r.Asymptotic, r.Design)
+		r.Power, r.MethodName, r.N1, r.N2, r.Asymptotic, r.Plan)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()
 }
@@ -272,15 +272,15 @@ func (r ExactPowerResult) String() string {
 // String prints the search result in a few lines.
 func (r ExactSampleSizeResult) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Exact sample size for %s with %s\n", r.Design, r.TestName)
+	fmt.Fprintf(&b, "Exact sample size for %s with %s\n", r.Plan, r.MethodName)
 	fmt.Fprintf(&b, "  smallest size reaching the target: %d + %d (power %.4f)\n", r.First.N1, r.First.N2, r.First.Power)
 	if r.StableFound {
 		fmt.Fprintf(&b, "  stays at or above it from: %d + %d (power %.4f), checked up to n1 = %d\n", r.Stable.N1, r.Stable.N2, r.Stable.Power, r.Horizon)
-		if r.Design.Dropout > 0 {
+		if r.Plan.Dropout > 0 {
 			fmt.Fprintf(&b, "  enrol %d + %d for the stable size\n", r.Stable.Enrolled1, r.Stable.Enrolled2)
 		}
 	}
-	fmt.Fprintf(&b, "  normal approximation: %d + %d (%s)\n", r.Asymptotic.N1, r.Asymptotic.N2, r.Asymptotic.Method)
+	fmt.Fprintf(&b, "  normal approximation: %d + %d (%s)\n", r.Asymptotic.N1, r.Asymptotic.N2, r.Asymptotic.Approximation)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()
 }

@@ -20,7 +20,7 @@ import (
 // ±∞ otherwise). It accepts margins, so it exercises the one-sided and
 // equivalence designs on the difference scale.
 var waldDifference = proportions.TestMethod{
-	Key: "test-wald", Name: "Wald z test (test helper)", Family: proportions.Difference, Margins: true,
+	Key: "test-wald", Name: "Wald z test (test helper)", Scale: proportions.Difference, Margins: true,
 	Run: func(c proportions.Counts, h proportions.Hypothesis) proportions.TestResult {
 		p1, p2 := c.P1(), c.P2()
 		v := p1*(1-p1)/float64(c.N1) + p2*(1-p2)/float64(c.N2)
@@ -47,7 +47,7 @@ var waldDifference = proportions.TestMethod{
 
 // bruteRejects decides through the public Test entry point with options,
 // independently of Design.TestHypotheses.
-func bruteRejects(t *testing.T, d Design, m proportions.TestMethod, c proportions.Counts) bool {
+func bruteRejects(t *testing.T, d Plan, m proportions.TestMethod, c proportions.Counts) bool {
 	t.Helper()
 	type one struct {
 		null float64
@@ -56,16 +56,16 @@ func bruteRejects(t *testing.T, d Design, m proportions.TestMethod, c proportion
 	var runs []one
 	switch d.Goal {
 	case Equality:
-		runs = []one{{m.Family.NoEffect(), proportions.TwoSided}}
+		runs = []one{{m.Scale.NoEffect(), proportions.TwoSided}}
 	case Equivalence:
 		runs = []one{{-d.Margin, proportions.Greater}, {d.Margin, proportions.Less}}
 		if d.Scale == proportions.Ratio {
 			runs = []one{{1 / d.Margin, proportions.Greater}, {d.Margin, proportions.Less}}
 		}
 	default:
-		runs = []one{{d.Margin, d.Alternative}}
-		if m.Family != d.Scale { // a no-effect margin, tested on the test's own scale
-			runs[0].null = m.Family.NoEffect()
+		runs = []one{{d.Margin, d.alternative()}}
+		if m.Scale != d.Scale { // a no-effect margin, tested on the test's own scale
+			runs[0].null = m.Scale.NoEffect()
 		}
 	}
 	for _, r := range runs {
@@ -81,7 +81,7 @@ func bruteRejects(t *testing.T, d Design, m proportions.TestMethod, c proportion
 }
 
 // brutePower enumerates every outcome with gonum's binomial probabilities.
-func brutePower(t *testing.T, d Design, m proportions.TestMethod, n1, n2 int64) float64 {
+func brutePower(t *testing.T, d Plan, m proportions.TestMethod, n1, n2 int64) float64 {
 	t.Helper()
 	b1 := distuv.Binomial{N: float64(n1), P: d.Rate1}
 	b2 := distuv.Binomial{N: float64(n2), P: d.Rate2}
@@ -98,36 +98,36 @@ func brutePower(t *testing.T, d Design, m proportions.TestMethod, n1, n2 int64) 
 
 func exactDesigns() []struct {
 	name string
-	d    Design
+	d    Plan
 	m    proportions.TestMethod
 } {
-	eq := NewDesign(Equality, 0.6, 0.75)
-	ni := NewDesign(NonInferiority, 0.8, 0.8)
+	eq := NewPlan(Equality, 0.6, 0.75)
+	ni := NewPlan(NonInferiority, 0.8, 0.8)
 	ni.Margin = -0.15
-	sup := NewDesign(Superiority, 0.1, 0.3)
-	sup.Alternative = proportions.Less
-	equiv := NewDesign(Equivalence, 0.5, 0.5)
+	sup := NewPlan(Superiority, 0.1, 0.3)
+	sup.Better = proportions.LowerIsBetter
+	equiv := NewPlan(Equivalence, 0.5, 0.5)
 	equiv.Margin = 0.2
-	ratioNI := NewDesign(NonInferiority, 0.5, 0.5)
+	ratioNI := NewPlan(NonInferiority, 0.5, 0.5)
 	ratioNI.Scale, ratioNI.Margin, ratioNI.Allocation = proportions.Ratio, 0.75, 1.5
-	ratioEquiv := NewDesign(Equivalence, 0.5, 0.5)
+	ratioEquiv := NewPlan(Equivalence, 0.5, 0.5)
 	ratioEquiv.Scale, ratioEquiv.Margin = proportions.Ratio, 1.4
 	return []struct {
 		name string
-		d    Design
+		d    Plan
 		m    proportions.TestMethod
 	}{
-		{"equality score (ratio scale)", eq, proportions.FarringtonManningRatio},
-		{"equality score", eq, proportions.FarringtonManning},
-		{"equality chi-square", eq, proportions.PearsonChiSquare},
-		{"non-inferiority score", ni, proportions.FarringtonManning},
+		{"equality score (ratio scale)", eq, proportions.FarringtonManningRatioTest},
+		{"equality score", eq, proportions.FarringtonManningTest},
+		{"equality chi-square", eq, proportions.PearsonChiSquareTest},
+		{"non-inferiority score", ni, proportions.FarringtonManningTest},
 		{"equivalence Miettinen–Nurminen", equiv, proportions.MiettinenNurminenTest},
-		{"equality Fisher", eq, proportions.Fisher},
+		{"equality Fisher", eq, proportions.FisherTest},
 		{"non-inferiority Wald", ni, waldDifference},
 		{"superiority lower is better", sup, waldDifference},
 		{"superiority with a ratio test", sup, proportions.MiettinenNurminenRatioTest},
 		{"equivalence Wald", equiv, waldDifference},
-		{"ratio non-inferiority", ratioNI, proportions.FarringtonManningRatio},
+		{"ratio non-inferiority", ratioNI, proportions.FarringtonManningRatioTest},
 		{"ratio equivalence", ratioEquiv, proportions.MiettinenNurminenRatioTest},
 	}
 }
@@ -183,16 +183,16 @@ func TestExactPowerAgainstMonteCarlo(t *testing.T) {
 // horizon = max(first + 10, ⌈1.25·first⌉) (default); stable = the smallest
 // n1 from which every size up to the horizon reaches the target.
 func TestExactSampleSizeDefinition(t *testing.T) {
-	smooth := NewDesign(Equality, 0.2, 0.7)
+	smooth := NewPlan(Equality, 0.2, 0.7)
 	smooth.Power = 0.9
 	// Fisher's power at 0.7 vs 0.2 reaches 0.85 at n1 = 19, dips below at
 	// 20 and stays above from 21 (the brute force below confirms).
-	toothed := NewDesign(Equality, 0.7, 0.2)
+	toothed := NewPlan(Equality, 0.7, 0.2)
 	toothed.Power = 0.85
 	for _, tc := range []struct {
-		d Design
+		d Plan
 		m proportions.TestMethod
-	}{{smooth, proportions.Fisher}, {smooth, proportions.FarringtonManningRatio}, {toothed, proportions.Fisher}} {
+	}{{smooth, proportions.FisherTest}, {smooth, proportions.FarringtonManningRatioTest}, {toothed, proportions.FisherTest}} {
 		d, m := tc.d, tc.m
 		res, err := ExactSampleSize(context.Background(), d, m, Search{})
 		if err != nil {
@@ -236,10 +236,10 @@ func TestExactSampleSizeDefinition(t *testing.T) {
 // the smallest size reaching a target and the size from which it stays
 // there can differ. Checked against brute force, not the code's own curve.
 func TestExactPowerSawTooth(t *testing.T) {
-	d := NewDesign(Equality, 0.2, 0.7)
+	d := NewPlan(Equality, 0.2, 0.7)
 	prev, drops := 0.0, 0
 	for n := int64(1); n <= 40; n++ {
-		p := brutePower(t, d, proportions.Fisher, n, n)
+		p := brutePower(t, d, proportions.FisherTest, n, n)
 		if p < prev {
 			drops++
 		}
@@ -248,7 +248,7 @@ func TestExactPowerSawTooth(t *testing.T) {
 	if drops == 0 {
 		t.Fatal("no saw-tooth in Fisher's exact power: the premise of the two answers fails")
 	}
-	curve, err := ExactPowerByN(context.Background(), d, proportions.Fisher, 1, 40)
+	curve, err := ExactPowerByTrials(context.Background(), d, proportions.FisherTest, 1, 40)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -285,8 +285,8 @@ func TestExactPowerByDifference(t *testing.T) {
 // At large n the exact power of the score test approaches the normal
 // approximation (the model behind PowerAt).
 func TestExactPowerNearAsymptoticAtLargeN(t *testing.T) {
-	d := NewDesign(Equality, 0.6, 0.75)
-	res, err := ExactPower(context.Background(), d, proportions.FarringtonManningRatio, 400, 400)
+	d := NewPlan(Equality, 0.6, 0.75)
+	res, err := ExactPower(context.Background(), d, proportions.FarringtonManningRatioTest, 400, 400)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -297,34 +297,34 @@ func TestExactPowerNearAsymptoticAtLargeN(t *testing.T) {
 
 func TestExactPlanningErrors(t *testing.T) {
 	ctx := context.Background()
-	ni := NewDesign(NonInferiority, 0.8, 0.8)
+	ni := NewPlan(NonInferiority, 0.8, 0.8)
 	ni.Margin = -0.1
-	if _, err := ExactPower(ctx, ni, proportions.Fisher, 20, 20); !errors.Is(err, proportions.ErrUnsupported) {
+	if _, err := ExactPower(ctx, ni, proportions.FisherTest, 20, 20); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("Fisher with a margin: %v", err)
 	}
-	if _, err := ExactPower(ctx, ni, proportions.FarringtonManningRatio, 20, 20); !errors.Is(err, proportions.ErrUnsupported) {
+	if _, err := ExactPower(ctx, ni, proportions.FarringtonManningRatioTest, 20, 20); !errors.Is(err, proportions.ErrUnsupported) {
 		t.Errorf("difference margin with a ratio test: %v", err)
 	}
-	if _, err := ExactPower(ctx, ni, waldDifference, 0, 20); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := ExactPower(ctx, ni, waldDifference, 0, 20); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("n1 = 0: %v", err)
 	}
 	bad := ni
 	bad.Rate1 = 1.2
-	if _, err := ExactPower(ctx, bad, waldDifference, 20, 20); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := ExactPower(ctx, bad, waldDifference, 20, 20); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("rate 1.2: %v", err)
 	}
-	same := NewDesign(Superiority, 0.5, 0.5)
+	same := NewPlan(Superiority, 0.5, 0.5)
 	if _, err := ExactSampleSize(ctx, same, waldDifference, Search{}); !errors.Is(err, proportions.ErrUnreachable) {
 		t.Errorf("equal rates superiority: %v", err)
 	}
-	eq := NewDesign(Equality, 0.5, 0.7)
+	eq := NewPlan(Equality, 0.5, 0.7)
 	if _, err := ExactSampleSize(ctx, eq, waldDifference, Search{MaxN1: 65}); !errors.Is(err, proportions.ErrUnreachable) {
 		t.Errorf("cap below the answer: %v", err)
 	}
-	if _, err := ExactSampleSize(ctx, NewDesign(Equality, 0.5, 0.51), waldDifference, Search{}); !errors.Is(err, proportions.ErrTooLarge) {
+	if _, err := ExactSampleSize(ctx, NewPlan(Equality, 0.5, 0.51), waldDifference, Search{}); !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("asymptotic size far above the cap: %v", err)
 	}
-	if _, err := ExactSampleSize(ctx, eq, waldDifference, Search{From: 50, Horizon: 10}); !errors.Is(err, proportions.ErrDesign) {
+	if _, err := ExactSampleSize(ctx, eq, waldDifference, Search{From: 50, Horizon: 10}); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("horizon below From: %v", err)
 	}
 	cancelled, cancel := context.WithCancel(ctx)
@@ -338,9 +338,9 @@ func TestExactPlanningErrors(t *testing.T) {
 // stable size, and says so (Fisher, 0.7 vs 0.2, target 0.85: the power at
 // n1 = 20 is below the target, see TestExactSampleSizeDefinition).
 func TestExactSampleSizeUserHorizon(t *testing.T) {
-	d := NewDesign(Equality, 0.7, 0.2)
+	d := NewPlan(Equality, 0.7, 0.2)
 	d.Power = 0.85
-	res, err := ExactSampleSize(context.Background(), d, proportions.Fisher, Search{Horizon: 20})
+	res, err := ExactSampleSize(context.Background(), d, proportions.FisherTest, Search{Horizon: 20})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -378,9 +378,9 @@ func TestExactPowerFisherAgainstSciPy(t *testing.T) {
 		t.Fatalf("only %d checks", len(f.Checks))
 	}
 	for _, c := range f.Checks {
-		d := NewDesign(Equality, c.P1, c.P2)
+		d := NewPlan(Equality, c.P1, c.P2)
 		d.Alpha = c.Alpha
-		res, err := ExactPower(context.Background(), d, proportions.Fisher, c.N1, c.N2)
+		res, err := ExactPower(context.Background(), d, proportions.FisherTest, c.N1, c.N2)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -391,9 +391,9 @@ func TestExactPowerFisherAgainstSciPy(t *testing.T) {
 }
 
 func TestExactResultsPrintAndMarshal(t *testing.T) {
-	d := NewDesign(Equality, 0.7, 0.2)
+	d := NewPlan(Equality, 0.7, 0.2)
 	d.Power, d.Dropout, d.Allocation = 0.85, 0.1, 2
-	res, err := ExactSampleSize(context.Background(), d, proportions.Fisher, Search{})
+	res, err := ExactSampleSize(context.Background(), d, proportions.FisherTest, Search{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -404,7 +404,7 @@ func TestExactResultsPrintAndMarshal(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{`"test":"fisher"`, `"first":{"n1":`, `"stable_found":true`, `"axis":"n1"`} {
+	for _, want := range []string{`"method":"fisher-test"`, `"first":{"n1":`, `"stable_found":true`, `"axis":"n1"`} {
 		if !strings.Contains(string(b), want) {
 			t.Errorf("JSON lacks %s", want)
 		}
@@ -412,14 +412,14 @@ func TestExactResultsPrintAndMarshal(t *testing.T) {
 	if s := res.String(); !strings.Contains(s, "Fisher") || !strings.Contains(s, "enrol") {
 		t.Errorf("String: %s", s)
 	}
-	p, err := ExactPower(context.Background(), d, proportions.Fisher, 20, 40)
+	p, err := ExactPower(context.Background(), d, proportions.FisherTest, 20, 40)
 	if err != nil || !strings.Contains(p.String(), "Exact power") {
 		t.Errorf("ExactPower String: %v %v", p, err)
 	}
 	// A large allocation keeps group 2 within the engine's limit.
-	wide := NewDesign(Equality, 0.5, 0.7)
+	wide := NewPlan(Equality, 0.5, 0.7)
 	wide.Allocation = 30
-	if _, err := ExactSampleSize(context.Background(), wide, proportions.PearsonChiSquare, Search{}); err != nil {
+	if _, err := ExactSampleSize(context.Background(), wide, proportions.PearsonChiSquareTest, Search{}); err != nil {
 		t.Errorf("allocation 50: %v", err)
 	}
 }

@@ -12,9 +12,9 @@ import (
 // of plots, the old one 20%. The analysis will use Fisher's exact test at
 // two-sided 5%; how many plots per treatment give 85% power?
 func ExampleExactSampleSize() {
-	d := planning.NewDesign(planning.Equality, 0.70, 0.20)
+	d := planning.NewPlan(planning.Equality, 0.70, 0.20)
 	d.Power = 0.85
-	res, err := planning.ExactSampleSize(context.Background(), d, proportions.Fisher, planning.Search{})
+	res, err := planning.ExactSampleSize(context.Background(), d, proportions.FisherTest, planning.Search{})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -31,8 +31,8 @@ func ExampleExactSampleSize() {
 // The exact power of the test that will be run, beside the normal
 // approximation, for 40 plots per treatment.
 func ExampleExactPower() {
-	d := planning.NewDesign(planning.Equality, 0.45, 0.20)
-	res, err := planning.ExactPower(context.Background(), d, proportions.Fisher, 40, 40)
+	d := planning.NewPlan(planning.Equality, 0.45, 0.20)
+	res, err := planning.ExactPower(context.Background(), d, proportions.FisherTest, 40, 40)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -44,9 +44,9 @@ func ExampleExactPower() {
 
 // The saw-tooth of exact power as data for a chart: Fisher's exact test,
 // 70% against 20%, for 17 to 22 plots per treatment.
-func ExampleExactPowerByN() {
-	d := planning.NewDesign(planning.Equality, 0.70, 0.20)
-	curve, err := planning.ExactPowerByN(context.Background(), d, proportions.Fisher, 17, 22)
+func ExampleExactPowerByTrials() {
+	d := planning.NewPlan(planning.Equality, 0.70, 0.20)
+	curve, err := planning.ExactPowerByTrials(context.Background(), d, proportions.FisherTest, 17, 22)
 	if err != nil {
 		fmt.Println(err)
 		return

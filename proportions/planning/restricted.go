@@ -21,7 +21,7 @@ import (
 //
 // The ratio case reuses the score tests' solver on real-valued counts; the
 // difference case solves the Farrington–Manning cubic at real-valued rates.
-func nullRates(scale proportions.Family, p1, p2, r, null float64) (q1, q2 float64) {
+func nullRates(scale proportions.Scale, p1, p2, r, null float64) (q1, q2 float64) {
 	if null == scale.NoEffect() {
 		pooled := (p1 + r*p2) / (1 + r)
 		return pooled, pooled

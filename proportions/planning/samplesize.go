@@ -8,8 +8,8 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// PlanningCaution is shown with every planning result.
-const PlanningCaution = "A plan is only as good as the anticipated rates behind it; " +
+// Caution is shown with every planning result.
+const Caution = "A plan is only as good as the anticipated rates behind it; " +
 	"significance is not importance, and where health or safety decisions follow, " +
 	"the applicable regulations and a qualified statistician decide."
 
@@ -23,11 +23,11 @@ const (
 
 // SampleSizeResult is the asymptotic sample size of a design.
 type SampleSizeResult struct {
-	Design Design `json:"design"`
-	// Method names the formula; Citation its sources; Formula states it.
-	Method   string `json:"method"`
-	Citation string `json:"citation"`
-	Formula  string `json:"formula"`
+	Plan Plan `json:"plan"`
+	// Approximation names the formula; Citation its sources; Formula states it.
+	Approximation string `json:"approximation"`
+	Citation      string `json:"citation"`
+	Formula       string `json:"formula"`
 	// Unrounded is the formula's real-valued n1 before rounding up.
 	Unrounded float64 `json:"n1_unrounded"`
 	// N1 and N2 are the units per group with an outcome (after drop-out).
@@ -71,12 +71,12 @@ type SampleSizeResult struct {
 //     2(r+1)/(n'·r·|p1 − p2|)))², n' the uncorrected size (Casagrande, Pike
 //     & Smith 1978; Fleiss, Tytun & Ury 1980).
 //
-// It reads every field of the design. Errors wrap ErrDesign (rates, α,
+// It reads every field of the design. Errors wrap ErrPlan (rates, α,
 // power, allocation, drop-out), ErrMargin (margin out of range or of the
 // wrong sign), ErrAlternative, ErrUnsupported, or ErrUnreachable when no
 // finite sample size exists (equal rates in a test of equality or
 // superiority, a true effect on the wrong side of the margin).
-func SampleSize(d Design) (SampleSizeResult, error) {
+func SampleSize(d Plan) (SampleSizeResult, error) {
 	m, err := checkedModel(d)
 	if err != nil {
 		return SampleSizeResult{}, err
@@ -94,19 +94,19 @@ func SampleSize(d Design) (SampleSizeResult, error) {
 	n1 := ceilSize(n)
 	n2 := groupTwoSize(n1, m.r)
 	res := SampleSizeResult{
-		Design: d, Unrounded: n, N1: n1, N2: n2, Total: n1 + n2,
+		Plan: d, Unrounded: n, N1: n1, N2: n2, Total: n1 + n2,
 		Enrolled1: enrolled(n1, d.Dropout), Enrolled2: enrolled(n2, d.Dropout),
-		NullRate1: m.nullRate1, NullRate2: m.nullRate2, Caution: PlanningCaution,
+		NullRate1: m.nullRate1, NullRate2: m.nullRate2, Caution: Caution,
 	}
 	res.EnrolledTotal = res.Enrolled1 + res.Enrolled2
-	res.Method, res.Citation, res.Formula = describeMethod(d)
+	res.Approximation, res.Citation, res.Formula = describeMethod(d)
 	res.Power = powerAtSizes(d, n1, n2)
 	res.Notes = planNotes(d, n1, n2)
 	return res, nil
 }
 
 // checkedModel validates the design (except the power) and builds its model.
-func checkedModel(d Design) (model, error) {
+func checkedModel(d Plan) (model, error) {
 	if err := d.validate(); err != nil {
 		return model{}, err
 	}
@@ -117,7 +117,7 @@ func checkedModel(d Design) (model, error) {
 }
 
 // powerAtSizes is the asymptotic power at integer group sizes.
-func powerAtSizes(d Design, n1, n2 int64) float64 {
+func powerAtSizes(d Plan, n1, n2 int64) float64 {
 	return newModel(d, d.Rate1, d.Rate2, float64(n2)/float64(n1)).power(float64(n1))
 }
 
@@ -131,23 +131,23 @@ func enrolled(n int64, share float64) int64 {
 
 // PowerResult is the power of a design at given group sizes.
 type PowerResult struct {
-	Design   Design   `json:"design"`
-	Method   string   `json:"method"`
-	Citation string   `json:"citation"`
-	N1       int64    `json:"n1"`
-	N2       int64    `json:"n2"`
-	Power    float64  `json:"power"`
-	Notes    []string `json:"notes"`
-	Caution  string   `json:"caution"`
+	Plan          Plan     `json:"plan"`
+	Approximation string   `json:"approximation"`
+	Citation      string   `json:"citation"`
+	N1            int64    `json:"n1"`
+	N2            int64    `json:"n2"`
+	Power         float64  `json:"power"`
+	Notes         []string `json:"notes"`
+	Caution       string   `json:"caution"`
 }
 
-// PowerAt returns the asymptotic power of the design with n1 and n2 units
+// Power returns the asymptotic power of the design with n1 and n2 units
 // with an outcome in the groups (the design's Allocation, Dropout and Power
 // are not used). The model is the one SampleSize solves; for a test of
 // equality both rejection regions count. Errors are those of SampleSize
 // (except ErrUnreachable: a design that cannot reach any power simply has
-// power at most α) and ErrDesign for group sizes below 1 or above MaxTrials.
-func PowerAt(d Design, n1, n2 int64) (PowerResult, error) {
+// power at most α) and ErrPlan for group sizes below 1 or above MaxTrials.
+func Power(d Plan, n1, n2 int64) (PowerResult, error) {
 	if _, err := checkedModel(d); err != nil {
 		return PowerResult{}, err
 	}
@@ -155,14 +155,14 @@ func PowerAt(d Design, n1, n2 int64) (PowerResult, error) {
 		return PowerResult{}, err
 	}
 	method, cite, _ := describeMethod(d)
-	return PowerResult{Design: d, Method: method, Citation: cite, N1: n1, N2: n2,
-		Power: powerAtSizes(d, n1, n2), Notes: planNotes(d, n1, n2), Caution: PlanningCaution}, nil
+	return PowerResult{Plan: d, Approximation: method, Citation: cite, N1: n1, N2: n2,
+		Power: powerAtSizes(d, n1, n2), Notes: planNotes(d, n1, n2), Caution: Caution}, nil
 }
 
 func validateSizes(n1, n2 int64) error {
 	for i, n := range []int64{n1, n2} {
 		if n < 1 || n > proportions.MaxTrials {
-			return fmt.Errorf("group %d size %d: %w; a group needs between 1 and %d units", i+1, n, proportions.ErrDesign, proportions.MaxTrials)
+			return fmt.Errorf("group %d size %d: %w; a group needs between 1 and %d units", i+1, n, proportions.ErrPlan, proportions.MaxTrials)
 		}
 	}
 	return nil
@@ -170,7 +170,7 @@ func validateSizes(n1, n2 int64) error {
 
 // describeMethod names the asymptotic method of a design, its sources and
 // its formula.
-func describeMethod(d Design) (method, citation, formula string) {
+func describeMethod(d Plan) (method, citation, formula string) {
 	variance := "pooled null variance"
 	cites := []string{citeFleissLevinPaik}
 	if d.Variance == Unpooled {
@@ -213,7 +213,7 @@ func describeMethod(d Design) (method, citation, formula string) {
 }
 
 // planNotes returns cautions about the asymptotic answer at these sizes.
-func planNotes(d Design, n1, n2 int64) []string {
+func planNotes(d Plan, n1, n2 int64) []string {
 	notes := []string{}
 	lo := math.Min(math.Min(float64(n1)*d.Rate1, float64(n1)*(1-d.Rate1)),
 		math.Min(float64(n2)*d.Rate2, float64(n2)*(1-d.Rate2)))
@@ -229,12 +229,12 @@ func planNotes(d Design, n1, n2 int64) []string {
 // String prints the sample size in a few lines.
 func (r SampleSizeResult) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Sample size for %s\n", r.Design)
+	fmt.Fprintf(&b, "Sample size for %s\n", r.Plan)
 	fmt.Fprintf(&b, "  %d + %d = %d units with an outcome (formula gives n1 = %.2f); power %.4f\n", r.N1, r.N2, r.Total, r.Unrounded, r.Power)
-	if r.Design.Dropout > 0 {
+	if r.Plan.Dropout > 0 {
 		fmt.Fprintf(&b, "  enrol %d + %d = %d\n", r.Enrolled1, r.Enrolled2, r.EnrolledTotal)
 	}
-	fmt.Fprintf(&b, "  method: %s\n  formula: %s\n", r.Method, r.Formula)
+	fmt.Fprintf(&b, "  approximation: %s\n  formula: %s\n", r.Approximation, r.Formula)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()
 }
@@ -242,7 +242,7 @@ func (r SampleSizeResult) String() string {
 // String prints the power in a few lines.
 func (r PowerResult) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Power %.4f with %d + %d units for %s\n  method: %s\n", r.Power, r.N1, r.N2, r.Design, r.Method)
+	fmt.Fprintf(&b, "Power %.4f with %d + %d units for %s\n  approximation: %s\n", r.Power, r.N1, r.N2, r.Plan, r.Approximation)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()
 }

@@ -11,7 +11,7 @@ import (
 // DefaultMaxN1 is the largest group-1 size the exact search visits unless
 // Search.MaxN1 says otherwise; the search also keeps group 2 within
 // MaxExactGroup.
-const DefaultMaxN1 = MaxExactGroup
+const DefaultMaxN1 = MaxExactTrials
 
 // Search bounds the exact sample-size search. The zero value scans from
 // n1 = 1 with the default horizon and DefaultMaxN1.
@@ -33,12 +33,12 @@ type Search struct {
 
 // maxN1 is the cap of the scan: MaxN1 (default DefaultMaxN1), lowered so
 // that group 2 stays within MaxExactGroup.
-func (s Search) maxN1(d Design) int64 {
+func (s Search) maxN1(d Plan) int64 {
 	maxN := s.MaxN1
 	if maxN == 0 {
 		maxN = DefaultMaxN1
 	}
-	for maxN > 1 && d.SecondGroupSize(maxN) > MaxExactGroup {
+	for maxN > 1 && d.SecondGroupSize(maxN) > MaxExactTrials {
 		maxN--
 	}
 	return maxN
@@ -60,14 +60,14 @@ type scanResult struct {
 // scan walks n1 upward from s.From until the power reaches the target, then
 // on to the horizon, and finds the smallest size from which every size up
 // to the horizon reaches the target.
-func scan(ctx context.Context, d Design, s Search, power powerFunc) (scanResult, error) {
+func scan(ctx context.Context, d Plan, s Search, power powerFunc) (scanResult, error) {
 	from, maxN := s.From, s.maxN1(d)
 	if from == 0 {
 		from = 1
 	}
 	if from < 1 || maxN < from || maxN > proportions.MaxTrials || s.Horizon < 0 || (s.Horizon > 0 && s.Horizon < from) {
 		return scanResult{}, fmt.Errorf("search from %d, horizon %d, cap %d: %w; give 1 ≤ From ≤ MaxN1 and a horizon of 0 (default) or at least From",
-			s.From, s.Horizon, s.MaxN1, proportions.ErrDesign)
+			s.From, s.Horizon, s.MaxN1, proportions.ErrPlan)
 	}
 	res := scanResult{from: from}
 	at := func(n1 int64) (float64, error) {
@@ -84,7 +84,7 @@ func scan(ctx context.Context, d Design, s Search, power powerFunc) (scanResult,
 	for ; ; n++ {
 		if n > maxN {
 			return res, fmt.Errorf("exact power stays below %v for every n1 from %d to %d (n2 up to %d): %w; raise Search.MaxN1 (at most %d units per group) or check the design with the asymptotic SampleSize",
-				d.Power, from, maxN, d.SecondGroupSize(maxN), proportions.ErrUnreachable, MaxExactGroup)
+				d.Power, from, maxN, d.SecondGroupSize(maxN), proportions.ErrUnreachable, MaxExactTrials)
 		}
 		p, err := at(n)
 		if err != nil {

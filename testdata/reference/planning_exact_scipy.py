@@ -22,7 +22,7 @@ cases = [(0.45, 0.20, 40, 40), (0.70, 0.20, 19, 19), (0.70, 0.20, 20, 20),
          (0.70, 0.20, 21, 21), (0.10, 0.35, 30, 45)]
 out = []
 for p1, p2, n1, n2 in cases:
-    out.append({"id": "SP-fisher-power-%g-%g-%d-%d" % (p1, p2, n1, n2), "test": "fisher",
+    out.append({"id": "SP-fisher-power-%g-%g-%d-%d" % (p1, p2, n1, n2), "test": "fisher-test",
                 "p1": p1, "p2": p2, "n1": n1, "n2": n2, "alpha": 0.05,
                 "alternative": "two-sided", "power": round(power(p1, p2, n1, n2), 12),
                 "source": "SciPy %s (Debian python3-scipy): binom.pmf and fisher_exact over every table; "

@@ -6,43 +6,43 @@ import (
 	"math"
 )
 
-// Family is the quantity an interval method estimates or a test is about.
-type Family int
+// Scale is the quantity an interval method estimates or a test is about.
+type Scale int
 
 // The families of methods.
 const (
 	// Difference is π1 − π2, in [−1, 1].
-	Difference Family = iota
+	Difference Scale = iota
 	// Ratio is the relative risk π1/π2, in [0, ∞].
 	Ratio
 	// OddsRatio is π1(1−π2) / (π2(1−π1)), in [0, ∞].
 	OddsRatio
-	// Proportion is one group's π, in [0, 1].
-	Proportion
+	// SingleRate is one group's π, in [0, 1].
+	SingleRate
 )
 
-var familyNames = [...]string{"difference", "ratio", "odds ratio", "proportion"}
+var scaleNames = [...]string{"difference", "ratio", "odds ratio", "rate"}
 
 // String returns the family's plain name.
-func (f Family) String() string {
-	if f < 0 || int(f) >= len(familyNames) {
+func (f Scale) String() string {
+	if f < 0 || int(f) >= len(scaleNames) {
 		return fmt.Sprintf("family(%d)", int(f))
 	}
-	return familyNames[f]
+	return scaleNames[f]
 }
 
 // MarshalJSON writes the plain name.
-func (f Family) MarshalJSON() ([]byte, error) { return json.Marshal(f.String()) }
+func (f Scale) MarshalJSON() ([]byte, error) { return json.Marshal(f.String()) }
 
 // UnmarshalJSON reads the plain name.
-func (f *Family) UnmarshalJSON(b []byte) error {
+func (f *Scale) UnmarshalJSON(b []byte) error {
 	var s string
 	if err := json.Unmarshal(b, &s); err != nil {
 		return err
 	}
-	for i, n := range familyNames {
+	for i, n := range scaleNames {
 		if n == s {
-			*f = Family(i)
+			*f = Scale(i)
 			return nil
 		}
 	}
@@ -51,7 +51,7 @@ func (f *Family) UnmarshalJSON(b []byte) error {
 
 // NoEffect is the value of the family's parameter when the groups do not
 // differ: 0 for a difference, 1 for a ratio or odds ratio.
-func (f Family) NoEffect() float64 {
+func (f Scale) NoEffect() float64 {
 	if f == Ratio || f == OddsRatio {
 		return 1
 	}
@@ -60,7 +60,7 @@ func (f Family) NoEffect() float64 {
 
 // Bounds returns the parameter space [lo, hi] of the family. Reported
 // interval limits are clipped to it (the raw limits are kept beside them).
-func (f Family) Bounds() (lo, hi float64) {
+func (f Scale) Bounds() (lo, hi float64) {
 	switch f {
 	case Difference:
 		return -1, 1
@@ -77,7 +77,7 @@ func (f Family) Bounds() (lo, hi float64) {
 // numerator and denominator are zero the ratio or odds ratio is not
 // estimable; Estimate then returns NaN and callers must report it as not
 // estimable (EstimateDefined tells which case applies).
-func (f Family) Estimate(c Counts) float64 {
+func (f Scale) Estimate(c Counts) float64 {
 	switch f {
 	case Difference:
 		return c.P1() - c.P2()
@@ -92,7 +92,7 @@ func (f Family) Estimate(c Counts) float64 {
 
 // EstimateDefined reports whether Estimate returns a number (possibly +Inf)
 // rather than the not-estimable 0/0 case.
-func (f Family) EstimateDefined(c Counts) bool { return !math.IsNaN(f.Estimate(c)) }
+func (f Scale) EstimateDefined(c Counts) bool { return !math.IsNaN(f.Estimate(c)) }
 
 func ratioOf(num, den float64) float64 {
 	switch {
