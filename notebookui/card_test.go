@@ -358,7 +358,7 @@ func TestCardNamesMethodsNotRun(t *testing.T) {
 		scope proportions.MethodScope
 		want  []string
 	}{
-		{proportions.ScopeQuick, []string{"Quick analysis", "Barnard", "Boschloo", "Chan", "WithMethods(AllMethods)"}},
+		{proportions.ScopeQuick, []string{"Quick analysis", "Barnard", "Boschloo", "Chan", "every method"}},
 		{proportions.ScopeLargeSample, []string{"Large-sample analysis", "Fisher exact", "Barnard"}},
 		{proportions.ScopeAll, nil},
 	} {

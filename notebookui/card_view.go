@@ -52,7 +52,7 @@ type testRow struct {
 	Headline                     bool
 }
 
-// methodSection is one family's intervals in the folded table.
+// methodSection is one scale's intervals in the folded table.
 type methodSection struct {
 	Title string
 	Unit  string // column unit note: "percentage points" or "1 = no difference"
@@ -293,7 +293,7 @@ func notRun(a proportions.Analysis, lookup referenceLookup) string {
 		return "Large-sample analysis. Left out: the exact and conditional methods (" + list + ")."
 	}
 	return "Quick analysis. Left out, as each takes milliseconds or more: " + list +
-		". Analyse with WithMethods(AllMethods) to add them."
+		". An analysis with every method (scope \"all\") adds them."
 }
 
 func referencesOf(a proportions.Analysis, lookup referenceLookup) []Reference {

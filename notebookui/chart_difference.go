@@ -108,7 +108,7 @@ func (s chartSettings) heightOr(px int) int {
 // mark. Limits that a method put outside [−1, 1] end in an arrow: they were
 // clipped to the parameter space.
 //
-// Options read: WithRecommended or WithRecommendation (default: the
+// Options read: WithHighlightedMethod or WithRecommendation (default: the
 // analysis's headline interval, the one that matches its test), WithHeight.
 func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) {
 	if len(a.DifferenceIntervals) == 0 {

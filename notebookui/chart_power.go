@@ -32,7 +32,7 @@ const powerByDifferenceTooltip = `function (ps) {
 }`
 
 // PowerChart draws power curves computed by the planning functions
-// (planning.PowerByN, PowerByDifference, and the exact-power curves):
+// (planning.PowerByTrials, PowerByDifference, and the exact-power curves):
 // against the group size when their Axis is "n1", against the true
 // difference π1 − π2 when it is "rate1". Curves drawn together must share
 // the axis; give the asymptotic curve and the exact power of the test you
@@ -41,7 +41,7 @@ const powerByDifferenceTooltip = `function (ps) {
 // curve's smallest n reaching it is marked, and, when the curve dips below
 // the target again after that, the n from which every size drawn stays
 // at or above it. On a difference chart α marks the power at the null
-// (the test's size) and the design's anticipated difference is drawn.
+// (the test's size) and the plan's anticipated difference is drawn.
 // Options read: WithHeight.
 func PowerChart(curves []planning.PowerCurve, options ...ChartOption) (*Chart, error) {
 	if len(curves) == 0 || len(curves[0].Points) == 0 {

@@ -81,8 +81,11 @@ func whiskerIcon(i int) string { return whiskerShapes[i%len(whiskerShapes)] }
 // RatesChart draws each group's proportion with its interval from every
 // single-proportion method of the analysis (Wilson first), side by side, so
 // the reader sees both rates, their uncertainty and how far the methods
-// agree. Proportions are shown as percentages.
-func RatesChart(a proportions.Analysis) (*Chart, error) {
+// agree. Rates are shown as percentages.
+//
+// Options read: WithHeight.
+func RatesChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) {
+	s := newChartSettings(options)
 	if len(a.Groups[0].Intervals) == 0 || len(a.Groups[1].Intervals) == 0 {
 		return nil, fmt.Errorf("rates chart: %w: the analysis has no single-group intervals", errNoIntervals)
 	}
@@ -148,7 +151,7 @@ func RatesChart(a proportions.Analysis) (*Chart, error) {
 	notes := []string{fmt.Sprintf("%s: %d of %d %s (%s); %s: %d of %d %s (%s).",
 		labels[0], a.Groups[0].Group.Events, a.Groups[0].Group.Trials, event, fmtPct(a.Groups[0].Rate),
 		labels[1], a.Groups[1].Group.Events, a.Groups[1].Group.Trials, event, fmtPct(a.Groups[1].Rate))}
-	return newChart("rates", title, subtitle, 190+60*len(methods), option, table, notes)
+	return newChart("rates", title, subtitle, s.heightOr(190+60*len(methods)), option, table, notes)
 }
 
 // methodOrder lists the single-proportion method keys present in either

@@ -209,7 +209,8 @@ func TestChartEscapesLabels(t *testing.T) {
 	a := sampleAnalysis(hostile[0], hostile[1])
 	a.Comparison.Event = hostile[2]
 	for _, build := range []func(proportions.Analysis) (*Chart, error){
-		RatesChart, func(a proportions.Analysis) (*Chart, error) { return DifferenceIntervalsChart(a) },
+		func(a proportions.Analysis) (*Chart, error) { return RatesChart(a) },
+		func(a proportions.Analysis) (*Chart, error) { return DifferenceIntervalsChart(a) },
 	} {
 		c, err := build(a)
 		if err != nil {

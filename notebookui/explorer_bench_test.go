@@ -83,7 +83,7 @@ func BenchmarkIntervalExplorerSizeChangeAll(b *testing.B) { benchmarkIntervalSiz
 
 // BenchmarkPlanningExplorerRedraw: one plan change (sample size and power curve).
 func BenchmarkPlanningExplorerRedraw(b *testing.B) {
-	m := planningModel{PlanningExplorer{Design: planning.NewPlan(planning.Equality, 0.3, 0.2)}}
+	m := planningModel{PlanningExplorer{Plan: planning.NewPlan(planning.Equality, 0.3, 0.2)}}
 	pos := startPositions(m)
 	for i := 0; b.Loop(); i++ {
 		pos[1] = 250 + i%100

@@ -34,7 +34,7 @@ func ExampleIntervalExplorer_Slice() {
 // the reader presses Done. Frame gives the view for any settings.
 func ExamplePlanningExplorer_Frame() {
 	start := planning.NewPlan(planning.Equality, 0.6, 0.4)
-	e := notebookui.PlanningExplorer{Design: start}
+	e := notebookui.PlanningExplorer{Plan: start}
 	d := start
 	d.Power = 0.9
 	f, err := e.Frame(d)

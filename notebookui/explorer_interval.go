@@ -49,10 +49,10 @@ type IntervalExplorer struct {
 	Methods []string
 	// Method is the key of the method shown first; "" shows all.
 	Method string
-	// MaxGroupSize is where the group-size sliders end (0 means 200, or
+	// SliderMaxTrials is where the group-size sliders end (0 means 200, or
 	// the larger starting size if that is more); at most
-	// MaxExplorerGroupSize.
-	MaxGroupSize int
+	// MaxExplorerTrials.
+	SliderMaxTrials int
 }
 
 // MaxExplorerTrials is the largest group size the interval explorer
@@ -71,8 +71,8 @@ func (e IntervalExplorer) level() float64 {
 }
 
 func (e IntervalExplorer) maxN() int {
-	if e.MaxGroupSize != 0 {
-		return e.MaxGroupSize
+	if e.SliderMaxTrials != 0 {
+		return e.SliderMaxTrials
 	}
 	return max(200, e.N1, e.N2)
 }

@@ -15,16 +15,16 @@ import (
 // PlanningExplorer lets the reader move the inputs of a study plan (the
 // goal, the two anticipated rates, the margin and the target power) and
 // see the required group sizes (planning.SampleSize) and the power
-// curve against group size (planning.PowerByN, drawn by PowerChart)
-// follow. The other fields of the design (scale, α for the starting goal,
+// curve against group size (planning.PowerByTrials, drawn by PowerChart)
+// follow. The other fields of the plan (scale, α for the starting goal,
 // allocation, drop-out, variance rule, continuity correction) stay as
 // given.
 //
-// Build it as a literal; Design is required (planning.NewDesign gives
+// Build it as a literal; Plan is required (planning.NewPlan gives
 // one with the usual defaults).
 type PlanningExplorer struct {
-	// Design is the starting plan.
-	Design planning.Plan
+	// Plan is the starting plan.
+	Plan planning.Plan
 }
 
 // Slider ranges of the planning explorer.
@@ -39,7 +39,7 @@ const (
 )
 
 func (e PlanningExplorer) validate() error {
-	d := e.Design
+	d := e.Plan
 	if d.Scale != proportions.Difference && d.Scale != proportions.Ratio {
 		return fmt.Errorf("planning explorer: scale %s: %w; plan on the difference or the ratio scale", d.Scale, proportions.ErrUnsupported)
 	}
@@ -67,8 +67,8 @@ func (e PlanningExplorer) Run(opts ...LiveOption) error {
 	return run(planningModel{e}, opts)
 }
 
-// Frame returns what the explorer shows for a design (its goal, rates,
-// margin and power; the other fields are those of e.Design), as the live
+// Frame returns what the explorer shows for a plan (its goal, rates,
+// margin and power; the other fields are those of e.Plan), as the live
 // explorer would draw it. The values are rounded to the sliders' steps.
 func (e PlanningExplorer) Frame(d planning.Plan) (Frame, error) {
 	if err := e.validate(); err != nil {
@@ -85,7 +85,7 @@ var planGoals = []planning.Goal{planning.Equality, planning.Superiority, plannin
 func (planningModel) name() string  { return "planning" }
 func (planningModel) title() string { return "Study plan: required group size and power" }
 
-// positions maps a design to slider positions.
+// positions maps a plan to slider positions.
 func (m planningModel) positions(d planning.Plan) []int {
 	cs := m.controls()
 	pos := []int{int(d.Goal), rateStep(d.Rate1), rateStep(d.Rate2), m.marginStep(d.Margin), int(math.Round(100 * d.Power))}
@@ -97,7 +97,7 @@ func (m planningModel) positions(d planning.Plan) []int {
 
 func rateStep(r float64) int { return int(math.Round(r * planRateSteps)) }
 
-func (m planningModel) ratio() bool { return m.e.Design.Scale == proportions.Ratio }
+func (m planningModel) ratio() bool { return m.e.Plan.Scale == proportions.Ratio }
 
 func (m planningModel) marginStep(v float64) int {
 	if m.ratio() {
@@ -117,7 +117,7 @@ func (m planningModel) marginValue(pos int) float64 {
 }
 
 func (m planningModel) controls() []control {
-	d := m.e.Design
+	d := m.e.Plan
 	goals := make([]string, len(planGoals))
 	for i, g := range planGoals {
 		goals[i] = g.String()
@@ -145,11 +145,11 @@ func (m planningModel) unused(pos []int, i int) bool {
 	return i == 3 && planGoals[pos[0]] == planning.Equality
 }
 
-// design builds the plan at the positions. The starting goal keeps the
+// plan builds the plan at the positions. The starting goal keeps the
 // starting α; another goal takes NewPlan's α for it. Which way is better
 // (lower for defect rates, say) always stays the starting plan's.
-func (m planningModel) design(pos []int) planning.Plan {
-	d := m.e.Design
+func (m planningModel) plan(pos []int) planning.Plan {
+	d := m.e.Plan
 	goal := planGoals[pos[0]]
 	if goal != d.Goal {
 		d.Alpha = planning.NewPlan(goal, 0.5, 0.5).Alpha
@@ -172,7 +172,7 @@ func (m planningModel) design(pos []int) planning.Plan {
 // plan with no finite answer (equal rates in a test of equality, a margin
 // of the wrong sign) is shown as the planning package's explanation.
 func (m planningModel) render(pos []int) Displayable {
-	d := m.design(pos)
+	d := m.plan(pos)
 	res, err := planning.SampleSize(d)
 	if err != nil {
 		return message{kind: "planning", text: "No sample size for these settings: " + err.Error()}

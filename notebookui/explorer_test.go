@@ -194,8 +194,8 @@ func TestIntervalExplorerRejectsBadSettings(t *testing.T) {
 		want error
 	}{
 		{IntervalExplorer{N1: 0, N2: 10}, proportions.ErrNoTrials},
-		{IntervalExplorer{N1: 10, N2: 10, MaxGroupSize: 5000}, proportions.ErrTooLarge},
-		{IntervalExplorer{N1: 300, N2: 10, MaxGroupSize: 200}, proportions.ErrTooLarge},
+		{IntervalExplorer{N1: 10, N2: 10, SliderMaxTrials: 5000}, proportions.ErrTooLarge},
+		{IntervalExplorer{N1: 300, N2: 10, SliderMaxTrials: 200}, proportions.ErrTooLarge},
 		{IntervalExplorer{N1: 10, N2: 10, Level: 0.5}, proportions.ErrLevel},
 		{IntervalExplorer{N1: 10, N2: 10, Rate1: 1.5}, proportions.ErrPlan},
 		{IntervalExplorer{N1: 10, N2: 10, Methods: []string{"no-such"}}, proportions.ErrUnknownMethod},
@@ -233,7 +233,7 @@ func fleissEquality(p1, p2, alpha, power float64) int {
 
 func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
 	start := planning.NewPlan(planning.Equality, 0.6, 0.4)
-	e := PlanningExplorer{Design: start}
+	e := PlanningExplorer{Plan: start}
 	m := planningModel{e}
 	for _, c := range []struct{ r1, r2, power float64 }{{0.6, 0.4, 0.8}, {0.3, 0.2, 0.9}, {0.15, 0.1, 0.8}} {
 		d := start
@@ -249,7 +249,7 @@ func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
 		if !strings.Contains(f.HTML(), `data-kind="power-by-size"`) {
 			t.Error("the frame should hold the power curve")
 		}
-		if got := m.design(m.positions(d)); got.Rate1 != c.r1 || got.Rate2 != c.r2 || got.Power != c.power {
+		if got := m.plan(m.positions(d)); got.Rate1 != c.r1 || got.Rate2 != c.r2 || got.Power != c.power {
 			t.Errorf("positions do not round-trip: %+v", got)
 		}
 	}
@@ -269,14 +269,14 @@ func TestPlanningExplorerFollowsTheSliders(t *testing.T) {
 func TestPlanningExplorerGoalSwitch(t *testing.T) {
 	start := planning.NewPlan(planning.NonInferiority, 0.04, 0.04)
 	start.Better, start.Margin = proportions.LowerIsBetter, 0.02 // defect rates
-	m := planningModel{PlanningExplorer{Design: start}}
+	m := planningModel{PlanningExplorer{Plan: start}}
 	pos := m.positions(start)
 	pos[0] = int(planning.Superiority)
-	if d := m.design(pos); d.Better != proportions.LowerIsBetter || d.Alpha != planning.DefaultOneSidedAlpha {
+	if d := m.plan(pos); d.Better != proportions.LowerIsBetter || d.Alpha != planning.DefaultOneSidedAlpha {
 		t.Errorf("switching to superiority keeps lower-is-better and one-sided α: %+v", d)
 	}
 	pos[0] = int(planning.Equality)
-	if d := m.design(pos); d.Better != proportions.LowerIsBetter || d.Margin != 0 || d.Alpha != planning.DefaultTwoSidedAlpha {
+	if d := m.plan(pos); d.Better != proportions.LowerIsBetter || d.Margin != 0 || d.Alpha != planning.DefaultTwoSidedAlpha {
 		t.Errorf("switching to equality: %+v", d)
 	}
 }

@@ -23,7 +23,7 @@ type WhatIfExplorer struct {
 	// Analysis holds the options of the analysis (level, null value,
 	// alternative, continuity correction, method scope), as for
 	// proportions.Analyze. The card runs every method
-	// (proportions.AllMethods) unless these options set another scope.
+	// (proportions.ScopeAll) unless these options set another scope.
 	Analysis []proportions.Option
 	// SliderMaxTrials is the largest group size the sliders reach; 0 means
 	// twice the larger group (at least 20). At most MaxWhatIfTrials.

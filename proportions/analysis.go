@@ -1,5 +1,11 @@
 package proportions
 
+import (
+	"encoding/json"
+
+	"github.com/propscope/propscope/internal/jsonlist"
+)
+
 // GroupEstimate is one group's data and its proportion with intervals from
 // every registered single-proportion method (Wilson first).
 type GroupEstimate struct {
@@ -27,7 +33,7 @@ const (
 	// below the nominal level by more than the tolerance.
 	WarnUndercoverage = "undercoverage"
 	// WarnSkipped: a registered method was not run because the data exceed
-	// its SizeLimit.
+	// its TrialLimit.
 	WarnSkipped = "method-skipped"
 )
 
@@ -47,7 +53,7 @@ type Analysis struct {
 	// the scope left out (see MethodScope), so a reader knows what else
 	// could be run; methods skipped for the size of the data are named in
 	// Warnings instead.
-	Omitted []string `json:"omitted,omitempty"`
+	Omitted []string `json:"omitted"`
 	// Groups holds the two groups' estimates, first then second.
 	Groups [2]GroupEstimate `json:"groups"`
 	// Difference is p1 − p2.
@@ -73,4 +79,21 @@ type Analysis struct {
 	// practical importance and that health or safety decisions follow the
 	// applicable regulations and a qualified statistician.
 	Caution string `json:"caution"`
+}
+
+// MarshalJSON writes the analysis with every list present: an empty list is
+// [] (never null), whether the analysis came from Analyze or was built by hand.
+func (a Analysis) MarshalJSON() ([]byte, error) {
+	type plain Analysis // without this method
+	p := plain(a)
+	p.Omitted = jsonlist.NonNil(p.Omitted)
+	for i := range p.Groups {
+		p.Groups[i].Intervals = jsonlist.NonNil(p.Groups[i].Intervals)
+	}
+	p.Tests = jsonlist.NonNil(p.Tests)
+	p.DifferenceIntervals = jsonlist.NonNil(p.DifferenceIntervals)
+	p.RatioIntervals = jsonlist.NonNil(p.RatioIntervals)
+	p.OddsRatioIntervals = jsonlist.NonNil(p.OddsRatioIntervals)
+	p.Warnings = jsonlist.NonNil(p.Warnings)
+	return json.Marshal(p)
 }

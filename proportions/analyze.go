@@ -34,8 +34,8 @@ const smallExpected = 5
 //
 // It reads the settings Level (default 0.95), Null (δ, default 0),
 // Alternative (default two-sided), ContinuityCorrection (adds Yates' test)
-// and Methods (default QuickMethods: every method that costs microseconds,
-// Fisher's exact test included; WithMethods(AllMethods) adds Barnard's and
+// and Methods (default ScopeQuick: every method that costs microseconds,
+// Fisher's exact test included; WithScope(ScopeAll) adds Barnard's and
 // Boschloo's tests, the exact unconditional intervals and the conditional
 // odds-ratio intervals). Tests use α = 1 − Level. For a one-sided
 // alternative the headline interval is the two-sided interval at level
@@ -43,7 +43,7 @@ const smallExpected = 5
 // confidence bound; so with a one-sided test at 2.5% (Level 0.975) the
 // familiar 95% interval is reported, and it excludes δ on the
 // alternative's side exactly when the test rejects. A costly method whose
-// SizeLimit the data exceed is skipped with a warning.
+// TrialLimit the data exceed is skipped with a warning.
 func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	counts := c.Counts()
 	if err := counts.Validate(); err != nil {
@@ -101,7 +101,7 @@ func analysisConfidences(s Settings) (test, intervals Confidence, err error) {
 
 // intervalStore hands out the interval lists of one analysis from a single
 // allocation: an analysis fills about two dozen intervals, and one block
-// costs less than a list per family. Each list is capped at its share, so
+// costs less than a list per scale. Each list is capped at its share, so
 // appending to one later moves it instead of overwriting the next.
 type intervalStore []Interval
 
@@ -127,7 +127,7 @@ func groupEstimate(g Group, conf Confidence, list []Interval) GroupEstimate {
 }
 
 // methodFilter decides which registered methods an analysis runs: those in
-// its scope, and of the costly ones only those whose SizeLimit the data
+// its scope, and of the costly ones only those whose TrialLimit the data
 // do not exceed.
 type methodFilter struct {
 	scope MethodScope
@@ -135,7 +135,7 @@ type methodFilter struct {
 }
 
 // decide reports whether to run a method, and whether it was left out
-// only because the data exceed its SizeLimit (which deserves a warning).
+// only because the data exceed its TrialLimit (which deserves a warning).
 func (f methodFilter) decide(exact bool, sizeLimit int64) (run, tooLarge bool) {
 	if !f.scope.Runs(exact, sizeLimit) {
 		return false, false
@@ -175,7 +175,7 @@ func (a *Analysis) testsOf(f methodFilter, c Counts, h Hypothesis, s Settings) [
 }
 
 // admit reports whether the analysis runs a method, and otherwise records
-// why not: in a warning when the data exceed its SizeLimit, in Omitted
+// why not: in a warning when the data exceed its TrialLimit, in Omitted
 // when the scope leaves it out.
 func (a *Analysis) admit(f methodFilter, key, name string, exact bool, sizeLimit int64) bool {
 	run, tooLarge := f.decide(exact, sizeLimit)
@@ -257,7 +257,7 @@ func exactAdvice(scope MethodScope) string {
 		return ""
 	}
 	return " Barnard's and Boschloo's tests and the exact unconditional intervals were not run in this analysis;" +
-		" analyse with WithMethods(AllMethods) to add them."
+		" an analysis with every method (scope \"all\") adds them."
 }
 
 func joinPlain(parts []string) string {

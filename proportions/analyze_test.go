@@ -231,7 +231,7 @@ func TestAnalysisJSONFields(t *testing.T) {
 }
 
 // The scope decides which registered methods run: quick (the default)
-// leaves out exactly the costly ones (a SizeLimit), all runs them up to
+// leaves out exactly the costly ones (a TrialLimit), all runs them up to
 // their limit with a warning above it, large-sample leaves out every exact
 // method too.
 func TestAnalyzeMethodScopes(t *testing.T) {
@@ -304,7 +304,7 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 	}
 	advice := func(a Analysis) bool {
 		return slices.ContainsFunc(a.Warnings, func(w Warning) bool {
-			return w.Code == WarnSmallExpected && strings.Contains(w.Message, "WithMethods(AllMethods)")
+			return w.Code == WarnSmallExpected && strings.Contains(w.Message, "every method")
 		})
 	}
 	if !advice(quick) || advice(all) {

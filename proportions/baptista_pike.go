@@ -45,7 +45,7 @@ var BaptistaPike = IntervalMethod{
 	Citation:      "Baptista J, Pike MC (1977). Exact two-sided confidence limits for the odds ratio in a 2×2 table. Journal of the Royal Statistical Society C (Applied Statistics) 26:214–220.",
 	Definition:    "all ψ at which the total probability of the tables no more probable than the observed one, under the noncentral hypergeometric distribution given the margins, exceeds α; estimate: conditional maximum likelihood",
 	Exact:         true,
-	TrialLimit:    baptistaPikeSizeLimit,
+	TrialLimit:    baptistaPikeTrialLimit,
 	PointEstimate: conditionalMLE,
 	Limits:        baptistaPikeLimits,
 }
@@ -233,7 +233,7 @@ func (d noncentralHypergeom) sweepLower(s sterneSet, ta, tb, alpha float64) (flo
 	return tb, false
 }
 
-// baptistaPikeSizeLimit is the largest n1 + n2 for the Baptista–Pike
+// baptistaPikeTrialLimit is the largest n1 + n2 for the Baptista–Pike
 // interval. Measured: about 0.2 ms at 2000 trials, 26 ms at 2·10⁶ and half
 // a second at 10⁸ with rates near one half (much less near 0 or 1).
-const baptistaPikeSizeLimit = 100_000_000
+const baptistaPikeTrialLimit = 100_000_000

@@ -88,7 +88,7 @@ var CornfieldExact = IntervalMethod{
 	Citation:      "Cornfield J (1956). A statistical problem arising from retrospective studies. Proceedings of the Third Berkeley Symposium on Mathematical Statistics and Probability 4:135–148.",
 	Definition:    "ψL and ψU with P(X1 ≥ x1; ψL) = α/2 and P(X1 ≤ x1; ψU) = α/2 under Fisher's noncentral hypergeometric distribution given the margins; estimate: conditional maximum likelihood",
 	Exact:         true,
-	TrialLimit:    exactConditionalSizeLimit,
+	TrialLimit:    exactConditionalTrialLimit,
 	PointEstimate: conditionalMLE,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 1)
@@ -114,14 +114,14 @@ var CornfieldMidP = IntervalMethod{
 	Symmetric:     true,
 	Citation:      "Cornfield J (1956). A statistical problem arising from retrospective studies. Proceedings of the Third Berkeley Symposium on Mathematical Statistics and Probability 4:135–148; mid-p: Lancaster HO (1961). Journal of the American Statistical Association 56:223–234.",
 	Definition:    "ψL and ψU with P(X1 > x1; ψL) + ½P(X1 = x1; ψL) = α/2 and P(X1 < x1; ψU) + ½P(X1 = x1; ψU) = α/2, noncentral hypergeometric given the margins; estimate: conditional maximum likelihood",
-	TrialLimit:    exactConditionalSizeLimit,
+	TrialLimit:    exactConditionalTrialLimit,
 	PointEstimate: conditionalMLE,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 0.5)
 	},
 }
 
-// exactConditionalSizeLimit is the largest n1 + n2 for the conditional
+// exactConditionalTrialLimit is the largest n1 + n2 for the conditional
 // odds-ratio intervals: their cost grows like √(n1 + n2) and reaches about
 // a second near 10¹¹ trials.
-const exactConditionalSizeLimit = 100_000_000_000
+const exactConditionalTrialLimit = 100_000_000_000

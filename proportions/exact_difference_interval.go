@@ -25,7 +25,7 @@ import "math"
 //
 // ChanZhang and AgrestiMin are registered as the slow members of the
 // difference scale (not in EnumerableIntervalMethods): Analyze and the result card
-// include them up to their SizeLimit, while the coverage engine and the
+// include them up to their TrialLimit, while the coverage engine and the
 // registry-wide property tests, which call a method for every outcome of a
 // design, leave them out (tens of milliseconds per table would make that
 // take minutes).
@@ -43,7 +43,7 @@ var ChanZhang = IntervalMethod{
 	Citation:   "Chan ISF, Zhang Z (1999). Test-based exact confidence intervals for the difference of two binomial proportions. Biometrics 55:1202–1209.",
 	Definition: "Inverts two one-sided exact unconditional score tests at α/2: δ is inside unless sup over π2 of P(z(δ) ≥ z_obs(δ)) or of P(z(δ) ≤ z_obs(δ)) is ≤ α/2.",
 	Exact:      true,
-	TrialLimit: exactIntervalSizeLimit,
+	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		a := (1 - conf.Level) / 2
 		return exactScoreLower(c, a, sideGreater), -exactScoreLower(c.Swapped(), a, sideGreater)
@@ -66,23 +66,23 @@ var AgrestiMin = IntervalMethod{
 	Citation:   "Agresti A, Min Y (2001). On small-sample confidence intervals for parameters in discrete distributions. Biometrics 57:963–971.",
 	Definition: "Inverts the two-sided exact unconditional score test at α: δ is inside unless sup over π2 of P(|z(δ)| ≥ |z_obs(δ)|) is ≤ α.",
 	Exact:      true,
-	TrialLimit: exactIntervalSizeLimit,
+	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		a := 1 - conf.Level
 		return exactScoreLower(c, a, sideBoth), -exactScoreLower(c.Swapped(), a, sideBoth)
 	},
 }
 
-// exactIntervalSizeLimit is the total n1 + n2 up to which Analyze computes
+// exactIntervalTrialLimit is the total n1 + n2 up to which Analyze computes
 // an exact unconditional interval: about 0.3 s for one interval at 200 per
 // group (measured on a 2-core machine), so an analysis with both stays
 // under a second.
-const exactIntervalSizeLimit = 400
+const exactIntervalTrialLimit = 400
 
 // exactScoreP returns the exact unconditional score-test p-value at δ for
 // the region side (no Berger–Boos restriction). Designs above
 // UnconditionalMaxTables give 1, so the interval is the whole range rather
-// than a hang (the registry's SizeLimit keeps analyses far below that).
+// than a hang (the registry's TrialLimit keeps analyses far below that).
 func exactScoreP(c Counts, delta float64, side regionSide) float64 {
 	if checkUnconditionalSize(c) != nil {
 		return 1

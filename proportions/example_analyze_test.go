@@ -46,7 +46,7 @@ func ExampleAnalyze() {
 }
 
 // The method scope: the default analysis runs every method that costs
-// microseconds; WithMethods(AllMethods) adds the exact methods that take
+// microseconds; WithScope(ScopeAll) adds the exact methods that take
 // milliseconds or more (here on a small, sparse table, where they matter
 // most), and the default analysis lists them as left out.
 func ExampleWithScope() {

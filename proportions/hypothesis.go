@@ -89,7 +89,7 @@ type TestMethod struct {
 	// limit and says so in a warning instead of hanging.
 	TrialLimit int64 `json:"trial_limit,omitempty"`
 	// ContinuityCorrected marks a continuity-corrected variant (Yates);
-	// Analyze runs it only when WithContinuityCorrection(true) is given.
+	// Analyze runs it only when WithYatesTest(true) is given.
 	ContinuityCorrected bool `json:"continuity_corrected,omitempty"`
 	// Check, when set, reports counts the test refuses to run (for example a
 	// design too large for an exact unconditional test), with an error
@@ -101,7 +101,7 @@ type TestMethod struct {
 }
 
 // Test validates the counts and the options, then runs the test. It reads
-// the settings Level, Null (default: the family's no-effect value) and
+// the settings Level, Null (default: the scale's no-effect value) and
 // Alternative.
 func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
 	if err := c.Validate(); err != nil {

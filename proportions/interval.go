@@ -9,7 +9,7 @@ import (
 
 // Interval is a confidence interval as reported to users.
 //
-// Limit rule: Lower and Upper are the raw limits clipped to the family's
+// Limit rule: Lower and Upper are the raw limits clipped to the scale's
 // parameter space ([−1, 1] for a difference, [0, 1] for a proportion,
 // [0, ∞] for a ratio or odds ratio); RawLower and RawUpper are the limits
 // exactly as the method's formula gives them, so a user can see that (for

@@ -91,7 +91,7 @@ func (n NumberNeeded) MarshalJSON() ([]byte, error) {
 
 // NumberNeededToTreat computes the number needed to treat for the first
 // group's treatment against the second's from the difference interval of
-// method m (Family must be Difference, for example the Newcombe or
+// method m (Scale must be Difference, for example the Newcombe or
 // Miettinen–Nurminen interval). better says which way the rate is good
 // (HigherIsBetter when the counted event is the favourable outcome). It
 // reads the setting Level (default 0.95).

@@ -23,7 +23,7 @@ type Settings struct {
 	// Alternative is the direction of the alternative hypothesis.
 	Alternative Alternative
 	// Scope says which registered methods an analysis runs, by cost
-	// (QuickMethods by default; see MethodScope).
+	// (ScopeQuick by default; see MethodScope).
 	Scope MethodScope
 	// YatesTest turns on Yates' correction for the chi-square
 	// test (off by default: it makes the test conservative, see chisquare.go).
@@ -93,7 +93,7 @@ func ValidateLevel(level float64) error {
 }
 
 // ValidateNull returns an error wrapping ErrNull unless the null value is
-// inside the parameter space of the family: (−1, 1) for the difference and
+// inside the parameter space of the scale: (−1, 1) for the difference and
 // (0, ∞) for the ratio and the odds ratio.
 func ValidateNull(f Scale, null float64) error {
 	switch f {

@@ -11,7 +11,7 @@ import (
 // 95%. Values with status memory-recomputed are hard checks at the printed 4
 // decimals (value recalled from the paper, confirmed by recomputation);
 // recomputed ones are cross-implementation checks of the *_full values only.
-func TestProportionMethodsNewcombeTableI(t *testing.T) {
+func TestRateMethodsNewcombeTableI(t *testing.T) {
 	methods := map[string]RateMethod{"3": Wilson, "4": WilsonCC, "5": ClopperPearson}
 	conf, err := NewConfidence(0.95)
 	if err != nil {
@@ -46,7 +46,7 @@ func TestProportionMethodsNewcombeTableI(t *testing.T) {
 // SciPy 1.10.1 (testdata/reference/scipy-core.json): Wilson, Wilson with
 // continuity correction and Clopper–Pearson at 95%, and Jeffreys and
 // Clopper–Pearson from beta quantiles at 90, 95 and 99%.
-func TestProportionMethodsSciPy(t *testing.T) {
+func TestRateMethodsSciPy(t *testing.T) {
 	methods := map[string]RateMethod{
 		"single proportion interval, Wilson score":                            Wilson,
 		"single proportion interval, Wilson score with continuity correction": WilsonCC,
@@ -83,7 +83,7 @@ func nearly(a, b, tol float64) bool { return math.Abs(a-b) <= tol*math.Max(1, ma
 
 // Every single-proportion method on every x of small and large n: limits
 // are numbers in [0, 1], ordered, contain x/n, and shrink as the level drops.
-func TestProportionMethodsProperties(t *testing.T) {
+func TestRateMethodsProperties(t *testing.T) {
 	levels := []float64{0.5, 0.8, 0.9, 0.95, 0.99, 0.999}
 	for _, m := range RateMethods() {
 		for _, n := range []int64{1, 2, 3, 7, 20, 101, 1 << 40} {

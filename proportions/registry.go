@@ -7,11 +7,11 @@ import (
 )
 
 // IntervalMethod is a published interval method for a two-group parameter
-// (difference, ratio or odds ratio): a named value that knows its family,
+// (difference, ratio or odds ratio): a named value that knows its scale,
 // its citation and how to compute its raw limits from counts.
 //
 // Adding a method is one file holding its value and limits function, one
-// line in the family's list below, and its tests; tables, cards, charts and
+// line in the scale's list below, and its tests; tables, cards, charts and
 // coverage maps iterate over the registry and pick it up.
 type IntervalMethod struct {
 	// Key is the stable identifier used in JSON and lookups ("wald", "mee").
@@ -45,7 +45,7 @@ type IntervalMethod struct {
 	// it is called for every outcome of a design by the coverage engine.
 	Limits func(c Counts, conf Confidence) (lower, upper float64) `json:"-"`
 	// PointEstimate, when set, is the estimate the method reports in place
-	// of Family.Estimate (the conditional odds-ratio methods report the
+	// of Scale.Estimate (the conditional odds-ratio methods report the
 	// conditional maximum-likelihood estimate); NaN means not estimable.
 	PointEstimate func(c Counts) float64 `json:"-"`
 }
@@ -112,7 +112,7 @@ func (m RateMethod) IntervalAt(x, n int64, conf Confidence) Interval {
 	}
 }
 
-// The registry: one list per family. Each list is owned by the file group
+// The registry: one list per scale. Each list is owned by the file group
 // that implements its methods; order is the order of display.
 var (
 	differenceMethods = []IntervalMethod{
@@ -126,7 +126,7 @@ var (
 	}
 	// slowDifferenceMethods are exact intervals that cost milliseconds to
 	// seconds each: Analyze, result cards and lookups include them (up to
-	// their SizeLimit), but the coverage engine, which calls a method for
+	// their TrialLimit), but the coverage engine, which calls a method for
 	// every outcome of a design, does not offer them (it can still take one
 	// directly for a tiny design).
 	slowDifferenceMethods = []IntervalMethod{ChanZhang, AgrestiMin}

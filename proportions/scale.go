@@ -9,7 +9,7 @@ import (
 // Scale is the quantity an interval method estimates or a test is about.
 type Scale int
 
-// The families of methods.
+// The scales of methods.
 const (
 	// Difference is π1 − π2, in [−1, 1].
 	Difference Scale = iota
@@ -23,10 +23,10 @@ const (
 
 var scaleNames = [...]string{"difference", "ratio", "odds ratio", "rate"}
 
-// String returns the family's plain name.
+// String returns the scale's plain name.
 func (f Scale) String() string {
 	if f < 0 || int(f) >= len(scaleNames) {
-		return fmt.Sprintf("family(%d)", int(f))
+		return fmt.Sprintf("scale(%d)", int(f))
 	}
 	return scaleNames[f]
 }
@@ -46,10 +46,10 @@ func (f *Scale) UnmarshalJSON(b []byte) error {
 			return nil
 		}
 	}
-	return fmt.Errorf("unknown family %q", s)
+	return fmt.Errorf("unknown scale %q", s)
 }
 
-// NoEffect is the value of the family's parameter when the groups do not
+// NoEffect is the value of the scale's parameter when the groups do not
 // differ: 0 for a difference, 1 for a ratio or odds ratio.
 func (f Scale) NoEffect() float64 {
 	if f == Ratio || f == OddsRatio {
@@ -58,7 +58,7 @@ func (f Scale) NoEffect() float64 {
 	return 0
 }
 
-// Bounds returns the parameter space [lo, hi] of the family. Reported
+// Bounds returns the parameter space [lo, hi] of the scale. Reported
 // interval limits are clipped to it (the raw limits are kept beside them).
 func (f Scale) Bounds() (lo, hi float64) {
 	switch f {
@@ -71,7 +71,7 @@ func (f Scale) Bounds() (lo, hi float64) {
 	}
 }
 
-// Estimate returns the family's point estimate from counts: p1 − p2 for
+// Estimate returns the scale's point estimate from counts: p1 − p2 for
 // the difference; p1/p2 for the ratio and (x1(n2−x2))/(x2(n1−x1)) for the
 // odds ratio, which are +Inf when only the denominator is zero. When both
 // numerator and denominator are zero the ratio or odds ratio is not

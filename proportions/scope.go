@@ -4,20 +4,20 @@ import "fmt"
 
 // MethodScope says which of the registered methods an analysis runs, by
 // what they cost. The registry marks the costly ones: a method with a
-// SizeLimit takes milliseconds to seconds per table (a search over a
+// TrialLimit takes milliseconds to seconds per table (a search over a
 // nuisance parameter or over the tables of an exact distribution), every
 // other method takes microseconds or less.
 type MethodScope int
 
 const (
 	// ScopeQuick, the default, runs every registered method that costs
-	// microseconds: the large-sample intervals and tests of every family,
+	// microseconds: the large-sample intervals and tests of every scale,
 	// the single-group intervals (Clopper–Pearson included) and Fisher's
 	// exact test with its mid-p. A whole analysis then takes about ten
 	// microseconds at any sample size, so it suits loops over many tables
 	// and live redraws.
 	ScopeQuick MethodScope = iota
-	// ScopeAll adds the costly exact methods, each up to its SizeLimit:
+	// ScopeAll adds the costly exact methods, each up to its TrialLimit:
 	// Barnard's and Boschloo's unconditional tests, the exact unconditional
 	// intervals for the difference and the conditional intervals for the
 	// odds ratio. Small or sparse tables, where the large-sample methods
@@ -43,7 +43,7 @@ func (s MethodScope) String() string {
 // declared scopes.
 func (s MethodScope) Validate() error {
 	if s < 0 || int(s) >= len(scopeNames) {
-		return fmt.Errorf("method scope %d: %w; use QuickMethods, AllMethods or LargeSampleMethods", int(s), ErrScope)
+		return fmt.Errorf("method scope %d: %w; use ScopeQuick, AllMethods or ScopeLargeSample", int(s), ErrScope)
 	}
 	return nil
 }
@@ -69,8 +69,8 @@ func (s *MethodScope) UnmarshalText(b []byte) error {
 }
 
 // Runs reports whether the scope includes a method with the given marks
-// (its Exact flag and SizeLimit). Whether the data are small enough for a
-// method's SizeLimit is a separate question (see Analyze).
+// (its Exact flag and TrialLimit). Whether the data are small enough for a
+// method's TrialLimit is a separate question (see Analyze).
 func (s MethodScope) Runs(exact bool, sizeLimit int64) bool {
 	costly := sizeLimit > 0
 	switch s {
@@ -83,7 +83,7 @@ func (s MethodScope) Runs(exact bool, sizeLimit int64) bool {
 }
 
 // WithScope sets which registered methods an analysis runs (see
-// MethodScope; the default is QuickMethods).
+// MethodScope; the default is ScopeQuick).
 func WithScope(scope MethodScope) Option {
 	return func(s *Settings) { s.Scope = scope }
 }

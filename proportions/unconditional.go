@@ -56,7 +56,7 @@ const (
 // test's Check); there the exact and the asymptotic tests agree closely.
 const UnconditionalMaxTables = 4e8
 
-// unconditionalTrialLimit is the SizeLimit (n1 + n2) at which one test takes
+// unconditionalTrialLimit is the TrialLimit (n1 + n2) at which one test takes
 // about a second on one core, measured with the benchmarks.
 const unconditionalTrialLimit = 6000
 

@@ -13,7 +13,7 @@ import "math"
 // table with |O − E| < ½ gets X²_Y = 0, p = 1) follows SciPy's convention.
 //
 // It is opt-in (ContinuityCorrected; Analyze runs it only with
-// WithContinuityCorrection(true)): the correction makes the test
+// WithYatesTest(true)): the correction makes the test
 // conservative, its actual size well below α for usual designs, so it
 // loses power against the uncorrected test, which keeps close to α. It is
 // offered for users whose protocols prescribe it. The one-sided and

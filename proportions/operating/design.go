@@ -23,7 +23,7 @@ type Design struct {
 
 // NewDesign validates a design. Errors wrap proportions.ErrNoTrials (a
 // group with fewer than one trial), proportions.ErrTooLarge (more than
-// MaxGroupSize) or proportions.ErrLevel.
+// MaxDesignTrials) or proportions.ErrLevel.
 func NewDesign(n1, n2 int, level float64) (Design, error) {
 	d := Design{N1: n1, N2: n2, Level: level}
 	return d, d.Validate()

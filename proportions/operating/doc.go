@@ -43,7 +43,7 @@
 //     calls); [NewRejectionRegion] builds a decision's rejection region once
 //     to evaluate power at many points; [Size]: the actual type I error
 //     along the null line (π1 = π2, or the margin's line).
-//   - [Recommend]: a ranking of the interval methods of a family for a
+//   - [Recommend]: a ranking of the interval methods of a scale for a
 //     design and level, by a documented [Criterion]; it depends on the
 //     design only, never on data.
 //

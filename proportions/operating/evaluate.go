@@ -45,7 +45,7 @@ type evaluation struct {
 	seconds []binomial  // second binomial per π2
 	cums    [][]float64 // prefix sums of the second binomials
 	// wsum[j][x1] = Σ_x2 b(x2; n2, π2_j)·width(x1, x2) (bounded intervals
-	// only) and usum[j][x1] the same sum of 1{unbounded} (ratio families).
+	// only) and usum[j][x1] the same sum of 1{unbounded} (ratio scales).
 	wsum, usum [][]float64
 	rows       [][2]int // rows [lo, hi] whose sums are needed, per π2
 	out        []result // by query
@@ -108,7 +108,7 @@ func (t *OutcomeLimits) newEvaluation(pi1, pi2 []float64, pairs []pair) *evaluat
 	}
 	ev.queries = make([]query, 0, len(pairs))
 	for k, p := range pairs {
-		if theta, ok := Truth(t.family(), pi1[p.i], pi2[p.j]); ok {
+		if theta, ok := Truth(t.scale(), pi1[p.i], pi2[p.j]); ok {
 			ev.queries = append(ev.queries, query{theta: theta, first: p.i, second: p.j, at: int32(k)})
 		}
 	}
@@ -156,7 +156,7 @@ func (ev *evaluation) widthSums(j int) {
 	w := make([]float64, t.n1+1)
 	ev.wsum[j] = w
 	var u []float64
-	if t.family() != proportions.Difference {
+	if t.scale() != proportions.Difference {
 		u = make([]float64, t.n1+1)
 		ev.usum[j] = u
 	}
@@ -167,7 +167,7 @@ func (ev *evaluation) widthSums(j int) {
 	blas64.Gemv(blas.NoTrans, 1,
 		blas64.General{Rows: r1 - r0, Cols: hi - lo, Stride: t.stride, Data: t.width[r0*t.stride+lo : (r1-1)*t.stride+hi]},
 		blas64.Vector{N: hi - lo, Inc: 1, Data: b.p[lo:hi]}, 0, blas64.Vector{N: r1 - r0, Inc: 1, Data: w[r0:r1]})
-	if t.family() == proportions.Difference {
+	if t.scale() == proportions.Difference {
 		return
 	}
 	for x1 := r0; x1 < r1; x1++ {
@@ -320,14 +320,14 @@ func (ev *evaluation) point(q *query, ps *pointers) result {
 	// binomials are normalised over their kept ranges.
 	r.below = max(0, 1-r.cov-r.above)
 	r.width = floats.Dot(b1.p[lo:hi], ev.wsum[q.second][lo:hi])
-	if t.family() != proportions.Difference {
+	if t.scale() != proportions.Difference {
 		r.unbounded = floats.Dot(b1.p[lo:hi], ev.usum[q.second][lo:hi])
 		r.width = amongBounded(r.width, r.unbounded)
 	}
 	return r
 }
 
-func (t *OutcomeLimits) family() proportions.Scale { return t.method.Scale }
+func (t *OutcomeLimits) scale() proportions.Scale { return t.method.Scale }
 
 // amongBounded turns Σ P(x)·width(x) over bounded intervals into the
 // expected width among bounded intervals; +Inf when (up to rounding) every

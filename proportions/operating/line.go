@@ -6,7 +6,7 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// EffectLine returns k evenly spaced points (π1, π2) on which the family's
+// EffectLine returns k evenly spaced points (π1, π2) on which the scale's
 // parameter equals θ, with π2 running over its whole feasible range:
 //
 //   - difference δ: π1 = π2 + δ, π2 from max(0, −δ) to min(1, 1 − δ);
@@ -14,7 +14,7 @@ import (
 //   - odds ratio ψ: π1 = ψπ2 / (1 − π2 + ψπ2), π2 from 0 to 1.
 //
 // At θ = no effect this is the line π1 = π2. Errors wrap
-// proportions.ErrMargin for θ outside the family's open parameter space
+// proportions.ErrMargin for θ outside the scale's open parameter space
 // (−1 < δ < 1, 0 < ρ, ψ < ∞).
 func EffectLine(f proportions.Scale, theta float64, k int) ([][2]float64, error) {
 	if f == proportions.SingleRate {

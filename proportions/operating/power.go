@@ -134,7 +134,7 @@ type RejectionRegion struct {
 // on every core. It reads WithProgress (rows done out of n1+1) and
 // WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
 // tests that search a nuisance parameter at each outcome make this slow at
-// large n; their SizeLimit is a guide.
+// large n; their TrialLimit is a guide.
 func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Option) (*RejectionRegion, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return nil, err

@@ -46,7 +46,7 @@ type Skipped struct {
 	Reason     string `json:"reason"`
 }
 
-// Recommendation ranks the interval methods of one family for a design
+// Recommendation ranks the interval methods of one scale for a design
 // and level. It depends on the design only (the group sizes, the level and
 // the grid of rates), never on observed data, so it can be read before a
 // study is run and does not invite choosing the method after seeing the
@@ -82,13 +82,13 @@ func (r *Recommendation) String() string {
 	return b.String()
 }
 
-// Recommend ranks the registered interval methods of family f for the
+// Recommend ranks the registered interval methods of scale f for the
 // design by their exact coverage over a grid of rates (default 0, 0.01, …,
 // 1 in both groups; the points with a rate of exactly 0 or 1 are left
 // out of the ranking), following [Criterion]. It depends on the design
 // only, never on observed data. It reads WithGrid, WithTolerance,
 // WithProgress (methods done out of those ranked) and WithWorkers, and
-// stops with ctx's error when ctx is cancelled. Methods whose SizeLimit is
+// stops with ctx's error when ctx is cancelled. Methods whose TrialLimit is
 // below n1 + n2 are listed as skipped.
 func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...Option) (*Recommendation, error) {
 	if err := d.Validate(); err != nil {

@@ -35,7 +35,7 @@ func (s *Slice) String() string {
 	return b.String()
 }
 
-// AlongEffect evaluates the table along the line where the family's true
+// AlongEffect evaluates the table along the line where the scale's true
 // parameter equals θ (see [EffectLine]), at WithSteps points (default 101).
 // It reads WithSteps, WithProgress and WithWorkers.
 func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...Option) (*Slice, error) {
@@ -44,7 +44,7 @@ func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...
 	if err != nil {
 		return nil, err
 	}
-	pts, err := EffectLine(t.family(), theta, k)
+	pts, err := EffectLine(t.scale(), theta, k)
 	if err != nil {
 		return nil, err
 	}
@@ -81,6 +81,6 @@ func (t *OutcomeLimits) slice(ctx context.Context, along string, fixed float64, 
 	if err != nil {
 		return nil, err
 	}
-	return &Slice{Method: t.method.Key, MethodName: t.method.Name, Scale: t.family(), Design: t.design,
+	return &Slice{Method: t.method.Key, MethodName: t.method.Name, Scale: t.scale(), Design: t.design,
 		Along: along, Fixed: fixed, Points: points}, nil
 }

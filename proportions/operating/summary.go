@@ -30,7 +30,7 @@ type Summary struct {
 	// Nominal − ShortfallMargin.
 	ShareBelow float64 `json:"share_below"`
 	// MeanWidth is the average expected width (log scale for the ratio
-	// families, among bounded intervals; +Inf if some point has only
+	// scales, among bounded intervals; +Inf if some point has only
 	// unbounded intervals).
 	MeanWidth float64 `json:"mean_width"`
 }

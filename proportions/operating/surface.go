@@ -110,7 +110,7 @@ func (t *OutcomeLimits) Surface(ctx context.Context, opts ...Option) (*Surface, 
 	// (π2, π1) as at (π1, π2), with the two sides exchanged (exchange the
 	// groups: the truth and every interval change sign, exactly). On a
 	// square grid only the points with i ≤ j are computed.
-	mirrored := t.method.Symmetric && t.family() == proportions.Difference && t.n1 == t.n2 && slices.Equal(pi1, pi2)
+	mirrored := t.method.Symmetric && t.scale() == proportions.Difference && t.n1 == t.n2 && slices.Equal(pi1, pi2)
 	pairs := make([]pair, 0, g1*g2)
 	for i := range pi1 {
 		for j := range pi2 {

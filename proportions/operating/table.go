@@ -24,7 +24,7 @@ type OutcomeLimits struct {
 	// lower and upper are the raw limits at index x1·stride + x2.
 	lower, upper []float64
 	// width is the width of the reported interval: Upper − Lower for the
-	// difference; for the ratio families log(Upper/Lower), and 0 when the
+	// difference; for the ratio scales log(Upper/Lower), and 0 when the
 	// interval is unbounded (L = 0 or U = ∞; see unbounded).
 	width []float64
 	// Row x1 is cut into pieces: cuts[rowCut[x1] : rowCut[x1+1]] lists
@@ -217,7 +217,7 @@ func (t *OutcomeLimits) complementRow(x1 int) {
 }
 
 // mirror returns the mirror image of an interval: (−U, −L) for the
-// difference, (1/U, 1/L) for the ratio families (1/0 = ∞, 1/∞ = 0).
+// difference, (1/U, 1/L) for the ratio scales (1/0 = ∞, 1/∞ = 0).
 func (t *OutcomeLimits) mirror(lo, hi float64) (float64, float64) {
 	if t.method.Scale == proportions.Difference {
 		return -hi, -lo
@@ -268,7 +268,7 @@ func (t *OutcomeLimits) finishRow(x1 int) []int32 {
 }
 
 // reportedWidth is the width of the clipped interval: U − L for the
-// difference, log(U/L) for the ratio families (0 when unbounded).
+// difference, log(U/L) for the ratio scales (0 when unbounded).
 func (t *OutcomeLimits) reportedWidth(lo, hi float64) float64 {
 	blo, bhi := t.method.Scale.Bounds()
 	lo, hi = max(lo, blo), min(hi, bhi)
@@ -281,7 +281,7 @@ func (t *OutcomeLimits) reportedWidth(lo, hi float64) float64 {
 	return 0
 }
 
-// unbounded reports whether the ratio-family interval at index k reaches 0 or ∞.
+// unbounded reports whether the ratio-scale interval at index k reaches 0 or ∞.
 func (t *OutcomeLimits) unbounded(k int) bool { return !(t.lower[k] > 0) || math.IsInf(t.upper[k], 1) }
 
 // logWidth is log(U/L) of the reported (clipped at 0) ratio limits, +Inf

@@ -6,7 +6,7 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// Truth returns the true value of a family's parameter at success rates
+// Truth returns the true value of a scale's parameter at success rates
 // (π1, π2), and whether it is defined:
 //
 //   - difference: π1 − π2, always defined;

@@ -8,10 +8,10 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// This file holds the normal-approximation model behind SampleSize, PowerAt,
+// This file holds the normal-approximation model behind SampleSize, Power,
 // DetectableDifference and the asymptotic curves.
 //
-// Every design reduces to one or two one-sided z tests of a contrast
+// Every plan reduces to one or two one-sided z tests of a contrast
 // L = p̂1 − c·p̂2 − d, where (c, d) = (1, θ0) on the difference scale and
 // (θ0, 0) on the ratio scale (Farrington & Manning 1990). With n1 units in
 // group 1 and r·n1 in group 2, L is approximately normal with mean
@@ -53,12 +53,12 @@ func (t zTest) sizeFor(power float64) float64 {
 	return s * s
 }
 
-// model is a design's asymptotic power as a function of n1.
+// model is a plan's asymptotic power as a function of n1.
 type model struct {
-	design Plan
-	r      float64
-	tests  [2]zTest // the first count are in use (kept in an array: no allocation)
-	count  int
+	plan  Plan
+	r     float64
+	tests [2]zTest // the first count are in use (kept in an array: no allocation)
+	count int
 	// combine says how the tests make the decision: the two-sided test
 	// rejects when either one-sided test at α/2 does; equivalence needs both.
 	combine combineRule
@@ -79,7 +79,7 @@ const (
 func normalCDF(x float64) float64 { return 0.5 * math.Erfc(-x/math.Sqrt2) }
 
 // critical returns the critical value of each one-sided z test of the
-// design: z_{1−α/2} for Equality, z_{1−α} otherwise.
+// plan: z_{1−α/2} for Equality, z_{1−α} otherwise.
 func (d Plan) critical() float64 {
 	if d.Goal == Equality {
 		return special.NormalQuantile(1 - d.Alpha/2)
@@ -87,14 +87,14 @@ func (d Plan) critical() float64 {
 	return special.NormalQuantile(1 - d.Alpha)
 }
 
-// newModel builds the model for rates p1, p2 and ratio r; the design must
+// newModel builds the model for rates p1, p2 and ratio r; the plan must
 // have been validated.
 func newModel(d Plan, p1, p2, r float64) model { return newModelZ(d, p1, p2, r, d.critical()) }
 
 // newModelZ is newModel with the critical value z = d.critical() given, for
-// callers that build many models of one design.
+// callers that build many models of one plan.
 func newModelZ(d Plan, p1, p2, r, z float64) model {
-	m := model{design: d, r: r}
+	m := model{plan: d, r: r}
 	switch d.Goal {
 	case Equality:
 		up := m.zTest(p1, p2, d.Scale.NoEffect(), true, z)
@@ -117,13 +117,13 @@ func newModelZ(d Plan, p1, p2, r, z float64) model {
 // zTest sets up the test of θ against null; it records the null rates.
 func (m *model) zTest(p1, p2, null float64, upper bool, z float64) zTest {
 	c, dd := 1.0, null
-	if m.design.Scale == proportions.Ratio {
+	if m.plan.Scale == proportions.Ratio {
 		c, dd = null, 0
 	}
 	v := func(a, b float64) float64 { return a*(1-a) + c*c*b*(1-b)/m.r }
 	q1, q2 := p1, p2
-	if m.design.Variance == Pooled {
-		q1, q2 = nullRates(m.design.Scale, p1, p2, m.r, null)
+	if m.plan.Variance == Pooled {
+		q1, q2 = nullRates(m.plan.Scale, p1, p2, m.r, null)
 	}
 	if m.nullRate1 == 0 && m.nullRate2 == 0 {
 		m.nullRate1, m.nullRate2 = q1, q2
@@ -155,7 +155,7 @@ func (m model) power(n1 float64) float64 {
 // reachable reports whether the power grows to 1 with n1; if not, the
 // error says why no finite sample size exists.
 func (m model) reachable() error {
-	d := m.design
+	d := m.plan
 	if m.combine == either {
 		if m.tests[0].distance() != 0 {
 			return nil
@@ -179,7 +179,7 @@ func (m model) reachable() error {
 	return nil
 }
 
-// sizeFor returns the real n1 at which the design reaches its power:
+// sizeFor returns the real n1 at which the plan reaches its power:
 // the published closed forms for one test (the two-sided test uses the side
 // the anticipated difference points to and neglects the other, as the
 // published formula does), bisection for equivalence.

@@ -371,10 +371,10 @@ func TestPlanningBadInput(t *testing.T) {
 		}
 	}
 	if _, err := Power(NewPlan(Equality, 0.6, 0.5), 0, 10); !errors.Is(err, proportions.ErrPlan) {
-		t.Errorf("PowerAt n1 = 0: %v", err)
+		t.Errorf("Power n1 = 0: %v", err)
 	}
 	if _, err := PowerByTrials(NewPlan(Equality, 0.6, 0.5), 10, 5); !errors.Is(err, proportions.ErrPlan) {
-		t.Errorf("PowerByN empty range: %v", err)
+		t.Errorf("PowerByTrials empty range: %v", err)
 	}
 	if _, err := PowerByDifference(NewPlan(Equality, 0.6, 0.5), 10, 10, 0, 0.5, 10); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("PowerByDifference rate 0: %v", err)

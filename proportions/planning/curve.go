@@ -33,10 +33,10 @@ type PowerCurve struct {
 	Caution string       `json:"caution"`
 }
 
-// PowerByTrials returns the asymptotic power of the design for every n1 from
+// PowerByTrials returns the asymptotic power of the plan for every n1 from
 // n1From to n1To (in equal steps when that is more than MaxCurvePoints
-// sizes, always ending at n1To), with n2 = ⌈r·n1⌉. Design.Power is not used.
-// Errors are those of PowerAt, and ErrPlan for an empty range.
+// sizes, always ending at n1To), with n2 = ⌈r·n1⌉. Plan.Power is not used.
+// Errors are those of Power, and ErrPlan for an empty range.
 func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
 	if _, err := checkedModel(d); err != nil {
 		return PowerCurve{}, err
@@ -53,10 +53,10 @@ func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
 	return c, nil
 }
 
-// PowerByDifference returns the asymptotic power of the design with n1 and
+// PowerByDifference returns the asymptotic power of the plan with n1 and
 // n2 units against the first group's true rate, at points rates evenly
-// spaced from rate1From to rate1To (both in (0, 1)), π2 = Design.Rate2
-// fixed. Design.Rate1 and Power are not used.
+// spaced from rate1From to rate1To (both in (0, 1)), π2 = Plan.Rate2
+// fixed. Plan.Rate1 and Power are not used.
 func PowerByDifference(d Plan, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
 	if err := d.validate(); err != nil {
 		return PowerCurve{}, err

@@ -6,10 +6,10 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// This file turns a Design into the decision rule of the test the user
+// This file turns a Plan into the decision rule of the test the user
 // will run, for exact power: the hypotheses to run the test with.
 
-// Validate checks every field of the design and both rates; the target
+// Validate checks every field of the plan and both rates; the target
 // power and whether it can be reached are checked by the sample-size
 // questions (SampleSize, DetectableDifference). Errors wrap ErrPlan,
 // ErrMargin, ErrAlternative or ErrUnsupported.
@@ -27,17 +27,17 @@ func (d Plan) SecondGroupSize(n1 int64) int64 { return groupTwoSize(n1, d.alloca
 func (d Plan) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 
 // TestHypotheses returns the hypotheses with which the test m carries out
-// the design's decision, each at level α (Conf.Level = 1 − α): one
+// the plan's decision, each at level α (Conf.Level = 1 − α): one
 // two-sided hypothesis of no effect for Equality; one one-sided hypothesis
 // against the margin for Superiority and NonInferiority; for Equivalence
 // the two one-sided hypotheses θ ≤ lower limit (alternative Greater) and
-// θ ≥ upper limit (alternative Less). The design rejects when m rejects
+// θ ≥ upper limit (alternative Less). The plan rejects when m rejects
 // every one of them (exact.Decision carries this rule for exact power).
 //
 // A test of no effect may come from any scale (π1 = π2 on every scale); a
-// margin needs a test on the design's scale that accepts margins. Errors
-// wrap ErrUnsupported for a test that cannot carry out the design, and the
-// errors of Design validation.
+// margin needs a test on the plan's scale that accepts margins. Errors
+// wrap ErrUnsupported for a test that cannot carry out the plan, and the
+// errors of Plan validation.
 func (d Plan) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothesis, error) {
 	if err := d.validate(); err != nil {
 		return nil, err

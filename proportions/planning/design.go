@@ -103,12 +103,12 @@ func unmarshalName(b []byte, names []string, what string) (int, error) {
 
 // Plan describes a planned two-group study: what it sets out to show, the
 // rates anticipated in each group, the error rates and the shape of the
-// groups. The study-planning functions (SampleSize, PowerAt,
+// groups. The study-planning functions (SampleSize, Power,
 // DetectableDifference, the curves and the exact searches) all take one.
 //
 // Planning takes a plain struct rather than the Options of the analysis
 // functions because a plan is a record: it is written down before the data
-// exist, shared, stored as JSON and echoed in every result. NewDesign fills
+// exist, shared, stored as JSON and echoed in every result. NewPlan fills
 // the usual defaults.
 //
 // Conventions: group 1 is the new or experimental arm, group 2 the
@@ -151,19 +151,19 @@ type Plan struct {
 	ContinuityCorrection bool `json:"continuity_correction"`
 }
 
-// Default planning error rates used by NewDesign.
+// Default planning error rates used by NewPlan.
 const (
-	// DefaultPower is the target power used by NewDesign.
+	// DefaultPower is the target power used by NewPlan.
 	DefaultPower = 0.8
-	// DefaultTwoSidedAlpha is NewDesign's α for Equality.
+	// DefaultTwoSidedAlpha is NewPlan's α for Equality.
 	DefaultTwoSidedAlpha = 0.05
-	// DefaultOneSidedAlpha is NewDesign's α for the one-sided goals and for
+	// DefaultOneSidedAlpha is NewPlan's α for the one-sided goals and for
 	// each test of Equivalence: 2.5%, so that the decision matches the
 	// two-sided 95% confidence interval compared with the margin.
 	DefaultOneSidedAlpha = 0.025
 )
 
-// NewPlan returns a design on the difference scale with the defaults:
+// NewPlan returns a plan on the difference scale with the defaults:
 // power 0.8, α 0.05 two-sided for Equality and 0.025 one-sided otherwise,
 // equal groups, no drop-out, pooled variance, no continuity correction, and
 // higher rates better. Set Margin (and any other
@@ -186,7 +186,7 @@ func (d Plan) allocation() float64 {
 	return d.Allocation
 }
 
-// String prints the design in one line, for example
+// String prints the plan in one line, for example
 // "non-inferiority on the difference, π1 = 0.85 vs π2 = 0.85, margin -0.1, one-sided α = 0.025, power 0.8, n2/n1 = 1".
 func (d Plan) String() string {
 	alpha := fmt.Sprintf("one-sided α = %v", d.Alpha)
@@ -279,7 +279,7 @@ func (d Plan) validateMargin() error {
 	m := d.Margin
 	if d.Goal == Equality {
 		if m != 0 {
-			return fmt.Errorf("equality design with margin %v: %w; a test of equality has no margin: leave it 0, or plan Superiority, NonInferiority or Equivalence", m, proportions.ErrMargin)
+			return fmt.Errorf("equality plan with margin %v: %w; a test of equality has no margin: leave it 0, or plan Superiority, NonInferiority or Equivalence", m, proportions.ErrMargin)
 		}
 		return nil
 	}

@@ -9,7 +9,7 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// DetectableSide is the first group's rate at one end of what a design can
+// DetectableSide is the first group's rate at one end of what a plan can
 // detect (see DetectableResult).
 type DetectableSide struct {
 	// Found is false when no rate in (0, 1) on this side reaches the power.
@@ -42,11 +42,11 @@ type DetectableResult struct {
 }
 
 // DetectableDifference returns the true rates of the first group that the
-// design detects with its target power given n1 and n2 units with an
+// plan detects with its target power given n1 and n2 units with an
 // outcome, by the asymptotic model of SampleSize (solved for π1 by root
-// finding, π2 = Design.Rate2 held fixed). Design.Rate1, Allocation and
+// finding, π2 = Plan.Rate2 held fixed). Plan.Rate1, Allocation and
 // Dropout are not used. It returns an error wrapping ErrUnreachable when
-// no rate on any side reaches the power, and the errors of PowerAt for
+// no rate on any side reaches the power, and the errors of Power for
 // bad input.
 func DetectableDifference(d Plan, n1, n2 int64) (DetectableResult, error) {
 	if err := d.validate(); err != nil {
@@ -96,7 +96,7 @@ func DetectableDifference(d Plan, n1, n2 int64) (DetectableResult, error) {
 	return res, nil
 }
 
-// rateSearch solves the design's power for the first group's rate, π2 and
+// rateSearch solves the plan's power for the first group's rate, π2 and
 // the group sizes fixed.
 type rateSearch struct {
 	d     Plan
@@ -114,7 +114,7 @@ func (s rateSearch) deciding(k int, p1 float64) zTest {
 	if s.d.Goal != Equivalence {
 		return s.model(p1).tests[k]
 	}
-	m := model{design: s.d, r: s.r}
+	m := model{plan: s.d, r: s.r}
 	lo, hi := s.d.equivalenceBounds()
 	if k == 0 {
 		return m.zTest(p1, s.d.Rate2, lo, true, s.z)
@@ -191,7 +191,7 @@ func (d Plan) side(p1 float64, ok bool) DetectableSide {
 	return DetectableSide{Found: true, Rate1: p1, Difference: p1 - d.Rate2, Ratio: p1 / d.Rate2}
 }
 
-// String prints what the design can detect.
+// String prints what the plan can detect.
 func (r DetectableResult) String() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Detectable with %d + %d units, power %v, π2 = %v (%s)\n", r.N1, r.N2, r.Plan.Power, r.Plan.Rate2, r.Plan.Goal)

@@ -3,9 +3,9 @@
 //
 // The asymptotic formulas (normal approximation with pooled or unpooled
 // variance, Farrington–Manning restricted-MLE variance for margins,
-// continuity correction) live in package proportions with the Design type
-// (SampleSize, PowerAt, DetectableDifference, PowerByN,
-// PowerByDifference). This package takes the same Design and a registered
+// continuity correction) live in package proportions with the Plan type
+// (SampleSize, Power, DetectableDifference, PowerByTrials,
+// PowerByDifference). This package takes the same Plan and a registered
 // proportions.TestMethod and, through the operating-characteristics engine
 // (package operating), enumerates every outcome of the two binomial
 // distributions:

@@ -14,7 +14,7 @@ import (
 const MaxExactTrials = operating.MaxDesignTrials
 
 // ExactPowerResult is the exact power of the test the user will run, for a
-// design and group sizes.
+// plan and group sizes.
 type ExactPowerResult struct {
 	Plan Plan `json:"plan"`
 	// Method is the key of the test, TestName its published name.
@@ -25,28 +25,28 @@ type ExactPowerResult struct {
 	N1         int64                    `json:"n1"`
 	N2         int64                    `json:"n2"`
 	// Power is the exact power; Asymptotic the normal approximation of
-	// PowerAt at the same sizes, for comparison.
+	// Power at the same sizes, for comparison.
 	Power      float64  `json:"power"`
 	Asymptotic float64  `json:"asymptotic_power"`
 	Notes      []string `json:"notes"`
 	Caution    string   `json:"caution"`
 }
 
-// ExactPower returns the exact power of test m, run as the design says
-// (Design.TestHypotheses: a two-sided test of no effect, a one-sided test
+// ExactPower returns the exact power of test m, run as the plan says
+// (Plan.TestHypotheses: a two-sided test of no effect, a one-sided test
 // against the margin, or two one-sided tests for equivalence, each at
 // level α), with n1 and n2 units with an outcome and true rates
-// Design.Rate1 and Design.Rate2:
+// Plan.Rate1 and Plan.Rate2:
 //
 //	power = Σ_{x1=0..n1} Σ_{x2=0..n2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)},
 //
 // b the binomial probability, by running the test on every outcome (tails of
 // total probability below 10⁻¹⁶ left out) with the operating-characteristics
-// engine (operating.Decision.Power). Design.Power, Allocation,
+// engine (operating.Decision.Power). Plan.Power, Allocation,
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
 // its own statistic). Errors wrap the sentinels of SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the
-// design, ErrPlan for sizes outside [1, MaxExactGroup], or the context's
+// plan, ErrPlan for sizes outside [1, MaxExactTrials], or the context's
 // error when it is cancelled.
 func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
 	dc, err := newDecision(d, m)
@@ -68,7 +68,7 @@ func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 in
 		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: Caution}, nil
 }
 
-// newDecision validates the design's fields and rates (not its power) and
+// newDecision validates the plan's fields and rates (not its power) and
 // the test, and returns the decision rule for the engine.
 func newDecision(d Plan, m proportions.TestMethod) (operating.Decision, error) {
 	if err := d.Validate(); err != nil {
@@ -119,7 +119,7 @@ type ExactSampleSizeResult struct {
 	From       int64            `json:"from"`
 	Horizon    int64            `json:"horizon"`
 	First      GroupSizes       `json:"first"`
-	// Stable is the zero ExactSize with StableFound false when the power at
+	// Stable is the zero GroupSizes with StableFound false when the power at
 	// a horizon set in Search falls below the target.
 	Stable      GroupSizes `json:"stable"`
 	StableFound bool       `json:"stable_found"`
@@ -139,10 +139,10 @@ type GroupSizes struct {
 }
 
 // ExactSampleSize finds the smallest group sizes at which the exact power
-// (see ExactPower) of test m reaches Design.Power, scanning n1 = From,
+// (see ExactPower) of test m reaches Plan.Power, scanning n1 = From,
 // From+1, ... with n2 = ⌈r·n1⌉, and the smallest size from which the power
 // stays at or above the target up to the horizon (see Search for the
-// defaults). It reads every field of the design; Variance and
+// defaults). It reads every field of the plan; Variance and
 // ContinuityCorrection shape only the asymptotic answer reported beside.
 // Errors are those of SampleSize and ExactPower, ErrUnreachable
 // when no size up to Search.MaxN1 reaches the target, ErrTooLarge when the
@@ -207,7 +207,7 @@ func searchNotes(r ExactSampleSizeResult) []string {
 
 // ExactPowerByTrials returns the exact power of test m for every n1 from n1From
 // to n1To (in equal steps when that is more than MaxCurvePoints
-// sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Design.Power is
+// sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Plan.Power is
 // not used.
 func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n1From, n1To int64) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
@@ -232,7 +232,7 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 
 // ExactPowerByDifference returns the exact power of test m with n1 and n2
 // units against the first group's true rate, at points rates evenly spaced
-// from rate1From to rate1To, π2 = Design.Rate2 fixed. The test runs once on
+// from rate1From to rate1To, π2 = Plan.Rate2 fixed. The test runs once on
 // every outcome (operating.NewRejectionRegion, which stops when ctx is
 // cancelled); each rate then costs one sum over the region's runs.
 func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
@@ -263,7 +263,7 @@ func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMetho
 // String prints the exact power in a few lines.
 func (r ExactPowerResult) String() string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Exact power %.4f of %s with %d + %d units (normal approximation %.4f)\n  design: %s\n",
+	fmt.Fprintf(&b, "Exact power %.4f of %s with %d + %d units (normal approximation %.4f)\n  plan: %s\n",
 		r.Power, r.MethodName, r.N1, r.N2, r.Asymptotic, r.Plan)
 	writeNotes(&b, r.Notes, r.Caution)
 	return b.String()

@@ -18,7 +18,7 @@ import (
 // test of π1 − π2 = δ with the unpooled variance, z = (p1 − p2 − δ)/√(p1q1/n1
 // + p2q2/n2), normal p-values (z = 0 when the variance is 0 and p1 − p2 = δ,
 // ±∞ otherwise). It accepts margins, so it exercises the one-sided and
-// equivalence designs on the difference scale.
+// equivalence plans on the difference scale.
 var waldDifference = proportions.TestMethod{
 	Key: "test-wald", Name: "Wald z test (test helper)", Scale: proportions.Difference, Margins: true,
 	Run: func(c proportions.Counts, h proportions.Hypothesis) proportions.TestResult {
@@ -46,7 +46,7 @@ var waldDifference = proportions.TestMethod{
 }
 
 // bruteRejects decides through the public Test entry point with options,
-// independently of Design.TestHypotheses.
+// independently of Plan.TestHypotheses.
 func bruteRejects(t *testing.T, d Plan, m proportions.TestMethod, c proportions.Counts) bool {
 	t.Helper()
 	type one struct {
@@ -259,7 +259,7 @@ func TestExactPowerSawTooth(t *testing.T) {
 		}
 	}
 	if got != drops {
-		t.Errorf("ExactPowerByN shows %d drops, brute force %d", got, drops)
+		t.Errorf("ExactPowerByTrials shows %d drops, brute force %d", got, drops)
 	}
 }
 
@@ -283,7 +283,7 @@ func TestExactPowerByDifference(t *testing.T) {
 }
 
 // At large n the exact power of the score test approaches the normal
-// approximation (the model behind PowerAt).
+// approximation (the model behind Power).
 func TestExactPowerNearAsymptoticAtLargeN(t *testing.T) {
 	d := NewPlan(Equality, 0.6, 0.75)
 	res, err := ExactPower(context.Background(), d, proportions.FarringtonManningRatioTest, 400, 400)

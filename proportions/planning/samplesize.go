@@ -21,7 +21,7 @@ const (
 	citeSchuirmann      = "Schuirmann DJ (1987). A comparison of the two one-sided tests procedure and the power approach for assessing the equivalence of average bioavailability. Journal of Pharmacokinetics and Biopharmaceutics 15:657–680."
 )
 
-// SampleSizeResult is the asymptotic sample size of a design.
+// SampleSizeResult is the asymptotic sample size of a plan.
 type SampleSizeResult struct {
 	Plan Plan `json:"plan"`
 	// Approximation names the formula; Citation its sources; Formula states it.
@@ -38,7 +38,7 @@ type SampleSizeResult struct {
 	Enrolled1     int64 `json:"enrolled1"`
 	Enrolled2     int64 `json:"enrolled2"`
 	EnrolledTotal int64 `json:"enrolled_total"`
-	// Power is the asymptotic power at N1 and N2 (at least Design.Power).
+	// Power is the asymptotic power at N1 and N2 (at least Plan.Power).
 	Power float64 `json:"power"`
 	// NullRate1 and NullRate2 are the rates behind the null variance: the
 	// pooled rate, the Farrington–Manning restricted MLEs (for equivalence,
@@ -49,7 +49,7 @@ type SampleSizeResult struct {
 	Caution   string   `json:"caution"`
 }
 
-// SampleSize returns the number of units per group a design needs by the
+// SampleSize returns the number of units per group a plan needs by the
 // normal approximation, rounded up, with the enrolment inflated for
 // drop-out.
 //
@@ -71,7 +71,7 @@ type SampleSizeResult struct {
 //     2(r+1)/(n'·r·|p1 − p2|)))², n' the uncorrected size (Casagrande, Pike
 //     & Smith 1978; Fleiss, Tytun & Ury 1980).
 //
-// It reads every field of the design. Errors wrap ErrPlan (rates, α,
+// It reads every field of the plan. Errors wrap ErrPlan (rates, α,
 // power, allocation, drop-out), ErrMargin (margin out of range or of the
 // wrong sign), ErrAlternative, ErrUnsupported, or ErrUnreachable when no
 // finite sample size exists (equal rates in a test of equality or
@@ -89,7 +89,7 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 	}
 	n := m.sizeFor(d.Power)
 	if n > float64(proportions.MaxTrials) || math.IsNaN(n) {
-		return SampleSizeResult{}, fmt.Errorf("sample size %.3g per group: %w; the design needs more than %d units per group", n, proportions.ErrTooLarge, proportions.MaxTrials)
+		return SampleSizeResult{}, fmt.Errorf("sample size %.3g per group: %w; the plan needs more than %d units per group", n, proportions.ErrTooLarge, proportions.MaxTrials)
 	}
 	n1 := ceilSize(n)
 	n2 := groupTwoSize(n1, m.r)
@@ -105,7 +105,7 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 	return res, nil
 }
 
-// checkedModel validates the design (except the power) and builds its model.
+// checkedModel validates the plan (except the power) and builds its model.
 func checkedModel(d Plan) (model, error) {
 	if err := d.validate(); err != nil {
 		return model{}, err
@@ -129,7 +129,7 @@ func enrolled(n int64, share float64) int64 {
 	return ceilSize(float64(n) / (1 - share))
 }
 
-// PowerResult is the power of a design at given group sizes.
+// PowerResult is the power of a plan at given group sizes.
 type PowerResult struct {
 	Plan          Plan     `json:"plan"`
 	Approximation string   `json:"approximation"`
@@ -141,11 +141,11 @@ type PowerResult struct {
 	Caution       string   `json:"caution"`
 }
 
-// Power returns the asymptotic power of the design with n1 and n2 units
-// with an outcome in the groups (the design's Allocation, Dropout and Power
+// Power returns the asymptotic power of the plan with n1 and n2 units
+// with an outcome in the groups (the plan's Allocation, Dropout and Power
 // are not used). The model is the one SampleSize solves; for a test of
 // equality both rejection regions count. Errors are those of SampleSize
-// (except ErrUnreachable: a design that cannot reach any power simply has
+// (except ErrUnreachable: a plan that cannot reach any power simply has
 // power at most α) and ErrPlan for group sizes below 1 or above MaxTrials.
 func Power(d Plan, n1, n2 int64) (PowerResult, error) {
 	if _, err := checkedModel(d); err != nil {
@@ -168,7 +168,7 @@ func validateSizes(n1, n2 int64) error {
 	return nil
 }
 
-// describeMethod names the asymptotic method of a design, its sources and
+// describeMethod names the asymptotic method of a plan, its sources and
 // its formula.
 func describeMethod(d Plan) (method, citation, formula string) {
 	variance := "pooled null variance"

@@ -10,7 +10,7 @@ import (
 
 // DefaultMaxN1 is the largest group-1 size the exact search visits unless
 // Search.MaxN1 says otherwise; the search also keeps group 2 within
-// MaxExactGroup.
+// MaxExactTrials.
 const DefaultMaxN1 = MaxExactTrials
 
 // Search bounds the exact sample-size search. The zero value scans from
@@ -27,12 +27,12 @@ type Search struct {
 	// at the horizon itself reaches the target.
 	Horizon int64 `json:"horizon"`
 	// MaxN1 caps the scan (default DefaultMaxN1, lowered when needed so
-	// that group 2, ⌈r·n1⌉, stays within MaxExactGroup).
+	// that group 2, ⌈r·n1⌉, stays within MaxExactTrials).
 	MaxN1 int64 `json:"max_n1"`
 }
 
 // maxN1 is the cap of the scan: MaxN1 (default DefaultMaxN1), lowered so
-// that group 2 stays within MaxExactGroup.
+// that group 2 stays within MaxExactTrials.
 func (s Search) maxN1(d Plan) int64 {
 	maxN := s.MaxN1
 	if maxN == 0 {
