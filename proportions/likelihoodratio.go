@@ -15,7 +15,7 @@ import "math"
 // close to E. One-sided alternatives and the degenerate table follow the
 // conventions of PearsonChiSquare (signed root sign(p1 − p2)·√G²).
 var LikelihoodRatioTest = TestMethod{
-	Key:        "likelihood-ratio-test",
+	Key:        "likelihood-ratio-chi-square-test",
 	Name:       "Likelihood-ratio G² test",
 	Citation:   "Wilks SS (1938). The large-sample distribution of the likelihood ratio for testing composite hypotheses. Annals of Mathematical Statistics 9:60–62.",
 	Definition: "G² = 2 Σ O·log(O/E) over the four cells (0·log 0 = 0), E = row total × column total / N; χ² with 1 df (signed root for one-sided alternatives)",
@@ -25,7 +25,7 @@ var LikelihoodRatioTest = TestMethod{
 
 func likelihoodRatioRun(c Counts, h Hypothesis) TestResult {
 	d, _ := tableDeviation(c)
-	return chiSquareResult(gSquared(c), d, h, "likelihood-ratio-test", "Likelihood-ratio G² test", "G²")
+	return chiSquareResult(gSquared(c), d, h, "likelihood-ratio-chi-square-test", "Likelihood-ratio G² test", "G²")
 }
 
 // gSquared returns G² for the table (0 for the degenerate table).

@@ -1,5 +1,5 @@
-// Package exact computes the exact operating characteristics of the
-// registered methods for a study design: the coverage and expected width of
+// Package operating computes the exact operating characteristics of the
+// registered methods for a study design (group sizes n1, n2 and a level): the coverage and expected width of
 // every interval method, and the size and power of every test, for the
 // design's own sample sizes (n1, n2) and level, by full enumeration of the
 // two binomial distributions. Nothing here is simulated.
@@ -22,7 +22,7 @@
 // registry it computes one outcome of each mirror set and copies the rest
 // (a quarter of the outcomes when n1 = n2). Along a row x1, the limits of
 // the usual methods fall as x2 grows, so the x2 whose interval covers θ
-// form one run; the table checks this row by row and cuts a row into
+// form one run; it checks this row by row and cuts a row into
 // several monotone pieces where it does not hold (near zero counts, for
 // example), so the result is exact in every case. The points of a surface
 // are visited in order of their truth, so each run moves a few steps from
@@ -41,13 +41,13 @@
 //   - [Power] and [Decision.Power]: exact power of a test at one (π1, π2),
 //     computed on the outcomes that matter there (what a sample-size search
 //     calls); [NewRejectionRegion] builds a decision's rejection region once
-//     to evaluate power at many points; [Size]: the actual type I error
+//     to evaluate power at many points; [TypeIError]: the actual type I error
 //     along the null line (π1 = π2, or the margin's line).
 //   - [Recommend]: a ranking of the interval methods of a scale for a
 //     design and level, by a documented [Criterion]; it depends on the
 //     design only, never on data.
 //
-// Every method comes from the registry (proportions.IntervalMethods,
+// Every method comes from the registry (proportions.EnumerableIntervalMethods,
 // proportions.Tests), so methods registered later are covered without
 // changes here. Long computations take a context.Context for cancellation
 // and report progress through [WithProgress].

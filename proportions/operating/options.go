@@ -12,9 +12,9 @@ import (
 // with done increasing up to total.
 type Progress func(done, total int)
 
-// Option tunes a long computation. Each function documents which options
+// RunOption tunes a long computation. Each function documents which options
 // it reads; the others are ignored.
-type Option func(*config)
+type RunOption func(*config)
 
 type config struct {
 	progress  Progress
@@ -25,27 +25,27 @@ type config struct {
 }
 
 // WithProgress reports progress to f.
-func WithProgress(f Progress) Option { return func(c *config) { c.progress = f } }
+func WithProgress(f Progress) RunOption { return func(c *config) { c.progress = f } }
 
 // WithGrid sets the success rates of a surface: π1 takes the values pi1,
 // π2 the values pi2 (each in [0, 1]). The default is 0, 0.01, …, 1 for both.
-func WithGrid(pi1, pi2 []float64) Option {
+func WithGrid(pi1, pi2 []float64) RunOption {
 	return func(c *config) { c.pi1, c.pi2 = pi1, pi2 }
 }
 
 // WithSteps sets the number of evenly spaced points of a slice or of a
 // size curve (at least 2; default 101 for slices and 1001 for size curves).
-func WithSteps(k int) Option { return func(c *config) { c.steps = k } }
+func WithSteps(k int) RunOption { return func(c *config) { c.steps = k } }
 
 // WithTolerance sets how far below the nominal level a method's minimum
 // coverage may fall and still count as holding its level in [Recommend]
 // (default 0.02, that is 2 percentage points; between 0 and the level).
-func WithTolerance(t float64) Option { return func(c *config) { c.tolerance = t } }
+func WithTolerance(t float64) RunOption { return func(c *config) { c.tolerance = t } }
 
 // WithWorkers sets the number of goroutines (default GOMAXPROCS).
-func WithWorkers(n int) Option { return func(c *config) { c.workers = n } }
+func WithWorkers(n int) RunOption { return func(c *config) { c.workers = n } }
 
-func newConfig(opts []Option) config {
+func newConfig(opts []RunOption) config {
 	c := config{tolerance: DefaultTolerance}
 	for _, o := range opts {
 		if o != nil {

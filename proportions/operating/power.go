@@ -135,7 +135,7 @@ type RejectionRegion struct {
 // WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
 // tests that search a nuisance parameter at each outcome make this slow at
 // large n; their TrialLimit is a guide.
-func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Option) (*RejectionRegion, error) {
+func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...RunOption) (*RejectionRegion, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return nil, err
 	}

@@ -90,7 +90,7 @@ func (r *Recommendation) String() string {
 // WithProgress (methods done out of those ranked) and WithWorkers, and
 // stops with ctx's error when ctx is cancelled. Methods whose TrialLimit is
 // below n1 + n2 are listed as skipped.
-func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...Option) (*Recommendation, error) {
+func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...RunOption) (*Recommendation, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}
@@ -114,7 +114,7 @@ func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...Optio
 	rep := newReporter(cfg.progress, len(methods))
 	inner := cfg
 	inner.progress = nil
-	innerOpts := []Option{func(c *config) { *c = inner }}
+	innerOpts := []RunOption{func(c *config) { *c = inner }}
 	for _, m := range methods {
 		tab, err := NewOutcomeLimits(ctx, m, d, innerOpts...)
 		if err != nil {

@@ -55,7 +55,7 @@ func (s *TypeIErrorCurve) String() string {
 // computed here, where the usual tests, whose power grows with the
 // effect, reach their largest size. It reads WithSteps, WithProgress (rows
 // of the rejection region done) and WithWorkers.
-func TypeIError(ctx context.Context, t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, opts ...Option) (*TypeIErrorCurve, error) {
+func TypeIError(ctx context.Context, t proportions.TestMethod, n1, n2 int, h proportions.Hypothesis, opts ...RunOption) (*TypeIErrorCurve, error) {
 	return Decision{Test: t, Hypotheses: []proportions.Hypothesis{h}}.Size(ctx, n1, n2, opts...)
 }
 
@@ -63,7 +63,7 @@ func TypeIError(ctx context.Context, t proportions.TestMethod, n1, n2 int, h pro
 // first hypothesis (see the function [TypeIError]). For an equivalence decision
 // (two one-sided hypotheses) the null has two boundary lines; list the
 // hypothesis whose line you want first, or call Size once per order.
-func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...Option) (*TypeIErrorCurve, error) {
+func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...RunOption) (*TypeIErrorCurve, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}

@@ -38,7 +38,7 @@ func (s *Slice) String() string {
 // AlongEffect evaluates the table along the line where the scale's true
 // parameter equals θ (see [EffectLine]), at WithSteps points (default 101).
 // It reads WithSteps, WithProgress and WithWorkers.
-func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...Option) (*Slice, error) {
+func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...RunOption) (*Slice, error) {
 	cfg := newConfig(opts)
 	k, err := cfg.stepsOr(101)
 	if err != nil {
@@ -54,7 +54,7 @@ func (t *OutcomeLimits) AlongEffect(ctx context.Context, theta float64, opts ...
 // AlongFirst evaluates the table at a fixed π2 with π1 running from 0 to 1
 // at WithSteps points (default 101). It reads WithSteps, WithProgress and
 // WithWorkers.
-func (t *OutcomeLimits) AlongFirst(ctx context.Context, pi2 float64, opts ...Option) (*Slice, error) {
+func (t *OutcomeLimits) AlongFirst(ctx context.Context, pi2 float64, opts ...RunOption) (*Slice, error) {
 	if err := validateRate("π2", pi2); err != nil {
 		return nil, err
 	}

@@ -87,7 +87,7 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 // row's run of covered outcomes moves a few steps between points (see the
 // package documentation). Progress counts the points computed (about half
 // the grid when mirror images are copied, see below).
-func (t *OutcomeLimits) Surface(ctx context.Context, opts ...Option) (*Surface, error) {
+func (t *OutcomeLimits) Surface(ctx context.Context, opts ...RunOption) (*Surface, error) {
 	cfg := newConfig(opts)
 	pi1, pi2 := cfg.pi1, cfg.pi2
 	if pi1 == nil && pi2 == nil {

@@ -46,7 +46,7 @@ type OutcomeLimits struct {
 // options WithProgress (rows done out of n1+1) and WithWorkers, and stops
 // early with ctx's error when ctx is cancelled.
 // Memory: 24·(n1+1)·(n2+1) bytes, 24 MB at 1000 per group.
-func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...Option) (*OutcomeLimits, error) {
+func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...RunOption) (*OutcomeLimits, error) {
 	if err := d.Validate(); err != nil {
 		return nil, err
 	}

@@ -1,14 +1,21 @@
-// Package planning is the exact side of study planning: the exact power of
-// the test the user will actually run, and the sample size it needs.
+// Package planning plans a two-group study: the sample size it needs and the
+// power it has, for the test the user will run.
 //
-// The asymptotic formulas (normal approximation with pooled or unpooled
-// variance, Farrington–Manning restricted-MLE variance for margins,
-// continuity correction) live in package proportions with the Plan type
-// (SampleSize, Power, DetectableDifference, PowerByTrials,
-// PowerByDifference). This package takes the same Plan and a registered
-// proportions.TestMethod and, through the operating-characteristics engine
-// (package operating), enumerates every outcome of the two binomial
-// distributions:
+// A [Plan] is the record written before the data exist: the goal (equality,
+// superiority, non-inferiority, equivalence), the anticipated rates, the
+// margin, α, the target power, the allocation and the expected drop-out;
+// [NewPlan] fills the defaults. Every function takes a Plan:
+//
+//   - by the normal approximation (pooled or unpooled variance,
+//     Farrington–Manning restricted-MLE variance for margins, continuity
+//     correction): [SampleSize], [Power], [DetectableDifference],
+//     [PowerByTrials] and [PowerByDifference];
+//   - exactly, for a registered proportions.TestMethod, by enumerating every
+//     outcome of the two binomial distributions through the
+//     operating-characteristics engine (package operating): [ExactPower],
+//     [ExactSampleSize], [ExactPowerByTrials] and [ExactPowerByDifference].
+//
+// Exact power is
 //
 //	power = Σ_{x1} Σ_{x2} b(x1; n1, π1)·b(x2; n2, π2)·1{the test rejects at (x1, x2)}.
 //
