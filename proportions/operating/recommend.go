@@ -57,7 +57,7 @@ type Recommendation struct {
 	Tolerance float64           `json:"tolerance"`
 	Criterion string            `json:"criterion"`
 	Ranking   []Ranked          `json:"ranking"`
-	Skipped   []Skipped         `json:"skipped,omitempty"`
+	Skipped   []Skipped         `json:"skipped"`
 }
 
 // Best returns the first-ranked method (false when none was ranked).

@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"slices"
 
+	"github.com/propscope/propscope/internal/jsonlist"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -43,7 +44,8 @@ func (s *Surface) String() string {
 }
 
 // MarshalJSON writes the maps as arrays of rows (one row per π1), with
-// NaN as null and infinities as "Infinity".
+// NaN as null and infinities as "Infinity"; every list is an array, [] when
+// empty, even in a surface built by hand.
 func (s *Surface) MarshalJSON() ([]byte, error) {
 	rows := func(v []float64) [][]proportions.JSONFloat {
 		out := make([][]proportions.JSONFloat, len(s.Pi1))
@@ -57,7 +59,7 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 	}
 	defined := make([][]bool, len(s.Pi1))
 	for i := range defined {
-		defined[i] = s.Defined[i*len(s.Pi2) : (i+1)*len(s.Pi2)]
+		defined[i] = jsonlist.NonNil(s.Defined[i*len(s.Pi2) : (i+1)*len(s.Pi2)])
 	}
 	return json.Marshal(struct {
 		Method     string                    `json:"method"`
@@ -73,7 +75,7 @@ func (s *Surface) MarshalJSON() ([]byte, error) {
 		Unbounded  [][]proportions.JSONFloat `json:"unbounded"`
 		Defined    [][]bool                  `json:"defined"`
 		Summary    Summary                   `json:"summary"`
-	}{s.Method, s.MethodName, s.Scale, s.Design, s.Pi1, s.Pi2, rows(s.Coverage), rows(s.Below), rows(s.Above),
+	}{s.Method, s.MethodName, s.Scale, s.Design, jsonlist.NonNil(s.Pi1), jsonlist.NonNil(s.Pi2), rows(s.Coverage), rows(s.Below), rows(s.Above),
 		rows(s.Width), rows(s.Unbounded), defined, s.Summary()})
 }
 
