@@ -21,7 +21,12 @@ const (
 	SingleRate
 )
 
-var scaleNames = [...]string{"difference", "ratio", "odds ratio", "rate"}
+var (
+	scaleNames = [...]string{"difference", "ratio", "odds ratio", "rate"}
+	// scaleKeys are the JSON spellings: hyphenated like every other
+	// enumerated value (two-sided, large-sample, non-inferiority).
+	scaleKeys = [...]string{"difference", "ratio", "odds-ratio", "rate"}
+)
 
 // String returns the scale's plain name.
 func (f Scale) String() string {
@@ -31,22 +36,28 @@ func (f Scale) String() string {
 	return scaleNames[f]
 }
 
-// MarshalJSON writes the plain name.
-func (f Scale) MarshalJSON() ([]byte, error) { return json.Marshal(f.String()) }
+// MarshalJSON writes the scale's JSON spelling: "difference", "ratio",
+// "odds-ratio" or "rate".
+func (f Scale) MarshalJSON() ([]byte, error) {
+	if f < 0 || int(f) >= len(scaleKeys) {
+		return nil, fmt.Errorf("scale %d: %w; use Difference, Ratio, OddsRatio or SingleRate", int(f), ErrUnsupported)
+	}
+	return json.Marshal(scaleKeys[f])
+}
 
-// UnmarshalJSON reads the plain name.
+// UnmarshalJSON reads what MarshalJSON writes.
 func (f *Scale) UnmarshalJSON(b []byte) error {
 	var s string
 	if err := json.Unmarshal(b, &s); err != nil {
 		return err
 	}
-	for i, n := range scaleNames {
+	for i, n := range scaleKeys {
 		if n == s {
 			*f = Scale(i)
 			return nil
 		}
 	}
-	return fmt.Errorf("unknown scale %q", s)
+	return fmt.Errorf("scale %q: %w; use \"difference\", \"ratio\", \"odds-ratio\" or \"rate\"", s, ErrUnsupported)
 }
 
 // NoEffect is the value of the scale's parameter when the groups do not

@@ -14,7 +14,7 @@ import (
 //   - odds ratio ψ: π1 = ψπ2 / (1 − π2 + ψπ2), π2 from 0 to 1.
 //
 // At θ = no effect this is the line π1 = π2. Errors wrap
-// proportions.ErrMargin for θ outside the scale's open parameter space
+// proportions.ErrNull for θ outside the scale's open parameter space
 // (−1 < δ < 1, 0 < ρ, ψ < ∞).
 func EffectLine(f proportions.Scale, theta float64, k int) ([][2]float64, error) {
 	if f == proportions.SingleRate {

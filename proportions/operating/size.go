@@ -11,9 +11,9 @@ import (
 // TypeIErrorPoint is the probability of rejecting at one pair of rates on the
 // null line.
 type TypeIErrorPoint struct {
-	Pi1  float64 `json:"pi1"`
-	Pi2  float64 `json:"pi2"`
-	Size float64 `json:"size"`
+	Pi1        float64 `json:"pi1"`
+	Pi2        float64 `json:"pi2"`
+	TypeIError float64 `json:"type_i_error"`
 }
 
 // TypeIErrorCurve is the actual type I error of a decision along its null line
@@ -89,7 +89,7 @@ func (d Decision) Size(ctx context.Context, n1, n2 int, opts ...RunOption) (*Typ
 		if err != nil {
 			return nil, err
 		}
-		s.Points[i] = TypeIErrorPoint{Pi1: p[0], Pi2: p[1], Size: size}
+		s.Points[i] = TypeIErrorPoint{Pi1: p[0], Pi2: p[1], TypeIError: size}
 		total += size
 		if size > s.Max {
 			s.Max, s.MaxPi1, s.MaxPi2 = size, p[0], p[1]
