@@ -161,8 +161,13 @@ func BracketedHalley(F func(x float64) (f, d1, d2 float64), x0, a, b float64) fl
 		}
 		next := x - s
 		if math.Abs(s) <= halleyTolerance*math.Abs(x) {
-			// Converged; the result may sit an ulp outside the bracket.
-			return math.Min(math.Max(next, a), b)
+			// Converged, unless the step left the bracket by more than
+			// rounding: then it converged on a root outside the bracket
+			// (one just beyond an end), and bisection must go on inside.
+			in := math.Min(math.Max(next, a), b)
+			if math.Abs(next-in) <= 4*ulp(x) {
+				return in
+			}
 		}
 		if !(next > a && next < b) { // also for NaN and ±Inf
 			next = a + (b-a)/2
@@ -183,3 +188,9 @@ const (
 	// callers' brackets (at most 2^50 wide) by 2^−200.
 	maxHalleySteps = 200
 )
+
+// ulp is the spacing of float64 values at x.
+func ulp(x float64) float64 {
+	x = math.Abs(x)
+	return math.Nextafter(x, math.Inf(1)) - x
+}

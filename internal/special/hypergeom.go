@@ -330,5 +330,8 @@ func LogAddExp(a, b float64) float64 {
 	if a < b {
 		a, b = b, a
 	}
+	if math.IsInf(a, 1) {
+		return a // e^a + e^b is +Inf; a − b would be Inf − Inf
+	}
 	return a + math.Log1p(math.Exp(b-a))
 }
