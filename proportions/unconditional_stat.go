@@ -71,7 +71,30 @@ func zRatio(num, variance float64) float64 {
 func exactScoreZ(x1, n1, x2, n2, delta float64) float64 {
 	p1, p2 := x1/n1, x2/n2
 	q1, q2 := exactRestricted(p1, n1, p2, n2, delta)
-	return zRatio(p1-p2-delta, q1*(1-q1)/n1+q2*(1-q2)/n2)
+	c1, c2 := restrictedComplements(q1, q2, delta)
+	return zRatio(p1-p2-delta, q1*c1/n1+q2*c2/n2)
+}
+
+// restrictedComplements returns 1 − q1 and 1 − q2 for restricted estimates
+// with q1 − q2 = delta. The complement of the larger estimate is taken as
+// 1 − q and the other one as that plus |delta|, because the direct 1 − q of
+// the other estimate can lose |delta| entirely. The case that matters is the
+// table with every trial an event (x1 = n1, x2 = n2): its estimates lie on
+// the edge of the null line, (1 + δ, 1) for δ < 0 or (1, 1 − δ) for δ > 0,
+// so its variance is |δ|(1 − |δ|)/n and its z is about √(n|δ|), near 0.
+// For |δ| below about 1e−16, 1 ± δ rounds to 1, both direct complements
+// are 0, the variance is 0 and z comes out as ±∞: the table, whose
+// probability tends to 1 as the nuisance tends to 1, then joined the
+// rejection region and the p-value at such a δ was 1. The interval searches
+// step from p1 − p2 by multiples of a rational step and can land there
+// (60/200 vs 40/200 lands on −2e−17), which stopped a limit next to 0.
+func restrictedComplements(q1, q2, delta float64) (c1, c2 float64) {
+	if delta < 0 { // q2 is the larger estimate
+		c2 = 1 - q2
+		return c2 - delta, c2
+	}
+	c1 = 1 - q1
+	return c1, c1 + delta
 }
 
 // exactWaldZ is the unpooled (Wald) statistic (p1 − p2 − delta)/√(p1(1−p1)/n1 + p2(1−p2)/n2).

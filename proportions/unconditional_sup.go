@@ -1,6 +1,10 @@
 package proportions
 
-import "math"
+import (
+	"math"
+
+	"github.com/propscope/propscope/internal/special"
+)
 
 // Finding the supremum over the nuisance parameter.
 //
@@ -46,6 +50,12 @@ type nuisanceSearch struct {
 	// thetaMax is the end of the angle range searched: π/2, or π/4 when the
 	// tail is symmetric about π2 = ½ (see region.mirrored).
 	thetaMax float64
+	// low, when set, is a second region whose probability is added, taken
+	// on the line π1 = π2 + lowDelta: the bound of exactScoreBound, which
+	// takes each half of a two-sided region at the end of a stretch of δ
+	// where that half is most probable.
+	low      *region
+	lowDelta float64
 }
 
 func (s *nuisanceSearch) pi2(theta float64) float64 {
@@ -57,10 +67,17 @@ func (s *nuisanceSearch) at(theta float64) float64 {
 	p2 := s.pi2(theta)
 	p1 := min(max(p2+s.delta, 0), 1)
 	if s.logScale {
-		return s.work.logProb(s.reg, p1, p2)
+		v := s.work.logProb(s.reg, p1, p2)
+		if s.low != nil {
+			v = special.LogAddExp(v, s.work.logProb(s.low, min(max(p2+s.lowDelta, 0), 1), p2))
+		}
+		return v
 	}
 	cutoff := 1e-13 * s.best / float64(s.reg.n1+s.reg.n2+2)
 	v := s.work.prob(s.reg, p1, p2, cutoff)
+	if s.low != nil {
+		v += s.work.prob(s.low, min(max(p2+s.lowDelta, 0), 1), p2, cutoff)
+	}
 	s.best = max(s.best, v)
 	return v
 }
@@ -74,7 +91,7 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 		return 0, s.pi2(math.Pi / 4)
 	}
 	s.thetaMax = math.Pi / 2
-	if s.delta == 0 && s.a == 0 && s.b == 1 && s.reg.mirrored() {
+	if s.delta == 0 && s.a == 0 && s.b == 1 && s.low == nil && s.reg.mirrored() {
 		s.thetaMax = math.Pi / 4
 	}
 	v, p := s.search()
