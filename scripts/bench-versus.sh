@@ -1,15 +1,18 @@
 #!/usr/bin/env bash
 # Every benchmark of this tree beside the same benchmark of an older
 # checkout, to show that a change made nothing slower. Each package's test
-# binary is built once in both trees; then, for ROUNDS rounds, all the old
-# binaries run and all the new ones, old first in odd rounds and new first in
-# even ones, so that the drift of a shared machine (a third from one minute
-# to the next) falls on both sides alike. The table gives, per case, the
-# median ns/op of each side, the median and the range of the per-round
-# ratios new/old (the ratio of two runs a minute apart, so the drift mostly
-# cancels), and the allocations per op of each side; the last lines give the
-# worst ratio, the count of cases slower by more than 5 % (median ratio above
-# 1.05) and the benchmarks found on one side only. Not part of `make test`.
+# binary is built once in both trees, and one quick pass (-test.benchtime 1x)
+# lists the cases of both sides and pairs them by name. Then, for ROUNDS
+# rounds, every paired case runs in the old binary and at once in the new
+# one (old first in odd rounds, new first in even ones), each run a process
+# of its own with the case's exact name as pattern, so that the two
+# measurements of a round are seconds apart and the drift of a shared
+# machine (a third from one minute to the next) falls on both alike. The
+# table gives, per case, the median ns/op of each side, the median and the
+# range of the per-round ratios new/old, and the allocations per op of each
+# side; the last lines give the worst ratio, the count of cases slower by
+# more than 5 % (median ratio above 1.05) and the cases found on one side
+# only. Not part of `make test`.
 #
 #   scripts/bench-versus.sh OLD_DIR [ROUNDS] [BENCHTIME]
 #
@@ -20,20 +23,20 @@
 # Packages compared (old → new): proportions → proportions,
 # proportions/exact → proportions/operating (or proportions/operating when
 # OLD_DIR has no proportions/exact), proportions/planning →
-# proportions/planning, notebookui → notebookui. A benchmark is matched by
-# name across these packages (BenchmarkSampleSize, BenchmarkPowerAt and
+# proportions/planning, notebookui → notebookui. A case is paired by name
+# across these packages (BenchmarkSampleSize, BenchmarkPowerAt and
 # BenchmarkDetectableDifference moved from proportions to
 # proportions/planning), after the old name is rewritten by the rename rules
 # below: the method keys in sub-benchmark names ("katz" → "katz-ratio",
 # "score" → "farrington-manning-test", ...) and renamed benchmark functions.
 #
-# The whole set (about 240 cases a side) takes some 2–2.5 minutes a side and
-# round, so a default run takes 20–25 minutes. To run fewer cases or to look
-# again at one case with more rounds:
+# The whole set (about 240 cases a side, half a second to a second a run)
+# takes 20–25 minutes with the defaults on a loaded two-core machine. To run
+# fewer cases, or to look again at one case with more rounds:
 #
 #   BENCH='^BenchmarkAnalyze$' scripts/bench-versus.sh ../old
 #   BENCH='^BenchmarkFisher$/^n1e6$/^near$/^fisher-test$/^two-sided$' scripts/bench-versus.sh ../old 15
-#   BENCH_SKIP='Previous|/previous$' scripts/bench-versus.sh ../old
+#   BENCH_SKIP='Previous|/previous$|/old-|/gonum-' scripts/bench-versus.sh ../old
 #
 # Environment:
 #   BENCH       -test.bench pattern, in the new names (default "."); the old
@@ -43,8 +46,9 @@
 #   BENCH_OLD   the pattern for the old binaries, when that rewriting is not
 #               enough
 #   BENCH_SKIP  -test.skip pattern for both sides (default none); e.g.
-#               'Previous|/previous$' leaves out the benchmarks of the
-#               previous implementations kept in the tests for comparison
+#               'Previous|/previous$|/old-|/gonum-' leaves out the yardsticks
+#               (previous implementations kept in the tests, and gonum), a
+#               quarter of the cases
 #   BENCH_MAP   a file of extra rename rules (same format as below)
 #   NEW_DIR     the new tree (default: the tree holding this script)
 #   RAW         a file to keep the raw per-round records in
@@ -173,65 +177,68 @@ raw="${RAW:-$work/raw}"
 : >"$raw"
 failures=0
 
-# run SIDE ROUND: every binary of one side, appending
-# "side round package name ns/op B/op allocs/op" records to the raw file.
-run() {
-	local side="$1" r="$2" i dir bin pat out
-	for i in "${!new_pkgs[@]}"; do
-		bin="$work/$side.$i.test"
-		[[ -x "$bin" ]] || continue
-		if [[ "$side" == old ]]; then
-			dir="$old_dir/${old_paths[$i]}"
-			pat="$bench_old"
-		else
-			dir="$new_dir/${new_paths[$i]}"
-			pat="$bench"
-		fi
-		out="$work/out.$side.$r.$i"
-		if ! (cd "$dir" && "$bin" -test.run '^$' -test.bench "$pat" ${skip:+-test.skip "$skip"} \
-			-test.benchtime "$benchtime" -test.benchmem -test.cpu "$procs") >"$out" 2>&1; then
-			echo "bench-versus: the $side ${new_pkgs[$i]} benchmarks failed in round $r:" >&2
-			grep -E -- '--- FAIL|panic|Error' "$out" | head -20 >&2 || true
-			failures=$((failures + 1))
-		fi
-		awk -v side="$side" -v r="$r" -v pkg="${new_pkgs[$i]}" -v procs="$procs" '
-			/^Benchmark/ {
-				name = $1
-				if (procs != 1) sub("-" procs "$", "", name)
-				ns = ""; bytes = "-"; allocs = "-"
-				for (f = 2; f < NF; f++) {
-					if ($(f + 1) == "ns/op") ns = $f
-					if ($(f + 1) == "B/op") bytes = $f
-					if ($(f + 1) == "allocs/op") allocs = $f
-				}
-				if (ns != "") print side, r, pkg, name, ns, bytes, allocs
-			}' "$out" >>"$raw"
-	done
+# runbin SIDE I PATTERN SKIP BENCHTIME OUT: one run of one binary, in its
+# package directory, its output in OUT.
+runbin() {
+	local side="$1" i="$2" pat="$3" skp="$4" bt="$5" out="$6" dir
+	if [[ "$side" == old ]]; then dir="$old_dir/${old_paths[$i]}"; else dir="$new_dir/${new_paths[$i]}"; fi
+	(cd "$dir" && "$work/$side.$i.test" -test.run '^$' -test.bench "$pat" ${skp:+-test.skip "$skp"} \
+		-test.benchtime "$bt" -test.benchmem -test.cpu "$procs") </dev/null >"$out" 2>&1
 }
 
-start=$SECONDS
-for ((r = 1; r <= rounds; r++)); do
-	if ((r % 2)); then order=(old new); else order=(new old); fi
-	for side in "${order[@]}"; do
-		run "$side" "$r"
+# parse OUT: "name ns/op B/op allocs/op" for each result line.
+parse() {
+	awk -v procs="$procs" '
+		/^Benchmark/ {
+			name = $1
+			if (procs != 1) sub("-" procs "$", "", name)
+			ns = ""; bytes = "-"; allocs = "-"
+			for (f = 2; f < NF; f++) {
+				if ($(f + 1) == "ns/op") ns = $f
+				if ($(f + 1) == "B/op") bytes = $f
+				if ($(f + 1) == "allocs/op") allocs = $f
+			}
+			if (ns != "") print name, ns, bytes, allocs
+		}' "$1"
+}
+
+failed() {
+	echo "bench-versus: $1 failed:" >&2
+	grep -E -- '--- FAIL|panic|[Ee]rror' "$2" | head -20 >&2 || true
+	failures=$((failures + 1))
+}
+
+# The cases of each side: "binary name" lines, in the order they ran.
+echo "listing the cases (one iteration each)" >&2
+for side in old new; do
+	: >"$work/cases.$side"
+	if [[ "$side" == old ]]; then pat="$bench_old"; else pat="$bench"; fi
+	for i in "${!new_pkgs[@]}"; do
+		[[ -x "$work/$side.$i.test" ]] || continue
+		out="$work/list.$side.$i"
+		runbin "$side" "$i" "$pat" "$skip" 1x "$out" || failed "listing the $side ${new_pkgs[$i]} benchmarks" "$out"
+		parse "$out" | awk -v i="$i" '{ print i, $1 }' >>"$work/cases.$side"
 	done
-	elapsed=$((SECONDS - start))
-	echo "round $r of $rounds done (${order[0]} first), $((elapsed / 60))m$((elapsed % 60))s, about $(((elapsed * (rounds - r) / r + 30) / 60)) min to go" >&2
 done
 
-[[ -s "$raw" ]] || { echo "bench-versus: no benchmark ran (BENCH=$bench, old pattern $bench_old)" >&2; exit 1; }
-
-echo "old: $old_dir ($(git -C "$old_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))   new: $new_dir ($(git -C "$new_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))"
-echo "$rounds rounds, -test.benchtime $benchtime, GOMAXPROCS $procs, BENCH ${bench}${skip:+, BENCH_SKIP $skip}"
-echo
-
-awk '
-function median(list,   n, a, i, j, t) {
-	n = split(list, a, " ")
-	for (i = 2; i <= n; i++) { t = a[i] + 0; for (j = i - 1; j >= 1 && a[j] + 0 > t; j--) a[j + 1] = a[j]; a[j + 1] = t }
-	return n % 2 ? a[(n + 1) / 2] : (a[n / 2] + a[n / 2 + 1]) / 2
+# Pair them: "old-binary old-name old-pattern new-binary new-name
+# new-pattern label" lines (tab-separated), in the new order, where a pattern
+# is the name anchored part by part; the label is the new name, prefixed by
+# the package when the name occurs in more than one package of a side. The
+# cases of one side only go to "$work/unpaired".
+awk -v pkgs="${new_pkgs[*]}" -v unpaired="$work/unpaired" '
+function exact(name,   n, seg, i, j, c, out, e) {
+	n = split(name, seg, "/")
+	for (i = 1; i <= n; i++) {
+		e = ""
+		for (j = 1; j <= length(seg[i]); j++) {
+			c = substr(seg[i], j, 1)
+			e = e (index("\\.^$*+?()[]{}|", c) ? "\\" : "") c
+		}
+		out = out (i > 1 ? "/" : "") "^" e "$"
+	}
+	return out
 }
-function fmtns(x) { return x < 100 ? sprintf("%.2f", x) : x < 10000 ? sprintf("%.1f", x) : sprintf("%.0f", x) }
 function rename(name,   n, seg, i, out, f, p) {
 	n = split(name, seg, "/")
 	f = seg[1]
@@ -249,39 +256,96 @@ file == 1 {
 	else if ($1 == "func") func_[$2] = $3
 	next
 }
-# First pass over the records: in how many packages does each (side, name)
-# occur? A name found in one package per side is matched across packages.
-file == 2 {
-	name = $1 == "old" ? rename($4) : $4
-	if (!(($1, name, $3) in seenpkg)) { seenpkg[$1, name, $3] = 1; npkg[$1, name]++ }
+file == 2 { oi[++no] = $1; on[no] = $2; om[no] = rename($2); if (!((om[no], $1) in od)) { od[om[no], $1] = 1; ocount[om[no]]++ }; next }
+file == 3 { ni[++nn] = $1; nm[nn] = $2; if (!(($2, $1) in nd)) { nd[$2, $1] = 1; ncount[$2]++ }; next }
+END {
+	split(pkgs, pkg, " ")
+	for (k = 1; k <= no; k++) {
+		key = ocount[om[k]] > 1 || ncount[om[k]] > 1 ? oi[k] SUBSEP om[k] : om[k]
+		if (!(key in oldof)) oldof[key] = k
+	}
+	for (k = 1; k <= nn; k++) {
+		dup = ocount[nm[k]] > 1 || ncount[nm[k]] > 1
+		key = dup ? ni[k] SUBSEP nm[k] : nm[k]
+		if (key in oldof && !(key in done)) {
+			done[key] = 1; o = oldof[key]
+			printf "%s\t%s\t%s\t%s\t%s\t%s\t%s\n", oi[o], on[o], exact(on[o]), ni[k], nm[k], exact(nm[k]), (dup ? pkg[ni[k] + 1] ": " : "") nm[k]
+		} else if (!(key in done)) { done[key] = 1; onlynew = onlynew "\n  " nm[k] " (" pkg[ni[k] + 1] ")"; nnew++ }
+	}
+	for (key in oldof) if (!(key in done)) { o = oldof[key]; onlyold = onlyold "\n  " on[o] " (" pkg[oi[o] + 1] ")"; nold++ }
+	printf "only in old (no match in new): %d%s\n", nold, onlyold >unpaired
+	printf "only in new (no match in old): %d%s\n", nnew, onlynew >unpaired
+}' <(grep -v '^[[:space:]]*\(#\|$\)' "$work/map") "$work/cases.old" "$work/cases.new" >"$work/pairs"
+
+ncases=$(wc -l <"$work/pairs")
+if ((ncases == 0)); then
+	echo "bench-versus: no case ran on both sides (BENCH=$bench, old pattern $bench_old)" >&2
+	cat "$work/unpaired" >&2
+	exit 1
+fi
+echo "$ncases cases on both sides" >&2
+
+# measure SIDE ROUND BINARY NAME PATTERN LABEL: one case on one side.
+measure() {
+	local side="$1" r="$2" i="$3" name="$4" pat="$5" label="$6" out="$work/run.out"
+	runbin "$side" "$i" "$pat" "$pat/." "$benchtime" "$out" || failed "$side $name in round $r" "$out"
+	parse "$out" | awk -v side="$side" -v r="$r" -v pkg="${new_pkgs[$i]}" -v want="$name" -v label="$label" '
+		$1 == want { print side, r, pkg, label, $2, $3, $4; found = 1 }
+		END { if (!found) print "bench-versus: no result for " side " " want " in round " r > "/dev/stderr" }' >>"$raw"
+}
+
+start=$SECONDS
+for ((r = 1; r <= rounds; r++)); do
+	while IFS=$'\t' read -r io on op in nn np label; do
+		if ((r % 2)); then
+			measure old "$r" "$io" "$on" "$op" "$label"
+			measure new "$r" "$in" "$nn" "$np" "$label"
+		else
+			measure new "$r" "$in" "$nn" "$np" "$label"
+			measure old "$r" "$io" "$on" "$op" "$label"
+		fi
+	done <"$work/pairs"
+	elapsed=$((SECONDS - start))
+	echo "round $r of $rounds done ($( ((r % 2)) && echo old || echo new) first in each case), $((elapsed / 60))m$((elapsed % 60))s, about $(((elapsed * (rounds - r) / r + 30) / 60)) min to go" >&2
+done
+
+echo "old: $old_dir ($(git -C "$old_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))   new: $new_dir ($(git -C "$new_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))"
+echo "$rounds rounds, -test.benchtime $benchtime, GOMAXPROCS $procs, BENCH ${bench}${skip:+, BENCH_SKIP $skip}"
+echo
+
+awk -v pkgs="${new_pkgs[*]}" '
+function median(list,   n, a, i, j, t) {
+	n = split(list, a, " ")
+	for (i = 2; i <= n; i++) { t = a[i] + 0; for (j = i - 1; j >= 1 && a[j] + 0 > t; j--) a[j + 1] = a[j]; a[j + 1] = t }
+	return n % 2 ? a[(n + 1) / 2] : (a[n / 2] + a[n / 2 + 1]) / 2
+}
+function fmtns(x) { return x < 100 ? sprintf("%.2f", x) : x < 10000 ? sprintf("%.1f", x) : sprintf("%.0f", x) }
+BEGIN { FS = "\t"; npkg = split(pkgs, pkg, " ") }
+FNR == 1 { file++ }
+file == 1 {
+	k = $7; order[++cases] = k; newpkg[k] = pkg[$4 + 1]; oldpkg[k] = pkg[$1 + 1]
+	if ($2 != $5) renamed++
+	if (length(k) > w) w = length(k)
 	next
 }
-{
-	side = $1; r = $2; pkg = $3; orig = $4
-	name = side == "old" ? rename(orig) : orig
-	k = npkg[side, name] > 1 ? pkg ": " name : name
-	if (!((side, k) in has)) {
-		has[side, k] = 1; pkgof[side, k] = pkg
-		if (side == "new") order[++cases] = k
-		else { oldorder[++oldcases] = k; oldname[k] = orig }
-	}
-	times[side, k] = times[side, k] " " $5
-	ns[side, k, r] = $5
-	if ($7 != "-") allocs[side, k] = allocs[side, k] " " $7
+file == 2 {
+	split($0, f, " ")
+	side = f[1]; r = f[2]; k = f[4]
+	times[side, k] = times[side, k] " " f[5]
+	ns[side, k, r] = f[5]
+	if (f[7] != "-") allocs[side, k] = allocs[side, k] " " f[7]
 	rounds[r] = 1
+	next
 }
+{ unpaired = unpaired $0 "\n" }
 END {
-	w = 20
-	for (i = 1; i <= cases; i++) if (length(order[i]) > w) w = length(order[i])
+	if (w < 20) w = 20
 	printf "%-" w "s %13s %13s %8s %13s %10s %10s\n", "benchmark (new name)", "old ns/op", "new ns/op", "new/old", "range", "allocs old", "allocs new"
-	worst = 0; slower = 0; compared = 0; renamed = 0
-	for (pi = 1; pi <= 4; pi++) {
-		pkgname = pi == 1 ? "proportions" : pi == 2 ? "proportions/operating" : pi == 3 ? "proportions/planning" : "notebookui"
+	for (pi = 1; pi <= npkg; pi++) {
 		header = 0
 		for (i = 1; i <= cases; i++) {
 			k = order[i]
-			if (pkgof["new", k] != pkgname || !(("old", k) in has)) continue
-			if (!header) { printf "-- %s\n", pkgname; header = 1 }
+			if (newpkg[k] != pkg[pi]) continue
 			ratios = ""; lo = ""; hi = ""
 			for (r in rounds) if ((("old", k, r) in ns) && (("new", k, r) in ns) && ns["old", k, r] > 0) {
 				q = ns["new", k, r] / ns["old", k, r]
@@ -289,30 +353,28 @@ END {
 				if (lo == "" || q < lo) lo = q
 				if (hi == "" || q > hi) hi = q
 			}
-			if (ratios == "") continue
+			if (ratios == "") { missing = missing "\n  " k; continue }
+			if (!header) { printf "-- %s\n", pkg[pi]; header = 1 }
 			m = median(ratios); compared++
-			if (oldname[k] != k) renamed++
 			flag = ""
 			if (m > 1.05) { slower++; flag = "  SLOWER"; slowlist = slowlist "\n  " k sprintf(" (%.3f)", m) }
 			if (m > worst) { worst = m; worstname = k }
-			if (pkgof["old", k] != pkgname) moved[pkgof["old", k] " → " pkgname] = moved[pkgof["old", k] " → " pkgname] + 1
+			if (oldpkg[k] != newpkg[k]) moved[oldpkg[k] " → " newpkg[k]]++
 			printf "%-" w "s %13s %13s %8.3f %6.3f..%-5.3f %10s %10s%s\n", k, fmtns(median(times["old", k])), fmtns(median(times["new", k])), m, lo, hi,
 				allocs["old", k] == "" ? "-" : median(allocs["old", k]), allocs["new", k] == "" ? "-" : median(allocs["new", k]), flag
 		}
 	}
 	print ""
-	for (mv in moved) printf "%d cases moved package (%s), matched by name\n", moved[mv], mv
-	printf "%d cases matched through renamed keys or functions\n", renamed
-	for (i = 1; i <= oldcases; i++) if (!(("new", oldorder[i]) in has)) { nold++; onlyold = onlyold "\n  " oldname[oldorder[i]] " (" pkgof["old", oldorder[i]] ")" }
-	for (i = 1; i <= cases; i++) if (!(("old", order[i]) in has)) { nnew++; onlynew = onlynew "\n  " order[i] " (" pkgof["new", order[i]] ")" }
-	printf "only in old (no match in new): %d%s\n", nold, onlyold
-	printf "only in new (no match in old): %d%s\n", nnew, onlynew
+	for (mv in moved) printf "%d cases moved package (%s), paired by name\n", moved[mv], mv
+	printf "%d cases paired through renamed keys or functions\n", renamed
+	printf "%s", unpaired
+	if (missing != "") printf "paired but without a result on both sides in any round:%s\n", missing
 	if (slower) printf "slower by more than 5%%:%s\n", slowlist
 	if (compared) printf "worst new/old: %.3f (%s); %d of %d cases slower by more than 5%%\n", worst, worstname, slower, compared
 	else print "worst new/old: none (no case ran on both sides)"
-}' "$work/map" "$raw" "$raw"
+}' "$work/pairs" "$raw" "$work/unpaired"
 
 if ((failures)); then
-	echo "bench-versus: $failures benchmark runs failed; their cases may be missing above" >&2
+	echo "bench-versus: $failures runs failed; their cases may be missing above" >&2
 	exit 1
 fi
