@@ -281,18 +281,19 @@ func notRun(a proportions.Analysis, lookup referenceLookup) string {
 	var names []string
 	for _, key := range a.Omitted {
 		name := key
-		if r, ok := lookup("test", key); ok {
-			name = r.Name
-		} else if r, ok := lookup("interval", key); ok {
-			name = r.Name
+		for _, kind := range [...]string{"test", "interval", "rate"} {
+			if r, ok := lookup(kind, key); ok {
+				name = r.Name
+				break
+			}
 		}
 		names = append(names, name)
 	}
 	list := strings.Join(names, ", ")
 	if a.Scope == proportions.ScopeLargeSample {
-		return "Large-sample analysis. Left out: the exact and conditional methods (" + list + ")."
+		return "Large-sample analysis. Left out: the exact and conditional methods and the costlier ones (" + list + ")."
 	}
-	return "Quick analysis. Left out, as each takes milliseconds or more: " + list +
+	return "Quick analysis. Left out for their cost (tens of microseconds to seconds each): " + list +
 		". An analysis with every method (scope \"all\") adds them."
 }
 

@@ -66,9 +66,10 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 		Difference: Difference.Estimate(counts), Caution: Caution,
 	}
 	store := newIntervalStore()
-	a.Groups[0] = groupEstimate(c.First, ivConf, store.take(len(proportionMethods)))
-	a.Groups[1] = groupEstimate(c.Second, ivConf, store.take(len(proportionMethods)))
 	run := methodFilter{scope: s.Scope, total: counts.N1 + counts.N2}
+	rates := a.rateMethodsOf(run)
+	a.Groups[0] = groupEstimate(c.First, ivConf, store.take(len(proportionMethods)), rates)
+	a.Groups[1] = groupEstimate(c.Second, ivConf, store.take(len(proportionMethods)), rates)
 	a.DifferenceIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods)
 	a.RatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods)
 	a.OddsRatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods)
@@ -118,9 +119,30 @@ func (s *intervalStore) take(n int) []Interval {
 	return list
 }
 
-func groupEstimate(g Group, conf Confidence, list []Interval) GroupEstimate {
-	ge := GroupEstimate{Group: g, Rate: g.Proportion(), Intervals: list}
+// rateMethodsOf returns the single-rate methods the analysis runs (the same
+// for both groups), recording the others once. Rate methods are left out for
+// their cost only (see RateMethod.TrialLimit).
+func (a *Analysis) rateMethodsOf(f methodFilter) []RateMethod {
+	all := true
 	for _, m := range proportionMethods {
+		run, _ := f.decide(false, m.TrialLimit)
+		all = all && run
+	}
+	if all { // the usual case: no list to build
+		return proportionMethods
+	}
+	out := make([]RateMethod, 0, len(proportionMethods))
+	for _, m := range proportionMethods {
+		if a.admit(f, m.Key, m.Name, false, m.TrialLimit) {
+			out = append(out, m)
+		}
+	}
+	return out
+}
+
+func groupEstimate(g Group, conf Confidence, list []Interval, methods []RateMethod) GroupEstimate {
+	ge := GroupEstimate{Group: g, Rate: g.Proportion(), Intervals: list}
+	for _, m := range methods {
 		ge.Intervals = append(ge.Intervals, m.IntervalAt(g.Events, g.Trials, conf))
 	}
 	return ge

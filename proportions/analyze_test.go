@@ -245,6 +245,9 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 		for _, r := range a.Tests {
 			keys[r.Method] = true
 		}
+		for _, iv := range a.Groups[0].Intervals {
+			keys[iv.Method] = true
+		}
 		return keys
 	}
 	type mark struct {
@@ -260,6 +263,11 @@ func TestAnalyzeMethodScopes(t *testing.T) {
 		if m.Scale == Difference && !m.ContinuityCorrected {
 			marks = append(marks, mark{m.Key, m.Exact, m.TrialLimit})
 		}
+	}
+	// Single-rate methods are left out for their cost only (never for
+	// being exact): the mark says "not exact" for the scopes' rules.
+	for _, m := range RateMethods() {
+		marks = append(marks, mark{m.Key, false, m.TrialLimit})
 	}
 	small := mustComparison(t, 3, 12, 8, 11)
 	for _, tc := range []struct {

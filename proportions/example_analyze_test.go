@@ -66,5 +66,5 @@ func ExampleWithScope() {
 	// Output:
 	// quick Fisher: true Barnard: false
 	// all Fisher: true Barnard: true
-	// left out by the quick analysis: [profile-exact-tails profile-mid-p-tails chan-zhang agresti-min cornfield-odds-ratio cornfield-mid-p-odds-ratio baptista-pike-odds-ratio barnard-test barnard-wald-test boschloo-test boschloo-doubled-test]
+	// left out by the quick analysis: [mid-p-rate likelihood-rate profile-likelihood profile-exact-tails profile-mid-p-tails chan-zhang agresti-min cornfield-odds-ratio cornfield-mid-p-odds-ratio baptista-pike-odds-ratio barnard-test barnard-wald-test boschloo-test boschloo-doubled-test]
 }

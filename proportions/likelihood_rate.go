@@ -28,6 +28,7 @@ var LikelihoodRate = RateMethod{
 	Citation:   "Newcombe RG (1998). Two-sided confidence intervals for the single proportion: comparison of seven methods. Statistics in Medicine 17:857–872 (method 7, likelihood-based).",
 	Definition: "the π with 2[x·log(p/π) + (n−x)·log((1−p)/(1−π))] ≤ z², p = x/n",
 	Limits:     likelihoodRateLimits,
+	TrialLimit: anyTrials, // tens of microseconds: not in the quick scope
 }
 
 func likelihoodRateLimits(x, n int64, conf Confidence) (lower, upper float64) {

@@ -34,6 +34,7 @@ var MidPRate = RateMethod{
 	Citation:   "Newcombe RG (1998). Two-sided confidence intervals for the single proportion: comparison of seven methods. Statistics in Medicine 17:857–872 (method 6, mid-p).",
 	Definition: "lower: the π with P(X > x) + ½P(X = x) = α/2, upper: the π with P(X < x) + ½P(X = x) = α/2, X ~ Binomial(n, π); 0 at x = 0 and 1 at x = n",
 	Limits:     midPRateLimits,
+	TrialLimit: anyTrials, // tens of microseconds: not in the quick scope
 }
 
 func midPRateLimits(x, n int64, conf Confidence) (lower, upper float64) {

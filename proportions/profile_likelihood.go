@@ -29,6 +29,7 @@ var ProfileLikelihood = IntervalMethod{
 	Definition: "the δ with 2[ℓ(p1, p2) − ℓ(π̃1, π̃2)] ≤ z², ℓ the binomial log-likelihood and (π̃1, π̃2) its maximum under π1 − π2 = δ",
 	Symmetric:  true,
 	Limits:     profileLikelihoodLimits,
+	TrialLimit: anyTrials, // tens of microseconds: not in the quick scope
 }
 
 func profileLikelihoodLimits(c Counts, conf Confidence) (lower, upper float64) {

@@ -85,6 +85,12 @@ type RateMethod struct {
 	Name       string `json:"name"`
 	Citation   string `json:"citation"`
 	Definition string `json:"definition"`
+	// TrialLimit, as for IntervalMethod, marks a method that costs more than
+	// a few microseconds per group: ScopeQuick leaves it out, and Analyze
+	// skips it when the total n1 + n2 exceeds the limit. Single-rate methods
+	// are left out for their cost only, never for being exact: the
+	// large-sample scope keeps Clopper–Pearson beside Wilson.
+	TrialLimit int64 `json:"trial_limit,omitempty"`
 	// Limits computes the raw limits for 0 ≤ x ≤ n, n > 0.
 	Limits func(x, n int64, conf Confidence) (lower, upper float64) `json:"-"`
 }

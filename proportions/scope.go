@@ -87,3 +87,9 @@ func (s MethodScope) Runs(exact bool, sizeLimit int64) bool {
 func WithScope(scope MethodScope) Option {
 	return func(s *Settings) { s.Scope = scope }
 }
+
+// anyTrials is the TrialLimit of a method that runs at any size the library
+// accepts but costs tens of microseconds per table, more than the quick
+// scope's budget of a few: the positive limit marks it as costly, so
+// ScopeQuick leaves it out and ScopeAll runs it.
+const anyTrials = 2 * MaxTrials
