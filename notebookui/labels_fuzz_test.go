@@ -44,7 +44,6 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 	a.Comparison.Event = event
 	a.Conclusion = "rates differ for " + first
 	a.Warnings = []proportions.Warning{{Code: "x", Message: second}}
-	var ds []Displayable
 	add := func(name string, d Displayable, err error) {
 		if err != nil {
 			t.Fatalf("%s: %v", name, err)
@@ -56,7 +55,6 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 			t.Fatalf("%s: JSON: %v", name, err)
 		}
 		jsons = append(jsons, b)
-		ds = append(ds, d)
 	}
 	rates, err := RatesChart(a)
 	add("rates chart", rates, err)
@@ -83,8 +81,11 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	// Page around the card alone: a page with a chart adds only the fixed
+	// engine script (about 1 MB, which would slow fuzzing a hundredfold)
+	// to the same fragments; TestMarkerPayloadIsNotCode checks that page.
 	names = append(names, "page")
-	pages = append(pages, Page(first, ds...))
+	pages = append(pages, Page(first, card))
 	return names, pages, jsons
 }
 
@@ -328,12 +329,28 @@ func firstDifference(want, got string) string {
 // TestMarkerPayloadIsNotCode pins the issue's reproducer without the fuzz
 // machinery: the payload must reach the rates chart's script only inside a
 // JSON string, never as the bare expression the old marker handling made
-// of it.
+// of it, and a whole page of that chart must have the skeleton of the page
+// with plain labels.
 func TestMarkerPayloadIsNotCode(t *testing.T) {
 	a := sampleAnalysis(markerPayload, "untreated")
 	c, err := RatesChart(a)
 	if err != nil {
 		t.Fatal(err)
+	}
+	plain, err := RatesChart(sampleAnalysis("primed", "untreated"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := skeleton(c.Page())
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := skeleton(plain.Page())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got != want {
+		t.Errorf("the payload changed the page's structure or code:\n%s", firstDifference(want, got))
 	}
 	h := c.HTML()
 	if strings.Contains(h, "(document.title='PWNED-'+document.domain)") &&
@@ -347,4 +364,60 @@ func TestMarkerPayloadIsNotCode(t *testing.T) {
 	if strings.Contains(emptyStrings(script), "document.title") {
 		t.Error("document.title appears in the script outside string literals")
 	}
+}
+
+// FuzzOptionStringsStayData is the fast core of FuzzLabelsStayData: an
+// option holding an arbitrary string beside our callbacks, at the places
+// labels take (a value, an array element, a nested map, a map key). The
+// script form must have the code skeleton of the same option with a plain
+// string, and the JSON form must give the string back.
+func FuzzOptionStringsStayData(f *testing.F) {
+	for _, s := range hostileLabelSeeds {
+		f.Add(s)
+	}
+	option := func(s string) map[string]any {
+		return map[string]any{
+			"title":   map[string]any{"text": s},
+			"yAxis":   []any{map[string]any{"data": []any{s, "b"}}},
+			"tooltip": map[string]any{"formatter": jsFunc(tipFormatter)},
+			"series":  []any{map[string]any{"name": s, "renderItem": jsFunc("function (p, api) { return {type: 'group'}; }")}},
+			"keys":    map[string]any{s: 1},
+		}
+	}
+	plain := &Chart{id: "x", option: option("plain")}
+	want, err := plain.optionScript()
+	if err != nil {
+		f.Fatal(err)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		c := &Chart{id: "x", option: option(s)}
+		got, err := c.optionScript()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if emptyStrings(got) != emptyStrings(want) {
+			t.Fatalf("the string %q changed the option's code:\n%s", s, firstDifference(emptyStrings(want), emptyStrings(got)))
+		}
+		b, err := c.OptionJSON()
+		if err != nil {
+			t.Fatal(err)
+		}
+		var back struct {
+			Title struct {
+				Text string `json:"text"`
+			} `json:"title"`
+			Tooltip struct {
+				Formatter string `json:"formatter"`
+			} `json:"tooltip"`
+		}
+		if err := json.Unmarshal(b, &back); err != nil {
+			t.Fatalf("OptionJSON is not JSON: %v", err)
+		}
+		var wantText string
+		wb, _ := json.Marshal(s)
+		_ = json.Unmarshal(wb, &wantText)
+		if back.Title.Text != wantText || back.Tooltip.Formatter != tipFormatter {
+			t.Fatalf("OptionJSON gives back %q and %q, want %q and the formatter's source", back.Title.Text, back.Tooltip.Formatter, wantText)
+		}
+	})
 }
