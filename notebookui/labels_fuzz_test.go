@@ -33,12 +33,11 @@ var hostileLabelSeeds = []string{
 	"", " ", "同じ",
 }
 
-// renders builds every view a label reaches: the charts that print labels
-// (rates, difference intervals, confidence curve, power by size and by
-// difference), the result card, explorer frames (a hand-made frame around
-// a chart and the what-if explorer's own frame) and Page. Each is returned
-// as HTML with its JSON form.
-func renders(t *testing.T, first, second, event string) (names, pages []string, jsons [][]byte) {
+// labelViews builds every view a label reaches: the charts that print
+// labels (rates, difference intervals, confidence curve, power by size and
+// by difference), the result card and a hand-made explorer frame around a
+// chart, the card and a message.
+func labelViews(t *testing.T, first, second, event string) (names []string, ds []Displayable) {
 	t.Helper()
 	a := sampleAnalysis(first, second)
 	a.Comparison.Event = event
@@ -49,12 +48,7 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 			t.Fatalf("%s: %v", name, err)
 		}
 		names = append(names, name)
-		pages = append(pages, d.HTML())
-		b, err := d.JSON()
-		if err != nil {
-			t.Fatalf("%s: JSON: %v", name, err)
-		}
-		jsons = append(jsons, b)
+		ds = append(ds, d)
 	}
 	rates, err := RatesChart(a)
 	add("rates chart", rates, err)
@@ -81,11 +75,26 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	return names, ds
+}
+
+// renders is labelViews as HTML with their JSON forms, and Page.
+func renders(t *testing.T, first, second, event string) (names, pages []string, jsons [][]byte) {
+	t.Helper()
+	names, ds := labelViews(t, first, second, event)
+	for i, d := range ds {
+		pages = append(pages, d.HTML())
+		b, err := d.JSON()
+		if err != nil {
+			t.Fatalf("%s: JSON: %v", names[i], err)
+		}
+		jsons = append(jsons, b)
+	}
 	// Page around the card alone: a page with a chart adds only the fixed
 	// engine script (about 1 MB, which would slow fuzzing a hundredfold)
 	// to the same fragments; TestMarkerPayloadIsNotCode checks that page.
 	names = append(names, "page")
-	pages = append(pages, Page(first, card))
+	pages = append(pages, Page(first, ds[5]))
 	return names, pages, jsons
 }
 
