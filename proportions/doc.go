@@ -12,7 +12,8 @@
 //   - Group 1 is the first group (x1 events out of n1 trials), group 2 the
 //     second; the difference is π1 − π2, the ratio π1/π2, the odds ratio
 //     π1(1−π2) / (π2(1−π1)).
-//   - A level is the two-sided confidence level in (0, 1), 0.95 by default;
+//   - A level is the two-sided confidence level in [MinLevel, MaxLevel]
+//     (10⁻⁶ to 1 − 10⁻¹², where every method is correct), 0.95 by default;
 //     z is the standard normal quantile at (1 + level)/2, computed to full
 //     double precision (z = 1.959963984540054 at 0.95, not 1.96).
 //   - Results are plain structs with stable JSON field names and a String
