@@ -56,7 +56,7 @@ func PowerByN(d Design, n1From, n1To int64) (PowerCurve, error) {
 // spaced from rate1From to rate1To (both in (0, 1)), π2 = Design.Rate2
 // fixed. Design.Rate1 and Power are not used.
 func PowerByDifference(d Design, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
-	if err := d.validate(); err != nil {
+	if err := d.validate(); err != nil { // Rate1 too, when given: it is echoed
 		return PowerCurve{}, err
 	}
 	if err := validateSizes(n1, n2); err != nil {
@@ -84,6 +84,9 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 	if n1From < 1 || n1To < n1From || n1To > MaxTrials || groupTwoSize(n1From, r) < 1 {
 		return nil, fmt.Errorf("group-1 sizes %d to %d: %w; give 1 ≤ from ≤ to ≤ %d", n1From, n1To, ErrDesign, MaxTrials)
 	}
+	if err := checkGroupTwo(n1To, r); err != nil {
+		return nil, err
+	}
 	step := max(1, (n1To-n1From+MaxCurvePoints-1)/MaxCurvePoints)
 	var out [][2]int64
 	for n := n1From; n <= n1To; n += step {
@@ -97,8 +100,8 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 
 // rateGrid lists points rates evenly spaced from a to b.
 func rateGrid(a, b float64, points int) ([]float64, error) {
-	if !(a > 0 && a < 1 && b > 0 && b < 1 && a <= b) {
-		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1", a, b, ErrDesign)
+	if !(a >= MinPlanningRate && b <= MaxPlanningRate && a <= b) {
+		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1, from %g to %v (1 − 1e-12)", a, b, ErrDesign, MinPlanningRate, MaxPlanningRate)
 	}
 	if points < 2 || points > MaxCurvePoints {
 		return nil, fmt.Errorf("%d points: %w; ask for 2 to %d points", points, ErrDesign, MaxCurvePoints)

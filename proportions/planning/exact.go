@@ -174,22 +174,36 @@ func ExactSampleSize(ctx context.Context, d proportions.Design, m proportions.Te
 	res := ExactSampleSizeResult{Design: d, Test: m.Key, TestName: m.Name, Citation: m.Citation, Asymptotic: asym,
 		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: proportions.PlanningCaution,
 		Curve: proportions.PowerCurve{Design: d, Method: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: proportions.PlanningCaution}}
-	res.First = sizeAt(d, sc.curve, sc.first)
+	if res.First, err = sizeAt(d, sc.curve, sc.first); err != nil {
+		return ExactSampleSizeResult{}, err
+	}
 	if sc.stableFound {
-		res.Stable = sizeAt(d, sc.curve, sc.stable)
+		if res.Stable, err = sizeAt(d, sc.curve, sc.stable); err != nil {
+			return ExactSampleSizeResult{}, err
+		}
 	}
 	res.Notes = append(testNotes(m), searchNotes(res)...)
 	return res, nil
 }
 
-// sizeAt picks the curve point at n1.
-func sizeAt(d proportions.Design, curve []proportions.PowerPoint, n1 int64) ExactSize {
+// sizeAt picks the curve point at n1, with its enrolment (an error
+// wrapping ErrTooLarge when a drop-out share near 1 puts it above
+// MaxTrials).
+func sizeAt(d proportions.Design, curve []proportions.PowerPoint, n1 int64) (ExactSize, error) {
 	for _, p := range curve {
 		if p.N1 == n1 {
-			return ExactSize{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
+			e1, err := d.EnrolledUnits(p.N1)
+			if err != nil {
+				return ExactSize{}, err
+			}
+			e2, err := d.EnrolledUnits(p.N2)
+			if err != nil {
+				return ExactSize{}, err
+			}
+			return ExactSize{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: e1, Enrolled2: e2}, nil
 		}
 	}
-	return ExactSize{}
+	return ExactSize{}, nil
 }
 
 func searchNotes(r ExactSampleSizeResult) []string {
