@@ -89,12 +89,24 @@ func FuzzLevels(f *testing.F) {
 				t.Fatalf("%s at level %v, %+v: %v", m.Key, level, c, err)
 			}
 		}
-		a, err := Analyze(Comparison{First: Group{"a", c.X1, c.N1}, Second: Group{"b", c.X2, c.N2}, Event: "e"}, WithLevel(level))
-		if err != nil {
-			t.Fatalf("analysis at level %v, %+v: %v", level, c, err)
-		}
-		if _, err := json.Marshal(a); err != nil {
-			t.Fatalf("analysis at level %v, %+v: %v", level, c, err)
+		// The default analysis, two-sided and one-sided: a one-sided level
+		// must leave the intervals' level 1 − 2α in the range.
+		for _, alt := range []Alternative{TwoSided, Greater, Less} {
+			a, err := Analyze(Comparison{First: Group{"a", c.X1, c.N1}, Second: Group{"b", c.X2, c.N2}, Event: "e"},
+				WithLevel(level), WithAlternative(alt))
+			if alt != TwoSided && 1-2*(1-level) < MinLevel {
+				if !errors.Is(err, ErrLevel) {
+					t.Fatalf("one-sided analysis at level %v: got %v, want ErrLevel", level, err)
+				}
+				continue
+			}
+			if err != nil {
+				t.Fatalf("%s analysis at level %v, %+v: %v", alt, level, c, err)
+			}
+			if _, err := json.Marshal(a); err != nil {
+				t.Fatalf("%s analysis at level %v, %+v: %v", alt, level, c, err)
+			}
+			checkInterval(t, a.Interval, c)
 		}
 	})
 }
