@@ -135,6 +135,11 @@ func substituteCode(b []byte, asCode bool) ([]byte, error) {
 			return nil, fmt.Errorf("chart callback: %w", err)
 		}
 		src := strings.TrimPrefix(s, "/propscope-code/")
+		if asCode && strings.Contains(strings.ToLower(src), "</script") {
+			// Our callbacks are constants and never hold this; the check
+			// keeps a future edit from ending the script element.
+			return nil, fmt.Errorf("chart callback holds </script")
+		}
 		if asCode {
 			out = append(out, src...)
 			continue
