@@ -6,6 +6,7 @@ require (
 	github.com/go-echarts/go-echarts/v2 v2.6.7
 	github.com/janpfeifer/gonb v0.11.1
 	github.com/santhosh-tekuri/jsonschema/v6 v6.0.3
+	github.com/yuin/goldmark v1.8.7
 	gonum.org/v1/gonum v0.17.0
 )
 

@@ -3,8 +3,10 @@ package e2e
 import (
 	"context"
 	"path/filepath"
+	"strings"
 	"testing"
 
+	"github.com/chromedp/chromedp"
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 )
@@ -78,6 +80,11 @@ func assertInert(t *testing.T, ctx context.Context) {
 	if pwned := eval[any](t, ctx, `window.__pwned === undefined ? null : window.__pwned`); pwned != nil {
 		t.Errorf("a hostile label ran script: window.__pwned = %v", pwned)
 	}
+	// markerPayload would set the title (testdata/notebooks/hostile.ipynb
+	// draws charts with it).
+	if title := eval[string](t, ctx, `document.title`); strings.HasPrefix(title, "PWNED") {
+		t.Errorf("a hostile label ran script: document.title = %q", title)
+	}
 	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"] :is(script, img, svg:not(.ps-strip), iframe, object)').length
 		+ document.querySelectorAll('img[src="x"], [onerror], [onload]').length`)
 	if injected > 0 {
@@ -89,4 +96,57 @@ func assertInert(t *testing.T, ctx context.Context) {
 	}
 	text := cardText(t, ctx, 0)
 	wantText(t, "the hostile card", text, hostile.First, hostile.Second, hostile.Event)
+}
+
+// markerPayload is a group label wrapped in the go-echarts code marker:
+// before the fix, a chart pasted it into its option as bare JavaScript,
+// and the page's title changed. The same string is in
+// testdata/notebooks/hostile.ipynb.
+const markerPayload = `__f__(document.title='PWNED-'+document.domain)__f__`
+
+// TestMarkerLabelInChartsIsText reads the payload from a CSV file as a group
+// label, draws every analysis chart on one page in Chromium, and checks
+// that the title is still the page's own, that nothing ran, and that the
+// label shows as text in the rates chart's tooltip.
+func TestMarkerLabelInChartsIsText(t *testing.T) {
+	csv := "group,outcome\n"
+	for i := 0; i < 50; i++ {
+		csv += `"` + markerPayload + `",` + map[bool]string{true: "1", false: "0"}[i < 41] + "\n"
+		csv += "uncoated," + map[bool]string{true: "1", false: "0"}[i < 30] + "\n"
+	}
+	c, err := proportions.ReadCSV(strings.NewReader(csv), proportions.CSVSpec{RecordSpec: proportions.RecordSpec{FirstGroup: markerPayload}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.First.Label != markerPayload {
+		t.Fatalf("the CSV gave the label %q", c.First.Label)
+	}
+	a, err := proportions.Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	charts := analysisCharts(t, a)
+	ds := []notebookui.Displayable{notebookui.NewResultCard(a)}
+	for _, nc := range charts {
+		ds = append(ds, nc.chart)
+	}
+	const title = "marker label"
+	page := filepath.Join(chartsDir(t), "hostile-marker-label.html")
+	if err := notebookui.WriteHTMLFile(page, title, ds...); err != nil {
+		t.Fatal(err)
+	}
+	b := newOfflineBrowser(t)
+	b.open(t, "file://"+page, len(charts))
+	got, err := chromedp.Run(b.ctx, chromedp.Evaluate[string](`document.title`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got != title {
+		t.Errorf("document.title = %q, want %q: the label ran as code", got, title)
+	}
+	tip := b.tooltip(t, 0, 0, 0)
+	if !strings.Contains(tip, markerPayload) {
+		t.Errorf("rates tooltip %q does not show the label as text", tip)
+	}
+	b.offline(t)
 }

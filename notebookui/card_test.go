@@ -152,8 +152,16 @@ func TestMarkdownEscape(t *testing.T) {
 		"a|b":           `a\|b`,
 		"*x* _y_":       `\*x\* \_y\_`,
 		"<i>&":          "&lt;i&gt;&amp;",
-		"[l](http://x)": `\[l\](http://x)`,
+		"[l](http://x)": `\[l\](http\://x)`, // a bare URL would become a link (GitHub's Markdown)
 		"two\nlines":    "two lines",
+		"# h":           `\# h`,
+		"- item":        `\- item`,
+		"1. first":      `1\. first`,
+		"86.0%":         "86.0%",
+		"+15.00":        "+15.00",
+		"  code  ":      "code",
+		"www.x.org":     `www\.x.org`,
+		"a@b.org":       `a\@b.org`,
 	} {
 		if got := mdEscape(in); got != want {
 			t.Errorf("mdEscape(%q) = %q, want %q", in, got, want)

@@ -205,24 +205,53 @@ func mdTable(c cells) string {
 	return b.String()
 }
 
-// mdEscape makes a string show literally in Markdown: the punctuation
-// that marks emphasis, code, links and table cells gets a backslash (user
-// strings never start a line, so line-start marks such as # need none), and <, > and & become HTML entities so
-// that no raw HTML reaches a renderer that allows it. Newlines become
-// spaces, since a label must stay on its table row.
+// mdEscape makes a string show literally in Markdown, wherever it is put:
+// in a table cell, a heading, emphasis, a list item, a quote or at the
+// start of a line.
+//   - Newlines (and tabs) become spaces, since a label must stay on its
+//     line and its table row; the ends are trimmed, so that leading spaces
+//     cannot make a code block and trailing ones neither a hard line break
+//     nor a "**" that no longer closes.
+//   - <, > and & become HTML entities, so no raw HTML or entity reaches a
+//     renderer that allows them.
+//   - The punctuation that marks emphasis, code, links and images, table
+//     cells, strike-through, headings, footnotes and attribute lists gets
+//     a backslash, which CommonMark defines for every ASCII punctuation.
+//   - The bare-URL links of GitHub's Markdown are broken up: "://", "www."
+//     and "@" (e-mail addresses, mailto:) get a backslash.
+//   - A first character that would open a block (a list, a rule, a
+//     heading underline, a definition) or an ordered list's "1." gets a
+//     backslash; a signed number such as "+15.00" keeps its sign as is.
 func mdEscape(s string) string {
-	var b strings.Builder
-	for _, r := range s {
+	s = strings.TrimSpace(strings.Map(func(r rune) rune {
 		switch r {
-		case '<':
+		case '\n', '\r', '\t', '\v', '\f':
+			return ' '
+		}
+		return r
+	}, s))
+	// An ordered-list marker: up to nine digits, "." or ")", then a space
+	// or the end (so that "86.0%" stays as it is).
+	listMark := -1
+	if d := strings.IndexFunc(s, func(r rune) bool { return r < '0' || r > '9' }); d > 0 && d <= 9 &&
+		(s[d] == '.' || s[d] == ')') && (d+1 == len(s) || s[d+1] == ' ') {
+		listMark = d
+	}
+	var b strings.Builder
+	for i, r := range s {
+		switch {
+		case r == '<':
 			b.WriteString("&lt;")
-		case '>':
+		case r == '>':
 			b.WriteString("&gt;")
-		case '&':
+		case r == '&':
 			b.WriteString("&amp;")
-		case '\n', '\r', '\t':
-			b.WriteByte(' ')
-		case '\\', '`', '*', '_', '[', ']', '|', '~':
+		case i == 0 && strings.ContainsRune("=:", r),
+			i == 0 && (r == '-' || r == '+') && !(len(s) > 1 && '0' <= s[1] && s[1] <= '9'),
+			i == listMark,
+			strings.ContainsRune("\\`*_[]|~#{}@", r),
+			r == ':' && strings.HasPrefix(s[i:], "://"),
+			r == '.' && i >= 3 && strings.EqualFold(s[i-3:i], "www"):
 			b.WriteByte('\\')
 			b.WriteRune(r)
 		default:

@@ -7,7 +7,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"html"
-	"regexp"
 	"strconv"
 	"strings"
 )
@@ -60,11 +59,99 @@ func (c *Chart) Title() string { return c.title }
 // method is marked as recommended).
 func (c *Chart) Notes() []string { return append([]string(nil), c.notes...) }
 
-// funcMarker brackets JavaScript function source inside option strings
-// (the go-echarts convention, see opts.FuncOpts).
+// funcMarker brackets JavaScript function source inside option strings in
+// the go-echarts convention (see opts.FuncOpts). This package no longer
+// gives it any meaning: a string holding it, whoever wrote it, is data and
+// is emitted as a JSON string. It is kept only so that tests can feed it
+// as hostile text.
 const funcMarker = "__f__"
 
-var funcPattern = regexp.MustCompile(`"` + funcMarker + `((?:[^"\\]|\\.)*?)` + funcMarker + `"`)
+// How code reaches the chart option, and why user text never can.
+//
+// go-echarts marks code as a string wrapped in funcMarker, and a page that
+// turns such strings into code cannot tell our callbacks from a group
+// label that happens to be wrapped the same way: a label read from a CSV
+// file ran as script. So the decision is made by Go type, not by content:
+// only a value of the private type jsCode, which only this package's
+// constant sources are turned into (see jsFunc), becomes code. Strings of
+// any content, including funcMarker, stay JSON string literals.
+//
+// jsCode marshals to a JSON string token that starts with the escape `\/`
+// (see codeToken). encoding/json writes a '/' in a string unescaped and a
+// backslash as `\\`, so no Go string, whatever it holds, marshals to a
+// token that starts with `"\/`; after marshalling, a scan of the JSON's
+// string tokens (substituteCode) finds exactly the jsCode values by their
+// raw bytes and either pastes their source as code (optionScript) or keeps
+// it as a plain string (OptionJSON).
+
+// jsCode is JavaScript source written in this package (a callback or a
+// renderer). Only jsFunc makes one.
+type jsCode struct{ src string }
+
+// codeToken is how a jsCode token starts in marshalled JSON: a quote and
+// the escape `\/`, which encoding/json never writes for a string's content.
+const codeToken = `"\/propscope-code\/`
+
+// MarshalJSON writes the source as a JSON string behind codeToken.
+func (c jsCode) MarshalJSON() ([]byte, error) {
+	b, err := json.Marshal(c.src)
+	if err != nil {
+		return nil, err
+	}
+	return append([]byte(codeToken), b[1:]...), nil
+}
+
+// substituteCode scans marshalled JSON and replaces each jsCode token by
+// its source (asCode) or by the source as an ordinary JSON string. Every
+// other string token, whatever it contains, is copied unchanged. The scan
+// follows JSON's grammar for strings (a backslash escapes the next byte),
+// so a token's start is never taken from the middle of another string.
+func substituteCode(b []byte, asCode bool) ([]byte, error) {
+	out := make([]byte, 0, len(b))
+	for i := 0; i < len(b); {
+		if b[i] != '"' {
+			out = append(out, b[i])
+			i++
+			continue
+		}
+		j := i + 1
+		for j < len(b) && b[j] != '"' {
+			if b[j] == '\\' {
+				j++
+			}
+			j++
+		}
+		if j >= len(b) {
+			return nil, fmt.Errorf("unterminated string in chart option")
+		}
+		tok := b[i : j+1]
+		i = j + 1
+		if !bytes.HasPrefix(tok, []byte(codeToken)) {
+			out = append(out, tok...)
+			continue
+		}
+		var s string
+		if err := json.Unmarshal(tok, &s); err != nil {
+			return nil, fmt.Errorf("chart callback: %w", err)
+		}
+		src := strings.TrimPrefix(s, "/propscope-code/")
+		if asCode && strings.Contains(strings.ToLower(src), "</script") {
+			// Our callbacks are constants and never hold this; the check
+			// keeps a future edit from ending the script element.
+			return nil, fmt.Errorf("chart callback holds </script")
+		}
+		if asCode {
+			out = append(out, src...)
+			continue
+		}
+		q, err := json.Marshal(src)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, q...)
+	}
+	return out, nil
+}
 
 // OptionJSON returns the echarts option as JSON, with JavaScript callbacks
 // (tooltip and label formatters, custom renderers) as strings holding their
@@ -74,27 +161,27 @@ func (c *Chart) OptionJSON() ([]byte, error) {
 	if err != nil {
 		return nil, fmt.Errorf("chart %s: %w", c.id, err)
 	}
-	return bytes.ReplaceAll(b, []byte(funcMarker), nil), nil
+	out, err := substituteCode(b, false)
+	if err != nil {
+		return nil, fmt.Errorf("chart %s: %w", c.id, err)
+	}
+	return out, nil
 }
 
 // optionScript returns the option as a JavaScript expression: JSON with
 // HTML-significant characters escaped (so user text such as a label
-// "</script>" cannot end the script element), and the callbacks as code.
+// "</script>" cannot end the script element), and this package's
+// callbacks, and nothing else, as code.
 func (c *Chart) optionScript() (string, error) {
 	b, err := json.Marshal(c.option) // escapes <, > and & inside strings
 	if err != nil {
 		return "", fmt.Errorf("chart %s: %w", c.id, err)
 	}
-	var ferr error
-	out := funcPattern.ReplaceAllFunc(b, func(m []byte) []byte {
-		var src string
-		inner := m[len(funcMarker)+1 : len(m)-len(funcMarker)-1]
-		if err := json.Unmarshal(append(append([]byte{'"'}, inner...), '"'), &src); err != nil {
-			ferr = err
-		}
-		return []byte(src)
-	})
-	return string(out), ferr
+	out, err := substituteCode(b, true)
+	if err != nil {
+		return "", fmt.Errorf("chart %s: %w", c.id, err)
+	}
+	return string(out), nil
 }
 
 // chartID derives the identifier from the kind and the option's content.

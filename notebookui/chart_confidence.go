@@ -210,14 +210,14 @@ func ConfidenceCurveChartFrom(cc ConfidenceCurve, cmp proportions.Comparison, op
 	ch.SetGlobalOptions(
 		charts.WithXAxisOpts(opts.XAxis{
 			Type: "value", Min: -1, Max: 1, NameLocation: "middle", NameGap: 30,
-			Name:      axisName(fmt.Sprintf("difference δ in share %s, %s − %s", cmp.Event, first, second), "percentage points"),
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(ppAxisLabel)},
+			Name: axisName(fmt.Sprintf("difference δ in share %s, %s − %s", cmp.Event, first, second), "percentage points"),
 		}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: "two-sided p-value (probability)",
 			NameLocation: "middle", NameGap: 40}),
 		charts.WithGridOpts(opts.Grid{Left: "44", Right: "40", Top: "92", Bottom: "84", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "xAxis", ppAxisLabel)
 	viewLo, viewHi, _ := niceRange(cc.ViewLower, cc.ViewUpper, -1, 1)
 	option["dataZoom"] = s.zoom(viewLo, viewHi, ppAxisLabel)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(curveTooltip),

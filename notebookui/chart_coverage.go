@@ -270,13 +270,14 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 	ch := charts.NewLine()
 	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
 	ch.SetGlobalOptions(
-		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: 1, Name: xName, NameLocation: "middle", NameGap: 30,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: 1, Name: xName, NameLocation: "middle", NameGap: 30}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: yMin, Max: 1, MinInterval: yStep, MaxInterval: yStep, Name: axisName("exact coverage", "%"),
-			NameLocation: "middle", NameGap: 46, AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+			NameLocation: "middle", NameGap: 46}),
 		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "110", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "xAxis", percentAxisLabel)
+	axisFormatter(option, "yAxis", percentAxisLabel)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}

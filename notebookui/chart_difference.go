@@ -174,13 +174,13 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 		charts.WithXAxisOpts(opts.XAxis{
 			Type: "value", Min: axisMin, Max: axisMax, NameLocation: "middle", NameGap: 30,
 			MinInterval: step, MaxInterval: step,
-			Name:      axisName(fmt.Sprintf("difference in share %s", a.Comparison.Event), "percentage points"),
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(ppAxisLabel)},
+			Name: axisName(fmt.Sprintf("difference in share %s", a.Comparison.Event), "percentage points"),
 		}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "category", Data: names, Inverse: opts.Bool(true)}),
 		charts.WithGridOpts(opts.Grid{Left: "16", Right: "110", Top: "80", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "xAxis", ppAxisLabel)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "item", "formatter": jsFunc(tipFormatter)}
 	option["legend"] = map[string]any{"show": false}
 	option["series"] = []any{map[string]any{

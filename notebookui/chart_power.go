@@ -129,11 +129,11 @@ func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) 
 	ch.SetGlobalOptions(
 		charts.WithXAxisOpts(opts.XAxis{Type: "value", Name: axisName("group 1 size n1", "units"), NameLocation: "middle", NameGap: 30,
 			Scale: opts.Bool(true), MinInterval: 1}),
-		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44}),
 		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "yAxis", percentAxisLabel)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(powerBySizeTooltip)}
@@ -184,13 +184,13 @@ func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, e
 	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
 	ch.SetGlobalOptions(
 		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: axisMin, Max: axisMax, NameLocation: "middle", NameGap: 30,
-			Name:      axisName("true difference π1 − π2", "percentage points"),
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(ppAxisLabel)}}),
-		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)}}),
+			Name: axisName("true difference π1 − π2", "percentage points")}),
+		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44}),
 		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "xAxis", ppAxisLabel)
+	axisFormatter(option, "yAxis", percentAxisLabel)
 	option["series"] = series
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(powerByDifferenceTooltip)}

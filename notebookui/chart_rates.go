@@ -108,12 +108,12 @@ func RatesChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) 
 		charts.WithXAxisOpts(opts.XAxis{
 			Type: "value", Min: axisMin, Max: axisMax, MinInterval: step, MaxInterval: step,
 			Name: axisName("share "+event, "%"), NameLocation: "middle", NameGap: 30,
-			AxisLabel: &opts.AxisLabel{Formatter: opts.FuncOpts(percentAxisLabel)},
 		}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "category", Data: labels, Inverse: opts.Bool(true)}),
 		charts.WithGridOpts(opts.Grid{Left: "16", Right: "32", Top: "92", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
+	axisFormatter(option, "xAxis", percentAxisLabel)
 
 	methods := methodOrder(a.Groups)
 	table := dataTable{

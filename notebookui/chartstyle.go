@@ -1,6 +1,7 @@
 package notebookui
 
 import (
+	"encoding/json"
 	"fmt"
 	"html"
 	"math"
@@ -85,10 +86,50 @@ func optionOf(ch interface {
 	return ch.JSON()
 }
 
-// jsFunc marks JavaScript source for the option (see Chart.optionScript).
-// Only constant code of this package goes through it, never user text:
-// user text travels as data and is escaped where it is shown.
-func jsFunc(src string) string { return funcMarker + src + funcMarker }
+// jsFunc marks JavaScript source for the option (see Chart.optionScript
+// and jsCode). Only constant code of this package goes through it, never
+// user text: user text travels as data (JSON strings) and is escaped
+// where it is shown. It returns a jsCode, not a string, so that no string
+// can ever be mistaken for code.
+func jsFunc(src string) jsCode { return jsCode{src: src} }
+
+// axisFormatter sets the label formatter of the first axis of the given
+// kind ("xAxis", "yAxis") to this package's constant source src. It is set
+// on the option map after go-echarts has built it, rather than with
+// opts.FuncOpts, because go-echarts marks code by content (a wrapped
+// string), which user text could imitate (see jsCode).
+func axisFormatter(option map[string]any, axis, src string) {
+	m := firstAxis(option, axis)
+	label, _ := m["axisLabel"].(map[string]any)
+	if label == nil {
+		label = map[string]any{}
+	}
+	label["formatter"] = jsFunc(src)
+	m["axisLabel"] = label
+}
+
+// firstAxis returns the first axis of the given kind as a plain map,
+// converting go-echarts' typed axis list to maps (through JSON) once.
+func firstAxis(option map[string]any, axis string) map[string]any {
+	if v, ok := option[axis].([]any); ok && len(v) > 0 {
+		if m, ok := v[0].(map[string]any); ok {
+			return m
+		}
+	}
+	var list []map[string]any
+	if b, err := json.Marshal(option[axis]); err == nil {
+		_ = json.Unmarshal(b, &list)
+	}
+	if len(list) == 0 {
+		list = []map[string]any{{}}
+	}
+	out := make([]any, len(list))
+	for i := range list {
+		out[i] = list[i]
+	}
+	option[axis] = out
+	return list[0]
+}
 
 // Number formats used in tooltips and tables. Proportions show as
 // percentages, differences as signed percentage points.

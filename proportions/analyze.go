@@ -95,7 +95,8 @@ func analysisConfidences(s Settings) (test, intervals Confidence, err error) {
 	}
 	intervals, err = NewConfidence(1 - 2*(1-s.Level))
 	if err != nil {
-		return test, test, fmt.Errorf("level %v with a one-sided alternative: %w; one-sided tests need a level above 0.5 (a one-sided α below 0.5)", s.Level, ErrLevel)
+		return test, test, fmt.Errorf("level %v with a one-sided alternative: %w; one-sided tests need a level of at least %v "+
+			"(a one-sided α below 0.5), so that the intervals' level 1 − 2α is at least %g", s.Level, ErrLevel, (1+MinLevel)/2, MinLevel)
 	}
 	return test, intervals, nil
 }

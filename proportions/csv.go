@@ -28,9 +28,12 @@ type CSVSpec struct {
 }
 
 // ReadCSV reads one row per unit from r and counts it into a comparison.
-// Other columns are ignored. Errors wrap ErrEmptyInput (no header or no
-// rows), ErrMissingColumn, ErrMalformedRow (with the line number),
-// ErrOutcomeValue (with the line number), ErrGroupCount or ErrUnknownGroup.
+// Other columns are ignored. Lines may end in LF, CRLF or CR alone (old Mac
+// files), and a UTF-8 byte-order mark before the header is skipped. Errors
+// wrap ErrEmptyInput (no header or no rows), ErrMissingColumn,
+// ErrMalformedRow (with the line number; also for a header that names the
+// group or outcome column twice), ErrOutcomeValue (with the line number),
+// ErrGroupCount or ErrUnknownGroup.
 func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 	groupCol := defaultString(spec.GroupColumn, DefaultGroupColumn)
 	outcomeCol := defaultString(spec.OutcomeColumn, DefaultOutcomeColumn)
@@ -38,7 +41,7 @@ func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 	if err != nil {
 		return Comparison{}, err
 	}
-	cr := csv.NewReader(r)
+	cr := csv.NewReader(newLineEnds(r))
 	if spec.Comma != 0 {
 		cr.Comma = spec.Comma
 	}
@@ -99,26 +102,36 @@ func findColumns(header []string, groupCol, outcomeCol string) (gi, oi int, err 
 	return gi, oi, nil
 }
 
+// findColumn returns the one column named want: exactly, or else ignoring
+// case. A name that occurs twice is an error rather than a guess: which
+// column holds the data cannot be told from the header, and taking the
+// first silently counted the wrong one.
 func findColumn(names []string, want string) (int, error) {
+	var exact, folded []int
 	for i, n := range names {
-		if n == want {
-			return i, nil
+		switch {
+		case n == want:
+			exact = append(exact, i)
+		case strings.EqualFold(n, want):
+			folded = append(folded, i)
 		}
 	}
-	found := -1
-	for i, n := range names {
-		if strings.EqualFold(n, want) {
-			if found >= 0 {
-				found = -2
-				break
-			}
-			found = i
-		}
+	found := exact
+	if len(found) == 0 {
+		found = folded
 	}
-	if found >= 0 {
-		return found, nil
+	switch len(found) {
+	case 1:
+		return found[0], nil
+	case 0:
+		return 0, fmt.Errorf("column %q: %w; the header has %q", want, ErrMissingColumn, names)
 	}
-	return 0, fmt.Errorf("column %q: %w; the header has %q", want, ErrMissingColumn, names)
+	cols := make([]string, len(found))
+	for k, i := range found {
+		cols[k] = fmt.Sprintf("%d (%q)", i+1, names[i])
+	}
+	return 0, fmt.Errorf("line 1: %w: the header names column %q %d times (columns %s); each column name must occur once",
+		ErrMalformedRow, want, len(found), strings.Join(cols, ", "))
 }
 
 func csvError(err error) error {

@@ -24,7 +24,8 @@
 //   - Group 1 is (x1 events of n1 trials), group 2 (x2 of n2); the
 //     difference is π1 − π2, the ratio π1/π2, the odds ratio
 //     π1(1−π2)/(π2(1−π1)).
-//   - A level is the two-sided confidence level in (0, 1), 0.95 by default;
+//   - A level is the two-sided confidence level in [MinLevel, MaxLevel]
+//     (10⁻⁶ to 1 − 10⁻¹², where every method is correct), 0.95 by default;
 //     z is the normal quantile at (1 + level)/2 to full precision
 //     (1.959963984540054 at 0.95, not 1.96).
 //   - Options are passed as ...Option (WithLevel, WithNull, WithAlternative,

@@ -24,8 +24,9 @@ var (
 	ErrMissingColumn = errors.New("missing column")
 	// ErrMalformedRow: a CSV row cannot be read (its line number is in the message).
 	ErrMalformedRow = errors.New("malformed row")
-	// ErrLevel: a confidence level is not strictly between 0 and 1.
-	ErrLevel = errors.New("level outside (0, 1)")
+	// ErrLevel: a confidence level is outside [MinLevel, MaxLevel], a
+	// range inside (0, 1) where every method computes correct limits.
+	ErrLevel = errors.New("level outside the allowed range")
 	// ErrNull: a null value lies outside the allowed range for its scale:
 	// (−1, 1) for a difference, (0, ∞) for a ratio or odds ratio.
 	ErrNull = errors.New("null value outside the allowed range")

@@ -152,6 +152,10 @@ func FuzzReadCSV(f *testing.F) {
 	f.Add("group,outcome\n\"a\nb\",1\nc,0\n")
 	f.Add("")
 	f.Add("group\n")
+	// Issue 20: CR line ends, a byte-order mark before a quoted header,
+	// a repeated column.
+	f.Add("\ufeff\"group\",\"outcome\"\ra,1\rb,0\r\na,0\r")
+	f.Add("group,outcome,group\na,1,b\nb,0,a\n")
 	f.Fuzz(func(t *testing.T, data string) {
 		c, err := ReadCSV(strings.NewReader(data), CSVSpec{})
 		if err != nil {

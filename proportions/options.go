@@ -84,10 +84,12 @@ func (s Settings) NullFor(f Scale) float64 {
 	return f.NoEffect()
 }
 
-// ValidateLevel returns an error wrapping ErrLevel unless 0 < level < 1.
+// ValidateLevel returns an error wrapping ErrLevel unless MinLevel ≤ level
+// ≤ MaxLevel (10⁻⁶ to 1 − 10⁻¹²; see MinLevel for why not all of (0, 1)).
 func ValidateLevel(level float64) error {
-	if !(level > 0 && level < 1) {
-		return fmt.Errorf("level %v: %w; use a confidence level strictly between 0 and 1, such as 0.95", level, ErrLevel)
+	if !(level >= MinLevel && level <= MaxLevel) {
+		return fmt.Errorf("level %v: %w; use a confidence level from %g to %v (1 − 1e-12), such as 0.95",
+			level, ErrLevel, MinLevel, MaxLevel)
 	}
 	return nil
 }

@@ -58,7 +58,7 @@ func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
 // spaced from rate1From to rate1To (both in (0, 1)), π2 = Plan.Rate2
 // fixed. Plan.Rate1 and Power are not used.
 func PowerByDifference(d Plan, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
-	if err := d.validate(); err != nil {
+	if err := d.validate(); err != nil { // Rate1 too, when given: it is echoed
 		return PowerCurve{}, err
 	}
 	if err := validateSizes(n1, n2); err != nil {
@@ -86,6 +86,9 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 	if n1From < 1 || n1To < n1From || n1To > proportions.MaxTrials || groupTwoSize(n1From, r) < 1 {
 		return nil, fmt.Errorf("group-1 sizes %d to %d: %w; give 1 ≤ from ≤ to ≤ %d", n1From, n1To, proportions.ErrPlan, proportions.MaxTrials)
 	}
+	if err := checkGroupTwo(n1To, r); err != nil {
+		return nil, err
+	}
 	step := max(1, (n1To-n1From+MaxCurvePoints-1)/MaxCurvePoints)
 	var out [][2]int64
 	for n := n1From; n <= n1To; n += step {
@@ -99,8 +102,8 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 
 // rateGrid lists points rates evenly spaced from a to b.
 func rateGrid(a, b float64, points int) ([]float64, error) {
-	if !(a > 0 && a < 1 && b > 0 && b < 1 && a <= b) {
-		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1", a, b, proportions.ErrPlan)
+	if !(a >= MinPlanningRate && b <= MaxPlanningRate && a <= b) {
+		return nil, fmt.Errorf("rates %v to %v: %w; give 0 < from ≤ to < 1, from %g to %v (1 − 1e-12)", a, b, proportions.ErrPlan, MinPlanningRate, MaxPlanningRate)
 	}
 	if points < 2 || points > MaxCurvePoints {
 		return nil, fmt.Errorf("%d points: %w; ask for 2 to %d points", points, proportions.ErrPlan, MaxCurvePoints)

@@ -23,7 +23,9 @@ func (d Plan) Validate() error {
 func (d Plan) SecondGroupSize(n1 int64) int64 { return groupTwoSize(n1, d.allocation()) }
 
 // Enrolled returns the units to enrol for n with an outcome,
-// ⌈n/(1 − Dropout)⌉.
+// ⌈n/(1 − Dropout)⌉, never less than n. When that is above MaxTrials (a
+// drop-out share near 1) it returns math.MaxInt64; EnrolledUnits returns
+// an error wrapping ErrTooLarge instead, and the planning functions use it.
 func (d Plan) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 
 // TestHypotheses returns the hypotheses with which the test m carries out

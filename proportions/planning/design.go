@@ -124,23 +124,27 @@ type Plan struct {
 	// the one-sided alternative that the first group is better. Equality
 	// and Equivalence plans are two-sided and do not read it.
 	Better proportions.Better `json:"better"`
-	// Rate1 and Rate2 are the anticipated true rates π1 and π2, in (0, 1).
+	// Rate1 and Rate2 are the anticipated true rates π1 and π2, in (0, 1)
+	// (from MinPlanningRate to MaxPlanningRate).
 	Rate1 float64 `json:"rate1"`
 	Rate2 float64 `json:"rate2"`
 	// Margin is δ on the difference scale or ρ on the ratio scale; it must
 	// be 0 for Equality. See Goal for the allowed signs.
 	Margin float64 `json:"margin"`
-	// Alpha is the significance level in (0, 0.5]: the two-sided level for
+	// Alpha is the significance level in [MinPlanningAlpha, 0.5]: the two-sided level for
 	// Equality, the one-sided level for Superiority and NonInferiority, and
 	// the level of each one-sided test for Equivalence.
 	Alpha float64 `json:"alpha"`
-	// Power is the target power, in (Alpha, 1).
+	// Power is the target power, in (Alpha, MaxPlanningPower]. A function
+	// that does not use it (Power, the power curves) still echoes it, so
+	// it must then be 0 or valid; the same holds for Rate1.
 	Power float64 `json:"power"`
 	// Allocation is the ratio r = n2/n1 of the group sizes; 0 means 1.
 	// Group 2 gets ⌈r·n1⌉ units.
 	Allocation float64 `json:"allocation"`
 	// Dropout is the expected share of enrolled units lost before the
-	// outcome is known, in [0, 1); enrolment is inflated to n/(1 − Dropout).
+	// outcome is known, in [0, 1); enrolment is inflated to n/(1 − Dropout),
+	// and an enrolment above MaxTrials is an error wrapping ErrTooLarge.
 	Dropout float64 `json:"dropout"`
 	// Variance is the null-variance rule of the asymptotic formulas.
 	Variance VarianceRule `json:"variance"`
@@ -226,8 +230,8 @@ func (d Plan) validate() error {
 	if d.Scale != proportions.Difference && d.Scale != proportions.Ratio {
 		return fmt.Errorf("scale %s: %w; planning works on the difference or the ratio scale", d.Scale, proportions.ErrUnsupported)
 	}
-	if !(d.Alpha > 0 && d.Alpha <= 0.5) {
-		return fmt.Errorf("alpha %v: %w; the significance level must lie in (0, 0.5], such as 0.05 (two-sided) or 0.025 (one-sided)", d.Alpha, proportions.ErrPlan)
+	if !(d.Alpha >= MinPlanningAlpha && d.Alpha <= 0.5) {
+		return fmt.Errorf("alpha %v: %w; the significance level must lie in (0, 0.5], at least %g, such as 0.05 (two-sided) or 0.025 (one-sided)", d.Alpha, proportions.ErrPlan, MinPlanningAlpha)
 	}
 	if r := d.allocation(); !(r >= minAllocation && r <= maxAllocation) {
 		return fmt.Errorf("allocation n2/n1 = %v: %w; it must lie in [%v, %v] (0 means equal groups)", d.Allocation, proportions.ErrPlan, minAllocation, maxAllocation)
@@ -247,19 +251,24 @@ func (d Plan) validate() error {
 	if d.ContinuityCorrection && d.nullValue() != d.Scale.NoEffect() {
 		return fmt.Errorf("continuity correction with margin %v: %w; the Casagrande–Pike–Smith correction is published for a test of no difference only", d.Margin, proportions.ErrUnsupported)
 	}
-	return validateRate("second group's", d.Rate2)
+	if err := validateRate("second group's", d.Rate2); err != nil {
+		return err
+	}
+	return d.validateEchoed()
 }
 
 func validateRate(which string, p float64) error {
-	if !(p > 0 && p < 1) {
-		return fmt.Errorf("%s anticipated rate %v: %w; a rate must lie strictly between 0 and 1", which, p, proportions.ErrPlan)
+	if !(p >= MinPlanningRate && p <= MaxPlanningRate) {
+		return fmt.Errorf("%s anticipated rate %v: %w; a rate must lie strictly between 0 and 1, from %g to %v (1 − 1e-12)",
+			which, p, proportions.ErrPlan, MinPlanningRate, MaxPlanningRate)
 	}
 	return nil
 }
 
 func (d Plan) validatePower() error {
-	if !(d.Power > d.Alpha && d.Power < 1) {
-		return fmt.Errorf("power %v: %w; the target power must lie strictly between α = %v and 1, such as 0.8 or 0.9", d.Power, proportions.ErrPlan, d.Alpha)
+	if !(d.Power > d.Alpha && d.Power <= MaxPlanningPower) {
+		return fmt.Errorf("power %v: %w; the target power must lie strictly between α = %v and 1, at most %v (1 − 1e-12), such as 0.8 or 0.9",
+			d.Power, proportions.ErrPlan, d.Alpha, MaxPlanningPower)
 	}
 	return nil
 }
@@ -288,6 +297,11 @@ func (d Plan) validateMargin() error {
 	}
 	if err := proportions.ValidateNull(d.Scale, m); err != nil {
 		return fmt.Errorf("%s margin %v on the %s scale: %w (%v)", d.Goal, d.Margin, d.Scale, proportions.ErrMargin, err)
+	}
+	if d.Scale == proportions.Ratio {
+		if err := validateRatioMargin(d.Goal, m); err != nil {
+			return err
+		}
 	}
 	one := d.Scale.NoEffect()
 	var ok bool

@@ -174,22 +174,36 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	res := ExactSampleSizeResult{Plan: d, Method: m.Key, MethodName: m.Name, Citation: m.Citation, Asymptotic: asym,
 		From: sc.from, Horizon: sc.horizon, StableFound: sc.stableFound, Caution: Caution,
 		Curve: PowerCurve{Plan: d, Basis: "exact power of " + m.Name, Axis: "n1", Points: sc.curve, Caution: Caution}}
-	res.First = sizeAt(d, sc.curve, sc.first)
+	if res.First, err = sizeAt(d, sc.curve, sc.first); err != nil {
+		return ExactSampleSizeResult{}, err
+	}
 	if sc.stableFound {
-		res.Stable = sizeAt(d, sc.curve, sc.stable)
+		if res.Stable, err = sizeAt(d, sc.curve, sc.stable); err != nil {
+			return ExactSampleSizeResult{}, err
+		}
 	}
 	res.Notes = append(testNotes(m), searchNotes(res)...)
 	return res, nil
 }
 
-// sizeAt picks the curve point at n1.
-func sizeAt(d Plan, curve []PowerPoint, n1 int64) GroupSizes {
+// sizeAt picks the curve point at n1, with its enrolment (an error
+// wrapping ErrTooLarge when a drop-out share near 1 puts it above
+// MaxTrials).
+func sizeAt(d Plan, curve []PowerPoint, n1 int64) (GroupSizes, error) {
 	for _, p := range curve {
 		if p.N1 == n1 {
-			return GroupSizes{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: d.Enrolled(p.N1), Enrolled2: d.Enrolled(p.N2)}
+			e1, err := d.EnrolledUnits(p.N1)
+			if err != nil {
+				return GroupSizes{}, err
+			}
+			e2, err := d.EnrolledUnits(p.N2)
+			if err != nil {
+				return GroupSizes{}, err
+			}
+			return GroupSizes{N1: p.N1, N2: p.N2, Power: p.Power, Enrolled1: e1, Enrolled2: e2}, nil
 		}
 	}
-	return GroupSizes{}
+	return GroupSizes{}, nil
 }
 
 func searchNotes(r ExactSampleSizeResult) []string {

@@ -92,10 +92,21 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 		return SampleSizeResult{}, fmt.Errorf("sample size %.3g per group: %w; the plan needs more than %d units per group", n, proportions.ErrTooLarge, proportions.MaxTrials)
 	}
 	n1 := ceilSize(n)
+	if err := checkGroupTwo(n1, m.r); err != nil {
+		return SampleSizeResult{}, err
+	}
 	n2 := groupTwoSize(n1, m.r)
+	e1, err := enrolledUnits(n1, d.Dropout)
+	if err != nil {
+		return SampleSizeResult{}, err
+	}
+	e2, err := enrolledUnits(n2, d.Dropout)
+	if err != nil {
+		return SampleSizeResult{}, err
+	}
 	res := SampleSizeResult{
 		Plan: d, Unrounded: n, N1: n1, N2: n2, Total: n1 + n2,
-		Enrolled1: enrolled(n1, d.Dropout), Enrolled2: enrolled(n2, d.Dropout),
+		Enrolled1: e1, Enrolled2: e2,
 		NullRate1: m.nullRate1, NullRate2: m.nullRate2, Caution: Caution,
 	}
 	res.EnrolledTotal = res.Enrolled1 + res.Enrolled2
@@ -121,12 +132,15 @@ func powerAtSizes(d Plan, n1, n2 int64) float64 {
 	return newModel(d, d.Rate1, d.Rate2, float64(n2)/float64(n1)).power(float64(n1))
 }
 
-// enrolled inflates a group size for drop-out: ⌈n/(1 − share)⌉.
+// enrolled inflates a group size for drop-out: ⌈n/(1 − share)⌉, at least
+// n; above MaxTrials (where enrolledUnits returns an error) it returns
+// math.MaxInt64 rather than a number that overflowed.
 func enrolled(n int64, share float64) int64 {
-	if share == 0 {
-		return n
+	e, err := enrolledUnits(n, share)
+	if err != nil {
+		return math.MaxInt64
 	}
-	return ceilSize(float64(n) / (1 - share))
+	return e
 }
 
 // PowerResult is the power of a plan at given group sizes.
