@@ -1,6 +1,9 @@
 package proportions
 
-import "math"
+import (
+	"context"
+	"math"
+)
 
 // Exact unconditional confidence intervals for π1 − π2 by inverting the
 // exact unconditional score test of H0: π1 − π2 = δ (the test of Barnard
@@ -45,9 +48,13 @@ var ChanZhang = IntervalMethod{
 	Exact:      true,
 	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
-		a := (1 - conf.Level) / 2
-		return exactScoreLower(c, a, sideGreater), -exactScoreLower(c.Swapped(), a, sideGreater)
+		lo, hi, _ := exactScoreLimits(context.Background(), c, (1-conf.Level)/2, sideGreater)
+		return lo, hi
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return exactScoreLimits(ctx, c, (1-conf.Level)/2, sideGreater)
+	},
+	Cost: func(c Counts, _ Confidence) Cost { return exactIntervalCost(c) },
 }
 
 // AgrestiMin is the exact unconditional interval of Agresti A, Min Y (2001),
@@ -68,9 +75,28 @@ var AgrestiMin = IntervalMethod{
 	Exact:      true,
 	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
-		a := 1 - conf.Level
-		return exactScoreLower(c, a, sideBoth), -exactScoreLower(c.Swapped(), a, sideBoth)
+		lo, hi, _ := exactScoreLimits(context.Background(), c, 1-conf.Level, sideBoth)
+		return lo, hi
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return exactScoreLimits(ctx, c, 1-conf.Level, sideBoth)
+	},
+	Cost: func(c Counts, _ Confidence) Cost { return exactIntervalCost(c) },
+}
+
+// exactScoreLimits returns both limits of an exact unconditional interval,
+// the upper one as the mirror of the lower one for the groups exchanged,
+// or ctx's error when ctx ends.
+func exactScoreLimits(ctx context.Context, c Counts, alpha float64, side regionSide) (lower, upper float64, err error) {
+	lower, err = exactScoreLower(ctx, c, alpha, side)
+	if err != nil {
+		return 0, 0, err
+	}
+	negUpper, err := exactScoreLower(ctx, c.Swapped(), alpha, side)
+	if err != nil {
+		return 0, 0, err
+	}
+	return lower, -negUpper, nil
 }
 
 // exactIntervalTrialLimit is the total n1 + n2 up to which Analyze computes
@@ -83,26 +109,39 @@ const exactIntervalTrialLimit = 400
 // the region side (no Berger–Boos restriction). Designs above
 // UnconditionalMaxTables give 1, so the interval is the whole range rather
 // than a hang (the registry's TrialLimit keeps analyses far below that).
-func exactScoreP(c Counts, delta float64, side regionSide) float64 {
+// When ctx ends it returns 0 and ctx's error.
+func exactScoreP(ctx context.Context, c Counts, delta float64, side regionSide) (float64, error) {
 	if checkUnconditionalSize(c) != nil {
-		return 1
+		return 1, nil
 	}
-	reg, _ := zRegion(c, delta, true, side)
+	reg, _ := zRegionContext(ctx, c, delta, true, side)
+	if err := ctx.Err(); err != nil {
+		return 0, err
+	}
 	a, b := max(0, -delta), min(1, 1-delta)
-	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b}
+	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx}
 	logp, _ := s.supremum()
-	return math.Exp(logp)
+	return math.Exp(logp), s.err
 }
 
 // exactScoreLower returns the lower limit: the smallest δ below p1 − p2
 // that the exact score test on the given side does not reject at level
-// alpha, located as described at the top of this file.
-func exactScoreLower(c Counts, alpha float64, side regionSide) float64 {
+// alpha, located as described at the top of this file, or ctx's error when
+// ctx ends (every p-value is then 0, so the search winds down at once).
+func exactScoreLower(ctx context.Context, c Counts, alpha float64, side regionSide) (float64, error) {
 	d := c.P1() - c.P2()
 	if d <= -1 {
-		return -1
+		return -1, nil
 	}
-	p := func(delta float64) float64 { return exactScoreP(c, delta, side) }
+	var stopped error
+	p := func(delta float64) float64 {
+		if stopped != nil {
+			return 0
+		}
+		v, err := exactScoreP(ctx, c, delta, side)
+		stopped = err
+		return v
+	}
 	step := 0.5 * math.Sqrt(0.25/float64(c.N1)+0.25/float64(c.N2))
 	// Coarse walk: in is not rejected, out is (δ = −1 is, unless d = −1).
 	in, out := d, -1.0
@@ -141,5 +180,5 @@ func exactScoreLower(c Counts, alpha float64, side regionSide) float64 {
 			out = mid
 		}
 	}
-	return out
+	return out, stopped
 }
