@@ -30,10 +30,10 @@ import "math"
 
 // Step weights, measured with the benchmarks of the tests on one core.
 const (
-	costPooledTable = 15  // pooled score at δ0 = 0 (pooledRegion)
+	costPooledTable = 5   // pooled score at δ0 = 0 (pooledRegion)
 	costWaldTable   = 15  // unpooled Wald statistic
-	costScoreTable  = 70  // score at δ0 ≠ 0: the restricted MLE's cubic
-	costFisherTable = 20  // Fisher ordering: the cut per margin and the scan
+	costScoreTable  = 100 // score at δ0 ≠ 0: the restricted MLE's cubic
+	costFisherTable = 5   // Fisher ordering: the cut per margin and the scan
 	costTerm        = 5   // one binomial term: its recurrence, prefix and suffix sums
 	costRun         = 3   // one run of the region in one row
 	costLogPMF      = 40  // one log-pmf in the log-space path
