@@ -98,7 +98,7 @@ func BenchmarkWhatIfExplorerRedraw(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	m := whatIfModel{WhatIfExplorer{Comparison: c}}
+	m := whatIfModel{e: WhatIfExplorer{Comparison: c}}
 	pos := startPositions(m)
 	for i := 0; b.Loop(); i++ {
 		pos[0] = 20 + i%20
@@ -136,7 +136,7 @@ func BenchmarkWhatIfExplorerFirstFrame(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	m := whatIfModel{WhatIfExplorer{Comparison: c}}
+	m := whatIfModel{e: WhatIfExplorer{Comparison: c}}
 	pos := startPositions(m)
 	for i := 0; b.Loop(); i++ {
 		pos[0] = 20 + i%20

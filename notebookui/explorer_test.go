@@ -390,7 +390,7 @@ func TestWhatIfExplorerShowsTheQuickCardFirst(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	m := whatIfModel{WhatIfExplorer{Comparison: c}}
+	m := whatIfModel{e: WhatIfExplorer{Comparison: c}}
 	pos := startPositions(m)
 	f, complete := frameWithin(m, pos, 0) // no time at all: the exact methods cannot be ready
 	if complete == nil || !f.Partial || !strings.Contains(f.Text(), "Computing the exact tests and intervals") {
@@ -414,5 +414,30 @@ func TestWhatIfExplorerShowsTheQuickCardFirst(t *testing.T) {
 	}
 	if complete().Text() != full.Text() {
 		t.Error("completing twice should give the same frame")
+	}
+}
+
+// Moving on from counts cancels their full analysis: the earlier frame's
+// completion says it was left, instead of finishing seconds of exact work
+// nobody will see.
+func TestWhatIfSupersededAnalysisIsCancelled(t *testing.T) {
+	c, err := proportions.NewComparison(150, 300, 120, 300, proportions.Labels{First: "a", Second: "b", Event: "sprouted"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := whatIfModel{e: WhatIfExplorer{Comparison: c}, latest: &latestRun{}}
+	_, rest := m.renderWithin([]int{150, 300, 120, 300}, time.Millisecond)
+	if rest == nil {
+		t.Skip("the full analysis finished within a millisecond; nothing to cancel")
+	}
+	_, rest2 := m.renderWithin([]int{151, 300, 120, 300}, time.Millisecond)
+	first := rest()
+	if msg, ok := first.(message); !ok || !strings.Contains(msg.text, "left before") {
+		t.Errorf("the superseded analysis finished as %T %q, want the note that it was left", first, first.Text())
+	}
+	if rest2 != nil {
+		if _, ok := rest2().(ResultCard); !ok {
+			t.Error("the newest counts' full analysis did not give a card")
+		}
 	}
 }

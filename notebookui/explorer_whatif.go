@@ -1,6 +1,7 @@
 package notebookui
 
 import (
+	"context"
 	"fmt"
 	"strconv"
 	"sync"
@@ -72,7 +73,7 @@ func (e WhatIfExplorer) Run(opts ...LiveOption) error {
 	if err := e.validate(); err != nil {
 		return err
 	}
-	return run(whatIfModel{e}, opts)
+	return run(whatIfModel{e: e, latest: &latestRun{}}, opts)
 }
 
 // Frame returns what the explorer shows for the given counts, as the live
@@ -88,10 +89,37 @@ func (e WhatIfExplorer) Frame(x1, n1, x2, n2 int) (Frame, error) {
 			return Frame{}, fmt.Errorf("what-if explorer: count %d: %w; the sliders run from 0 to %d", v, proportions.ErrTooLarge, top)
 		}
 	}
-	return frameOf(whatIfModel{e}, []int{x1, n1, x2, n2}), nil
+	return frameOf(whatIfModel{e: e}, []int{x1, n1, x2, n2}), nil
 }
 
-type whatIfModel struct{ e WhatIfExplorer }
+type whatIfModel struct {
+	e WhatIfExplorer
+	// latest, in a live explorer, cancels the full analysis of counts the
+	// reader has already moved away from, so slider moves never queue up
+	// seconds of exact computation; nil in a static frame.
+	latest *latestRun
+}
+
+// latestRun holds the cancel function of the newest full analysis.
+type latestRun struct {
+	mu     sync.Mutex
+	cancel context.CancelFunc
+}
+
+// start cancels the previous analysis and returns the context of the next.
+func (l *latestRun) start() context.Context {
+	if l == nil {
+		return context.Background()
+	}
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	if l.cancel != nil {
+		l.cancel()
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	l.cancel = cancel
+	return ctx
+}
 
 func (whatIfModel) name() string { return "what-if" }
 
@@ -120,7 +148,7 @@ func (m whatIfModel) render(pos []int) Displayable {
 	if bad != nil {
 		return bad
 	}
-	return m.card(cmp, m.fullOptions())
+	return m.card(context.Background(), cmp, m.fullOptions())
 }
 
 // renderWithin shows the full analysis when it is ready within the budget;
@@ -132,14 +160,15 @@ func (m whatIfModel) renderWithin(pos []int, budget time.Duration) (Displayable,
 	if bad != nil {
 		return bad, nil
 	}
+	ctx := m.latest.start()
 	full := make(chan Displayable, 1)
-	go func() { full <- m.card(cmp, m.fullOptions()) }()
+	go func() { full <- m.card(ctx, cmp, m.fullOptions()) }()
 	select {
 	case v := <-full:
 		return v, nil
 	case <-time.After(budget):
 	}
-	quick := m.card(cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithScope(proportions.ScopeQuick)))
+	quick := m.card(context.Background(), cmp, append(append([]proportions.Option(nil), m.e.Analysis...), proportions.WithScope(proportions.ScopeQuick)))
 	var once sync.Once
 	var v Displayable
 	rest := func() Displayable {
@@ -176,9 +205,13 @@ func (m whatIfModel) comparison(pos []int) (proportions.Comparison, Displayable)
 	return cmp, nil
 }
 
-// card analyses the comparison and shows its result card.
-func (m whatIfModel) card(cmp proportions.Comparison, opts []proportions.Option) Displayable {
-	a, err := proportions.Analyze(cmp, opts...)
+// card analyses the comparison and shows its result card; an analysis
+// cancelled because the reader moved on says so.
+func (m whatIfModel) card(ctx context.Context, cmp proportions.Comparison, opts []proportions.Option) Displayable {
+	a, err := proportions.AnalyzeContext(ctx, cmp, opts...)
+	if ctx.Err() != nil {
+		return message{kind: "what-if", text: "These counts were left before their exact methods finished; the card for the newest counts follows."}
+	}
 	if err != nil {
 		return message{kind: "what-if", text: "These counts cannot be analysed: " + err.Error()}
 	}

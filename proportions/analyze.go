@@ -1,6 +1,8 @@
 package proportions
 
 import (
+	"context"
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -43,8 +45,20 @@ const smallExpected = 5
 // confidence bound; so with a one-sided test at 2.5% (Level 0.975) the
 // familiar 95% interval is reported, and it excludes δ on the
 // alternative's side exactly when the test rejects. A costly method whose
-// TrialLimit the data exceed is skipped with a warning.
+// TrialLimit the data exceed is skipped with a warning. Analyze is
+// AnalyzeContext with context.Background().
 func Analyze(c Comparison, opts ...Option) (Analysis, error) {
+	return AnalyzeContext(context.Background(), c, opts...)
+}
+
+// AnalyzeContext is Analyze with cancellation: with ScopeAll it can take
+// seconds, so it stops with ctx's error within a few milliseconds of ctx
+// ending (the costly methods look at ctx inside their work). A costly
+// method whose Cost for this table exceeds AnalysisCost, or whose work
+// sized on the way would (the log-space search of the unconditional tests
+// for a tail probability below 1e−280), is skipped with a warning like a
+// method above its TrialLimit.
+func AnalyzeContext(ctx context.Context, c Comparison, opts ...Option) (Analysis, error) {
 	counts := c.Counts()
 	if err := counts.Validate(); err != nil {
 		return Analysis{}, err
@@ -70,11 +84,19 @@ func Analyze(c Comparison, opts ...Option) (Analysis, error) {
 	rates := a.rateMethodsOf(run)
 	a.Groups[0] = groupEstimate(c.First, ivConf, store.take(len(proportionMethods)), rates)
 	a.Groups[1] = groupEstimate(c.Second, ivConf, store.take(len(proportionMethods)), rates)
-	a.DifferenceIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods)
-	a.RatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods)
-	a.OddsRatioIntervals = a.intervalsOf(run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods)
+	if a.DifferenceIntervals, err = a.intervalsOf(ctx, run, counts, ivConf, store.take(len(differenceMethods)+len(slowDifferenceMethods)), differenceMethods, slowDifferenceMethods); err != nil {
+		return Analysis{}, err
+	}
+	if a.RatioIntervals, err = a.intervalsOf(ctx, run, counts, ivConf, store.take(len(ratioMethods)), ratioMethods); err != nil {
+		return Analysis{}, err
+	}
+	if a.OddsRatioIntervals, err = a.intervalsOf(ctx, run, counts, ivConf, store.take(len(oddsRatioMethods)), oddsRatioMethods); err != nil {
+		return Analysis{}, err
+	}
 	h := Hypothesis{Null: null, Alternative: s.Alternative, Conf: conf, shared: &sharedWork{}}
-	a.Tests = a.testsOf(run, counts, h, s)
+	if a.Tests, err = a.testsOf(ctx, run, counts, h, s); err != nil {
+		return Analysis{}, err
+	}
 	if err := a.setHeadline(counts, ivConf, h); err != nil {
 		return Analysis{}, err
 	}
@@ -170,31 +192,67 @@ func (f methodFilter) decide(exact bool, sizeLimit int64) (run, tooLarge bool) {
 }
 
 // intervalsOf fills out (empty, with room for every method of lists) with
-// the intervals the analysis runs.
-func (a *Analysis) intervalsOf(f methodFilter, c Counts, conf Confidence, out []Interval, lists ...[]IntervalMethod) []Interval {
+// the intervals the analysis runs; it stops with ctx's error when ctx ends.
+func (a *Analysis) intervalsOf(ctx context.Context, f methodFilter, c Counts, conf Confidence, out []Interval, lists ...[]IntervalMethod) ([]Interval, error) {
 	for _, l := range lists {
 		for _, m := range l {
-			if a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
+			if !a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
+				continue
+			}
+			if m.Cost == nil && m.LimitsContext == nil {
 				out = append(out, m.IntervalAt(c, conf))
+				continue
+			}
+			iv, err := m.intervalContext(ctx, c, conf, AnalysisCost)
+			switch {
+			case errors.Is(err, ErrTooLarge):
+				a.skipCostly(m.Name, err)
+			case err != nil:
+				return out, err
+			default:
+				out = append(out, iv)
 			}
 		}
 	}
-	return out
+	return out, nil
 }
 
-func (a *Analysis) testsOf(f methodFilter, c Counts, h Hypothesis, s Settings) []TestResult {
+// testsOf runs the tests the analysis includes; it stops with ctx's error
+// when ctx ends.
+func (a *Analysis) testsOf(ctx context.Context, f methodFilter, c Counts, h Hypothesis, s Settings) ([]TestResult, error) {
 	out := make([]TestResult, 0, len(asymptoticTests)+len(exactTests))
 	for _, l := range [...][]TestMethod{asymptoticTests, exactTests, ratioTests} {
 		for _, m := range l {
 			if m.Scale != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.YatesTest) {
 				continue
 			}
-			if a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
+			if !a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {
+				continue
+			}
+			if m.Cost == nil && m.RunContext == nil {
 				out = append(out, m.Run(c, h))
+				continue
+			}
+			r, err := m.runContext(ctx, c, h, AnalysisCost)
+			switch {
+			case errors.Is(err, ErrTooLarge):
+				a.skipCostly(m.Name, err)
+			case err != nil:
+				return out, err
+			default:
+				out = append(out, r)
 			}
 		}
 	}
-	return out
+	return out, nil
+}
+
+// skipCostly records a costly method left out because its cost at this
+// table exceeds AnalysisCost; err (wrapping ErrTooLarge) says what it
+// would need.
+func (a *Analysis) skipCostly(name string, err error) {
+	a.Warnings = append(a.Warnings, Warning{Code: WarnSkipped, Message: fmt.Sprintf(
+		"%s was not computed: it would be slow at this table (%v); call it directly if you need it.", name, err)})
 }
 
 // admit reports whether the analysis runs a method, and otherwise records

@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"math"
 
 	"github.com/propscope/propscope/internal/special"
@@ -203,6 +204,12 @@ func fisherTwoSidedCutLog(n1, n2, m int64, logThr float64) (left, right int64) {
 // the log of the observed Fisher p-value (one-sided for sideGreater and
 // sideLess, two-sided for sideBoth).
 func fisherRegion(c Counts, side regionSide) (region, float64) {
+	return fisherRegionContext(context.Background(), c, side)
+}
+
+// fisherRegionContext is fisherRegion stopping early when ctx ends (the
+// region is then incomplete; callers check ctx.Err()).
+func fisherRegionContext(ctx context.Context, c Counts, side regionSide) (region, float64) {
 	alt := TwoSided
 	switch side {
 	case sideGreater:
@@ -212,10 +219,10 @@ func fisherRegion(c Counts, side regionSide) (region, float64) {
 	}
 	logp := fisherLogP(c, alt, false)
 	left, right := fisherSliceCuts(c.N1, c.N2, logp+statTieTolerance, side)
-	reg := buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
-		for x2 := range row {
-			m := x1 + x2
-			row[x2] = int64(x1) <= left[m] || int64(x1) >= right[m]
+	reg := buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
+		for j := range part {
+			m := x1 + from + j
+			part[j] = int64(x1) <= left[m] || int64(x1) >= right[m]
 		}
 	})
 	return reg, logp

@@ -44,7 +44,8 @@ var (
 	// ErrUnsupported: the method does not support the requested hypothesis
 	// (for example a non-zero margin for a test defined only at zero).
 	ErrUnsupported = errors.New("not supported by this method")
-	// ErrTooLarge: a count is larger than the library handles.
+	// ErrTooLarge: a count is larger than the library handles, or a costly
+	// method's estimated cost exceeds its guard (see Cost, MaxCost).
 	ErrTooLarge = errors.New("count too large")
 	// ErrPlan: a study-plan input (anticipated rate, α, power, allocation
 	// ratio, drop-out share, group size, search bounds) lies outside its range.

@@ -1,6 +1,9 @@
 package proportions
 
-import "math"
+import (
+	"context"
+	"math"
+)
 
 // Exact unconditional confidence intervals for π1 − π2 by inverting the
 // exact unconditional score test of H0: π1 − π2 = δ (the test of Barnard
@@ -44,9 +47,13 @@ var ChanZhang = IntervalMethod{
 	Exact:      true,
 	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
-		a := (1 - conf.Level) / 2
-		return exactScoreLower(c, a, sideGreater), -exactScoreLower(c.Swapped(), a, sideGreater)
+		lo, hi, _ := exactScoreLimits(context.Background(), c, (1-conf.Level)/2, sideGreater)
+		return lo, hi
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return exactScoreLimits(ctx, c, (1-conf.Level)/2, sideGreater)
+	},
+	Cost: func(c Counts, _ Confidence) Cost { return exactIntervalCost(c) },
 }
 
 // AgrestiMin is the exact unconditional interval of Agresti A, Min Y (2001),
@@ -67,9 +74,28 @@ var AgrestiMin = IntervalMethod{
 	Exact:      true,
 	TrialLimit: exactIntervalTrialLimit,
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
-		a := 1 - conf.Level
-		return exactScoreLower(c, a, sideBoth), -exactScoreLower(c.Swapped(), a, sideBoth)
+		lo, hi, _ := exactScoreLimits(context.Background(), c, 1-conf.Level, sideBoth)
+		return lo, hi
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return exactScoreLimits(ctx, c, 1-conf.Level, sideBoth)
+	},
+	Cost: func(c Counts, _ Confidence) Cost { return exactIntervalCost(c) },
+}
+
+// exactScoreLimits returns both limits of an exact unconditional interval,
+// the upper one as the mirror of the lower one for the groups exchanged,
+// or ctx's error when ctx ends.
+func exactScoreLimits(ctx context.Context, c Counts, alpha float64, side regionSide) (lower, upper float64, err error) {
+	lower, err = exactScoreLower(ctx, c, alpha, side)
+	if err != nil {
+		return 0, 0, err
+	}
+	negUpper, err := exactScoreLower(ctx, c.Swapped(), alpha, side)
+	if err != nil {
+		return 0, 0, err
+	}
+	return lower, -negUpper, nil
 }
 
 // exactIntervalTrialLimit is the total n1 + n2 up to which Analyze computes
@@ -83,15 +109,19 @@ const exactIntervalTrialLimit = 400
 // the region side (no Berger–Boos restriction). Designs above
 // UnconditionalMaxTables give 1, so the interval is the whole range rather
 // than a hang (the registry's TrialLimit keeps analyses far below that).
-func exactScoreP(c Counts, delta float64, side regionSide) float64 {
+// When ctx ends it returns 0 and ctx's error.
+func exactScoreP(ctx context.Context, c Counts, delta float64, side regionSide) (float64, error) {
 	if checkUnconditionalSize(c) != nil {
-		return 1
+		return 1, nil
 	}
-	reg, _ := zRegion(c, delta, true, side)
+	reg, _ := zRegionContext(ctx, c, delta, true, side)
+	if err := ctx.Err(); err != nil {
+		return 0, err
+	}
 	a, b := max(0, -delta), min(1, 1-delta)
-	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b}
+	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx}
 	logp, _ := s.supremum()
-	return math.Exp(logp)
+	return math.Exp(logp), s.err
 }
 
 // exactScoreSearch evaluates the exact score test of one table at many
@@ -104,6 +134,10 @@ type exactScoreSearch struct {
 	side regionSide
 	work *tailWork
 	zs   map[float64][]float64
+	// ctx is looked at before every p-value and bound; its error, once
+	// seen, is kept in err and every later evaluation returns 0.
+	ctx context.Context
+	err error
 }
 
 // exactZCacheSize is the number of δ values whose statistics are kept:
@@ -111,8 +145,16 @@ type exactScoreSearch struct {
 // the scan, and the recent values of the recursion.
 const exactZCacheSize = 32
 
-func newExactScoreSearch(c Counts, side regionSide) *exactScoreSearch {
-	return &exactScoreSearch{c: c, side: side, work: newTailWork(int(c.N1), int(c.N2)), zs: map[float64][]float64{}}
+func newExactScoreSearch(ctx context.Context, c Counts, side regionSide) *exactScoreSearch {
+	return &exactScoreSearch{c: c, side: side, work: newTailWork(int(c.N1), int(c.N2)), zs: map[float64][]float64{}, ctx: ctx}
+}
+
+// stopped reports whether ctx has ended, keeping its error.
+func (e *exactScoreSearch) stopped() bool {
+	if e.err == nil {
+		e.err = e.ctx.Err()
+	}
+	return e.err != nil
 }
 
 // z returns the score statistics of every table at delta, row by row.
@@ -138,9 +180,9 @@ func (e *exactScoreSearch) z(delta float64) []float64 {
 // region returns the tables whose statistic in z is on side of zobs.
 func (e *exactScoreSearch) region(z []float64, zobs float64, side regionSide) region {
 	w := int(e.c.N2) + 1
-	return buildRegion(int(e.c.N1), int(e.c.N2), func(x1 int, row []bool) {
-		for x2 := range row {
-			row[x2] = zInRegion(z[x1*w+x2], zobs, side)
+	return buildRegion(e.ctx, int(e.c.N1), int(e.c.N2), func(x1, from int, part []bool) {
+		for j := range part {
+			part[j] = zInRegion(z[x1*w+from+j], zobs, side)
 		}
 	})
 }
@@ -155,10 +197,17 @@ func (e *exactScoreSearch) p(delta float64) float64 {
 	if checkUnconditionalSize(e.c) != nil {
 		return 1
 	}
+	if e.stopped() {
+		return 0
+	}
 	z := e.z(delta)
 	reg := e.region(z, e.obs(z), e.side)
-	s := nuisanceSearch{work: e.work, reg: &reg, delta: delta, a: max(0, -delta), b: min(1, 1-delta)}
+	s := nuisanceSearch{work: e.work, reg: &reg, delta: delta, a: max(0, -delta), b: min(1, 1-delta), ctx: e.ctx}
 	logp, _ := s.supremum()
+	if s.err != nil {
+		e.err = s.err
+		return 0
+	}
 	return math.Exp(logp)
 }
 
@@ -187,15 +236,22 @@ func (e *exactScoreSearch) bound(lo, hi float64) float64 {
 	if checkUnconditionalSize(e.c) != nil {
 		return 1
 	}
+	if e.stopped() {
+		return 0
+	}
 	zhi := e.z(hi)
 	zobs := e.obs(zhi)
 	up := e.region(e.z(lo), zobs, sideGreater)
-	s := nuisanceSearch{work: e.work, reg: &up, delta: hi, a: max(0, -hi), b: min(1, 1-lo)}
+	s := nuisanceSearch{work: e.work, reg: &up, delta: hi, a: max(0, -hi), b: min(1, 1-lo), ctx: e.ctx}
 	if e.side == sideBoth {
 		down := e.region(zhi, -zobs, sideLess)
 		s.low, s.lowDelta = &down, lo
 	}
 	logp, _ := s.supremum()
+	if s.err != nil {
+		e.err = s.err
+		return 0
+	}
 	return math.Exp(logp)
 }
 
@@ -224,12 +280,14 @@ const exactLimitTolerance = 1e-6
 // first by bisection so that only the part outside it needs the bound.
 // What remains unsearched: accepted stretches narrower than
 // exactLimitTolerance, and any beyond the point where the scan stopped.
-func exactScoreLower(c Counts, alpha float64, side regionSide) float64 {
+// When ctx ends it returns ctx's error (every p-value and bound is then 0,
+// so the search winds down at once).
+func exactScoreLower(ctx context.Context, c Counts, alpha float64, side regionSide) (float64, error) {
 	d := c.P1() - c.P2()
 	if d <= -1 {
-		return -1
+		return -1, nil
 	}
-	e := newExactScoreSearch(c, side)
+	e := newExactScoreSearch(ctx, c, side)
 	step := 0.5 * math.Sqrt(0.25/float64(c.N1)+0.25/float64(c.N2))
 	// Coarse walk: in is not rejected, out is (δ = −1 is, unless d = −1).
 	in, out := d, -1.0
@@ -281,7 +339,7 @@ func exactScoreLower(c Counts, alpha float64, side regionSide) float64 {
 	}
 	for i := len(grid) - 2; i >= 1; i-- {
 		if v, ok := settle(grid[i+1], grid[i], false); ok {
-			return v
+			return v, e.err
 		}
 	}
 	// The crossing next to the lowest accepted value, then the part of
@@ -296,7 +354,7 @@ func exactScoreLower(c Counts, alpha float64, side regionSide) float64 {
 		}
 	}
 	if v, ok := settle(grid[1], out, false); ok {
-		return v
+		return v, e.err
 	}
-	return out
+	return out, e.err
 }

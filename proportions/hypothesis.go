@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"encoding/json"
 	"fmt"
 	"math"
@@ -65,6 +66,10 @@ type Hypothesis struct {
 	// shared, set by Analyze, keeps the work that several tests of one
 	// analysis have in common (see sharedWork); nil elsewhere.
 	shared *sharedWork
+	// costLimit, set by TestContext and Analyze, is the guard a costly
+	// test applies to the parts of its work sized on the way; zero means
+	// MaxCost.
+	costLimit Cost
 }
 
 // Alpha returns the significance level 1 − Conf.Level.
@@ -98,12 +103,31 @@ type TestMethod struct {
 	// Run computes the test for validated counts and a validated hypothesis
 	// (Test does the validation). It must never return NaN.
 	Run func(c Counts, h Hypothesis) TestResult `json:"-"`
+	// Cost, set on the costly tests (those with a TrialLimit), estimates
+	// what the test would do for counts and a hypothesis before it runs
+	// (see Cost). TestContext refuses a call above MaxCost and Analyze
+	// skips a test above AnalysisCost.
+	Cost func(c Counts, h Hypothesis) Cost `json:"-"`
+	// RunContext, set on the costly tests, is Run with cancellation: it
+	// returns ctx's error within a few milliseconds of ctx ending, and an
+	// error wrapping ErrTooLarge when a part of the work that can only be
+	// sized on the way (the log-space search of the unconditional tests)
+	// would exceed the guard. The cheap tests leave it nil and are run
+	// through Run; the registry keeps one value per test either way.
+	RunContext func(ctx context.Context, c Counts, h Hypothesis) (TestResult, error) `json:"-"`
 }
 
-// Test validates the counts and the options, then runs the test. It reads
-// the settings Level, Null (default: the scale's no-effect value) and
-// Alternative.
+// Test validates the counts and the options, then runs the test (see
+// TestContext, which it calls with context.Background()).
 func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
+	return m.TestContext(context.Background(), c, opts...)
+}
+
+// TestContext validates the counts and the options, then runs the test. It
+// reads the settings Level, Null (default: the scale's no-effect value) and
+// Alternative. A costly test is refused with an error wrapping ErrTooLarge
+// when its Cost exceeds MaxCost, and stops with ctx's error when ctx ends.
+func (m TestMethod) TestContext(ctx context.Context, c Counts, opts ...Option) (TestResult, error) {
 	if err := c.Validate(); err != nil {
 		return TestResult{}, err
 	}
@@ -120,7 +144,25 @@ func (m TestMethod) Test(c Counts, opts ...Option) (TestResult, error) {
 			return TestResult{}, err
 		}
 	}
-	return m.Run(c, h), nil
+	return m.runContext(ctx, c, h, MaxCost)
+}
+
+// runContext runs the test with ctx under a cost guard: through RunContext
+// for a costly test, through Run for a cheap one.
+func (m TestMethod) runContext(ctx context.Context, c Counts, h Hypothesis, guard Cost) (TestResult, error) {
+	if err := ctx.Err(); err != nil {
+		return TestResult{}, err
+	}
+	if m.Cost != nil {
+		if err := m.Cost(c, h).guard(fmt.Sprintf("%s at %d/%d vs %d/%d (null %v)", m.Name, c.X1, c.N1, c.X2, c.N2, h.Null), guard); err != nil {
+			return TestResult{}, err
+		}
+	}
+	if m.RunContext == nil {
+		return m.Run(c, h), nil
+	}
+	h.costLimit = guard
+	return m.RunContext(ctx, c, h)
 }
 
 // Hypothesis turns settings into a validated hypothesis for this test.

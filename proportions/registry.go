@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"slices"
@@ -48,11 +49,31 @@ type IntervalMethod struct {
 	// of Scale.Estimate (the conditional odds-ratio methods report the
 	// conditional maximum-likelihood estimate); NaN means not estimable.
 	PointEstimate func(c Counts) float64 `json:"-"`
+	// Cost, set on the costly methods (those with a TrialLimit), estimates
+	// what the method would do for counts before it runs (see Cost).
+	// IntervalContext refuses a call above MaxCost and Analyze skips a
+	// method above AnalysisCost.
+	Cost func(c Counts, conf Confidence) Cost `json:"-"`
+	// LimitsContext, set on the costly methods, is Limits with
+	// cancellation: it returns ctx's error within a few milliseconds of ctx
+	// ending. Limits stays set and is what the cheap methods have; the
+	// registry keeps one value per method either way, and callers that can
+	// wait long (the engine, Analyze, the cards) use LimitsContext when it
+	// is set.
+	LimitsContext func(ctx context.Context, c Counts, conf Confidence) (lower, upper float64, err error) `json:"-"`
 }
 
 // Interval validates the counts and the level, computes the limits and
-// applies the library's limit rule (see Interval).
+// applies the library's limit rule (see Interval). It is IntervalContext
+// with context.Background().
 func (m IntervalMethod) Interval(c Counts, level float64) (Interval, error) {
+	return m.IntervalContext(context.Background(), c, level)
+}
+
+// IntervalContext is Interval with cancellation and the cost guard: a
+// costly method is refused with an error wrapping ErrTooLarge when its Cost
+// exceeds MaxCost, and stops with ctx's error when ctx ends.
+func (m IntervalMethod) IntervalContext(ctx context.Context, c Counts, level float64) (Interval, error) {
 	if err := c.Validate(); err != nil {
 		return Interval{}, err
 	}
@@ -60,12 +81,37 @@ func (m IntervalMethod) Interval(c Counts, level float64) (Interval, error) {
 	if err != nil {
 		return Interval{}, err
 	}
-	return m.IntervalAt(c, conf), nil
+	return m.intervalContext(ctx, c, conf, MaxCost)
+}
+
+// intervalContext computes the interval with ctx under a cost guard.
+func (m IntervalMethod) intervalContext(ctx context.Context, c Counts, conf Confidence, guard Cost) (Interval, error) {
+	if err := ctx.Err(); err != nil {
+		return Interval{}, err
+	}
+	if m.Cost != nil {
+		if err := m.Cost(c, conf).guard(fmt.Sprintf("%s at %d/%d vs %d/%d", m.Name, c.X1, c.N1, c.X2, c.N2), guard); err != nil {
+			return Interval{}, err
+		}
+	}
+	if m.LimitsContext == nil {
+		return m.IntervalAt(c, conf), nil
+	}
+	lo, hi, err := m.LimitsContext(ctx, c, conf)
+	if err != nil {
+		return Interval{}, err
+	}
+	return m.interval(c, conf, lo, hi), nil
 }
 
 // IntervalAt is Interval for counts and confidence already validated.
 func (m IntervalMethod) IntervalAt(c Counts, conf Confidence) Interval {
 	rawLo, rawHi := m.Limits(c, conf)
+	return m.interval(c, conf, rawLo, rawHi)
+}
+
+// interval applies the limit rule to raw limits.
+func (m IntervalMethod) interval(c Counts, conf Confidence, rawLo, rawHi float64) Interval {
 	lo, hi, clipped := clip(m.Scale, rawLo, rawHi)
 	est := m.Scale.Estimate(c)
 	if m.PointEstimate != nil {

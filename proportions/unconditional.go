@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strconv"
@@ -89,6 +90,7 @@ var BarnardTest = TestMethod{
 	Key: "barnard-test", Name: "Barnard (score)", Citation: citeBarnardScore, Definition: defBarnardScore,
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: PooledScore}),
+	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: PooledScore}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: PooledScore}),
 }
 
 // BarnardWaldTest is Barnard's unconditional exact test ordered by the unpooled
@@ -99,6 +101,7 @@ var BarnardWaldTest = TestMethod{
 	Key: "barnard-wald-test", Name: "Barnard (Wald)", Citation: citeBarnardWald, Definition: defBarnardWald,
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: UnpooledWald}),
+	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: UnpooledWald}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: UnpooledWald}),
 }
 
 // BoschlooTest is Boschloo's unconditional exact test: tables are ordered by
@@ -113,6 +116,7 @@ var BoschlooTest = TestMethod{
 	Key: "boschloo-test", Name: "Boschloo", Citation: citeBoschloo, Definition: defBoschloo,
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue}),
+	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue}),
 }
 
 // BoschlooDoubledTest is Boschloo's test with the two-sided p-value taken as
@@ -122,6 +126,7 @@ var BoschlooDoubledTest = TestMethod{
 	Key: "boschloo-doubled-test", Name: "Boschloo" + doubledName, Citation: citeBoschloo, Definition: defBoschloo + doubledDefinition,
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
+	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 }
 
 // NewUnconditionalTest builds an unconditional exact test as a TestMethod
@@ -143,6 +148,8 @@ func NewUnconditionalTest(d UnconditionalVariant) (TestMethod, error) {
 		TrialLimit: unconditionalTrialLimit,
 		Check:      checkUnconditionalSize,
 		Run:        unconditionalRunner(d),
+		RunContext: unconditionalContextRunner(d),
+		Cost:       unconditionalCoster(d),
 	}, nil
 }
 
@@ -178,10 +185,36 @@ func unconditionalNames(d UnconditionalVariant) (key, name, def, cite string) {
 	return key + "-test", name, def, cite
 }
 
-// unconditionalRunner returns the Run function of a variant.
+// unconditionalRunner returns the Run function of a variant: the test
+// without cancellation, under MaxCost. A design refused by the size or cost
+// guard gives p = 1 — a valid but uninformative p-value — with the
+// statistic name saying it was not computed, so direct callers of Run
+// never hang (Test and TestContext return the guard's error instead).
 func unconditionalRunner(d UnconditionalVariant) func(c Counts, h Hypothesis) TestResult {
 	key, name, _, _ := unconditionalNames(d)
-	return func(c Counts, h Hypothesis) TestResult { return runUnconditional(c, h, d, key, name) }
+	return func(c Counts, h Hypothesis) TestResult {
+		r, err := runUnconditional(context.Background(), c, h, d, key, name)
+		if err != nil {
+			r = TestResult{Method: key, MethodName: name, Scale: Difference, StatisticName: "not computed (design too large)"}
+			r.PValue, r.LogPValue = 1, 0
+			r.decide(h)
+		}
+		return r
+	}
+}
+
+// unconditionalContextRunner returns the RunContext function of a variant.
+func unconditionalContextRunner(d UnconditionalVariant) func(ctx context.Context, c Counts, h Hypothesis) (TestResult, error) {
+	key, name, _, _ := unconditionalNames(d)
+	return func(ctx context.Context, c Counts, h Hypothesis) (TestResult, error) {
+		return runUnconditional(ctx, c, h, d, key, name)
+	}
+}
+
+// unconditionalCoster returns the Cost function of a variant (see
+// unconditional_cost.go).
+func unconditionalCoster(d UnconditionalVariant) func(c Counts, h Hypothesis) Cost {
+	return func(c Counts, h Hypothesis) Cost { return unconditionalCost(c, h, d) }
 }
 
 // checkUnconditionalSize refuses designs above UnconditionalMaxTables.
@@ -193,34 +226,51 @@ func checkUnconditionalSize(c Counts) error {
 	return nil
 }
 
-// runUnconditional computes the test. Above UnconditionalMaxTables (which
-// Test refuses through Check) it returns p = 1 — a valid but uninformative
-// p-value — with the statistic name saying it was not computed, so direct
-// callers of Run never hang.
-func runUnconditional(c Counts, h Hypothesis, d UnconditionalVariant, key, name string) TestResult {
+// runUnconditional computes the test. Designs above UnconditionalMaxTables
+// or h's cost guard (MaxCost when unset) are refused with an error wrapping
+// ErrTooLarge, before any work or, for the log-space search, before it
+// starts; a cancelled ctx stops it with ctx's error.
+func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d UnconditionalVariant, key, name string) (TestResult, error) {
 	r := TestResult{Method: key, MethodName: name, Scale: Difference}
-	if checkUnconditionalSize(c) != nil {
-		r.StatisticName = "not computed (design too large)"
-		r.PValue, r.LogPValue = 1, 0
-		r.decide(h)
-		return r
+	if err := checkUnconditionalSize(c); err != nil {
+		return r, err
+	}
+	guard := h.costLimit
+	if guard == (Cost{}) {
+		guard = MaxCost
+	}
+	if err := unconditionalCost(c, h, d).guard(fmt.Sprintf("%s at %d/%d vs %d/%d (null %v)", name, c.X1, c.N1, c.X2, c.N2, h.Null), guard); err != nil {
+		return r, err
+	}
+	side := func(s regionSide) (logp, nuis, stat float64, err error) {
+		return unconditionalSide(ctx, guard, c, h.Null, d, s)
 	}
 	var logp, nuis float64
+	var err error
 	switch {
 	case h.Alternative == TwoSided && d.TwoSided == TwoSidedDoubled:
-		lg, ng, sg := unconditionalSide(c, h.Null, d, sideGreater)
-		ll, nl, sl := unconditionalSide(c, h.Null, d, sideLess)
+		lg, ng, sg, errG := side(sideGreater)
+		if errG != nil {
+			return r, errG
+		}
+		ll, nl, sl, errL := side(sideLess)
+		if errL != nil {
+			return r, errL
+		}
 		logp, nuis, r.Statistic = lg, ng, sg
 		if ll < lg {
 			logp, nuis, r.Statistic = ll, nl, sl
 		}
 		logp = min(logp+math.Ln2, 0)
 	case h.Alternative == Greater:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideGreater)
+		logp, nuis, r.Statistic, err = side(sideGreater)
 	case h.Alternative == Less:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideLess)
+		logp, nuis, r.Statistic, err = side(sideLess)
 	default:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideBoth)
+		logp, nuis, r.Statistic, err = side(sideBoth)
+	}
+	if err != nil {
+		return r, err
 	}
 	if g := d.BergerBoosGamma; g > 0 {
 		logp = math.Log(min(math.Exp(logp)+g, 1))
@@ -231,26 +281,33 @@ func runUnconditional(c Counts, h Hypothesis, d UnconditionalVariant, key, name 
 	}
 	r.PValue, r.LogPValue, r.Nuisance = math.Exp(logp), logp, &nuis
 	r.decide(h)
-	return r
+	return r, nil
 }
 
 // unconditionalSide returns the log of the maximised tail probability for
 // one region, the nuisance value π2 where it is attained, and the observed
-// ordering statistic.
-func unconditionalSide(c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat float64) {
+// ordering statistic; ctx's error when ctx ends, and an error wrapping
+// ErrTooLarge when the log-space search would exceed the guard.
+func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat float64, err error) {
 	var reg region
 	switch d.Statistic {
 	case FisherPValue:
 		var lf float64
-		reg, lf = fisherRegion(c, side)
+		reg, lf = fisherRegionContext(ctx, c, side)
 		stat = math.Exp(lf)
 	default:
-		reg, stat = zRegion(c, delta, d.Statistic == PooledScore, side)
+		reg, stat = zRegionContext(ctx, c, delta, d.Statistic == PooledScore, side)
+	}
+	if err := ctx.Err(); err != nil {
+		return 0, 0, 0, err
 	}
 	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
-	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b}
+	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
 	logp, nuisance = s.supremum()
-	return logp, nuisance, stat
+	if s.err != nil {
+		return 0, 0, 0, s.err
+	}
+	return logp, nuisance, stat, nil
 }
 
 // nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0

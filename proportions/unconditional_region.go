@@ -1,5 +1,7 @@
 package proportions
 
+import "context"
+
 // A rejection region of an unconditional exact test: the set of tables
 // (x1, x2), 0 ≤ x1 ≤ n1, 0 ≤ x2 ≤ n2, at least as extreme as the observed
 // one under the test's ordering statistic. It is stored row by row as runs
@@ -21,14 +23,28 @@ type region struct {
 	tables int64
 }
 
-// buildRegion scans the rows: fill(x1, row) must set row[x2] for every
-// x2 in 0..n2 to whether table (x1, x2) belongs to the region.
-func buildRegion(n1, n2 int, fill func(x1 int, row []bool)) region {
+// regionChunk is the number of tables buildRegion fills between two
+// looks at its context: a few milliseconds of work at most.
+const regionChunk = 1 << 15
+
+// buildRegion scans the rows: fill(x1, from, part) must set part[j] for
+// every j to whether table (x1, from + j) belongs to the region. It fills
+// each row in parts of regionChunk tables and stops early, with an
+// incomplete region, when ctx ends (callers check ctx.Err()).
+func buildRegion(ctx context.Context, n1, n2 int, fill func(x1, from int, part []bool)) region {
 	r := region{n1: n1, n2: n2, rowStart: make([]int32, n1+2)}
 	row := make([]bool, n2+1)
 	for x1 := 0; x1 <= n1; x1++ {
 		r.rowStart[x1] = int32(len(r.runs))
-		fill(x1, row)
+		for from := 0; from <= n2; from += regionChunk {
+			if ctx.Err() != nil {
+				for k := x1 + 1; k <= n1+1; k++ {
+					r.rowStart[k] = int32(len(r.runs))
+				}
+				return r
+			}
+			fill(x1, from, row[from:min(from+regionChunk, n2+1)])
+		}
 		for x2 := 0; x2 <= n2; {
 			if !row[x2] {
 				x2++

@@ -1,6 +1,9 @@
 package proportions
 
-import "math"
+import (
+	"context"
+	"math"
+)
 
 // Ordering statistics of the unconditional tests and the regions they
 // define.
@@ -122,6 +125,12 @@ func zInRegion(z, zobs float64, side regionSide) bool {
 // Wald) for the counts and null difference delta; it returns the region
 // and the observed statistic.
 func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, float64) {
+	return zRegionContext(context.Background(), c, delta, pooled, side)
+}
+
+// zRegionContext is zRegion stopping early when ctx ends (the region is
+// then incomplete; callers check ctx.Err()).
+func zRegionContext(ctx context.Context, c Counts, delta float64, pooled bool, side regionSide) (region, float64) {
 	n1, n2 := float64(c.N1), float64(c.N2)
 	stat := exactWaldZ
 	if pooled {
@@ -129,11 +138,11 @@ func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, flo
 	}
 	zobs := stat(float64(c.X1), n1, float64(c.X2), n2, delta)
 	if pooled && delta == 0 {
-		return pooledRegion(c, zobs, side), zobs
+		return pooledRegion(ctx, c, zobs, side), zobs
 	}
-	reg := buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
-		for x2 := range row {
-			row[x2] = zInRegion(stat(float64(x1), n1, float64(x2), n2, delta), zobs, side)
+	reg := buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
+		for j := range part {
+			part[j] = zInRegion(stat(float64(x1), n1, float64(from+j), n2, delta), zobs, side)
 		}
 	})
 	return reg, zobs
@@ -144,7 +153,7 @@ func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, flo
 // d = p1 − p2 and V the pooled variance, z = d/√V, so each comparison
 // z ≥ t becomes a comparison of d² with t²·V and the signs (V = 0 only
 // when d = 0 here, where z := 0).
-func pooledRegion(c Counts, zobs float64, side regionSide) region {
+func pooledRegion(ctx context.Context, c Counts, zobs float64, side regionSide) region {
 	n1, n2 := float64(c.N1), float64(c.N2)
 	inv, invN, invN2 := 1/n1+1/n2, 1/(n1+n2), 1/n2
 	slack := statTieTolerance * math.Abs(zobs)
@@ -156,9 +165,10 @@ func pooledRegion(c Counts, zobs float64, side regionSide) region {
 		t = math.Abs(zobs) - slack // two-sided: |z| ≥ t
 	}
 	t2 := t * t
-	return buildRegion(int(c.N1), int(c.N2), func(x1 int, row []bool) {
+	return buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
 		p1 := float64(x1) / n1
-		for x2 := range row {
+		for j := range part {
+			x2 := from + j
 			pool := (float64(x1) + float64(x2)) * invN
 			v := pool * (1 - pool) * inv
 			d := p1 - float64(x2)*invN2
@@ -169,11 +179,11 @@ func pooledRegion(c Counts, zobs float64, side regionSide) region {
 			near := d*d <= t2*v
 			switch side {
 			case sideGreater:
-				row[x2] = (t <= 0 && (d >= 0 || near)) || (t > 0 && d > 0 && far)
+				part[j] = (t <= 0 && (d >= 0 || near)) || (t > 0 && d > 0 && far)
 			case sideLess:
-				row[x2] = (t >= 0 && (d <= 0 || near)) || (t < 0 && d < 0 && far)
+				part[j] = (t >= 0 && (d <= 0 || near)) || (t < 0 && d < 0 && far)
 			default:
-				row[x2] = t <= 0 || (d != 0 && far)
+				part[j] = t <= 0 || (d != 0 && far)
 			}
 		}
 	})

@@ -1,6 +1,8 @@
 package proportions
 
 import (
+	"context"
+	"fmt"
 	"math"
 
 	"github.com/propscope/propscope/internal/special"
@@ -36,6 +38,10 @@ const supCandidateShare = 0.2
 // relative, because the tail is flat at a maximum.
 const supTolerance = 1e-9
 
+// linearFloor is the smallest supremum the linear-scale search reports;
+// below it the search is repeated in log space.
+const linearFloor = 1e-280
+
 // nuisanceSearch evaluates a region's tail probability along the null line
 // π1 = π2 + delta for π2 in [a, b].
 type nuisanceSearch struct {
@@ -56,6 +62,13 @@ type nuisanceSearch struct {
 	// where that half is most probable.
 	low      *region
 	lowDelta float64
+	// ctx, when set, is looked at before every evaluation; guard, when set,
+	// bounds the cost of the log-space search. The first error (ctx's, or
+	// the guard's wrapping ErrTooLarge) is kept in err, after which every
+	// evaluation returns 0 at once and the search winds down.
+	ctx   context.Context
+	guard Cost
+	err   error
 }
 
 func (s *nuisanceSearch) pi2(theta float64) float64 {
@@ -64,6 +77,14 @@ func (s *nuisanceSearch) pi2(theta float64) float64 {
 }
 
 func (s *nuisanceSearch) at(theta float64) float64 {
+	if s.err != nil {
+		return 0
+	}
+	if s.ctx != nil {
+		if s.err = s.ctx.Err(); s.err != nil {
+			return 0
+		}
+	}
 	p2 := s.pi2(theta)
 	p1 := min(max(p2+s.delta, 0), 1)
 	if s.logScale {
@@ -73,7 +94,12 @@ func (s *nuisanceSearch) at(theta float64) float64 {
 		}
 		return v
 	}
-	cutoff := 1e-13 * s.best / float64(s.reg.n1+s.reg.n2+2)
+	// The cutoff is relative to the largest value seen, but never below
+	// what a result of linearFloor needs: smaller values are redone in log
+	// space anyway, and a cutoff of 0 would let the binomial windows run on
+	// through subnormal numbers (whose products round back to themselves),
+	// a third of the range at slow subnormal speed.
+	cutoff := 1e-13 * max(s.best, linearFloor) / float64(s.reg.n1+s.reg.n2+2)
 	v := s.work.prob(s.reg, p1, p2, cutoff)
 	if s.low != nil {
 		v += s.work.prob(s.low, min(max(p2+s.lowDelta, 0), 1), p2, cutoff)
@@ -95,8 +121,14 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 		s.thetaMax = math.Pi / 4
 	}
 	v, p := s.search()
-	if v >= 1e-280 {
+	if v >= linearFloor || s.err != nil {
 		return math.Log(min(v, 1)), p
+	}
+	if s.guard != (Cost{}) {
+		c := unconditionalLogCost(s.reg.n1, s.reg.n2, s.reg.tables)
+		if s.err = c.guard(fmt.Sprintf("the log-space search for a tail probability below 1e-280 at %d and %d trials", s.reg.n1, s.reg.n2), s.guard); s.err != nil {
+			return 0, p
+		}
 	}
 	s.logScale = true
 	return s.search()
@@ -123,6 +155,13 @@ func (s *nuisanceSearch) search() (value, pi2 float64) {
 		}
 	}
 	value, theta := vals[top], float64(top)*step
+	if !s.logScale && value < linearFloor {
+		// The largest grid value is below what linear scale resolves:
+		// supremum repeats the search in log space, so refining here would
+		// be wasted (and on a plateau of underflowed values every grid
+		// point would pass the test below and cost a Brent search).
+		return value, s.pi2(theta)
+	}
 	floor := supCandidateShare * vals[top]
 	if s.logScale {
 		floor = vals[top] + math.Log(supCandidateShare)

@@ -27,6 +27,49 @@ func (d Decision) Rejects(c proportions.Counts) bool {
 	return len(d.Hypotheses) > 0
 }
 
+// RejectsContext is Rejects with cancellation: a costly test (one with a
+// RunContext) looks at ctx inside its own work and its error is returned,
+// ctx's when ctx ends and one wrapping proportions.ErrTooLarge when the
+// test refuses the outcome; a cheap test runs through Run.
+func (d Decision) RejectsContext(ctx context.Context, c proportions.Counts) (bool, error) {
+	if d.Test.RunContext == nil {
+		return d.Rejects(c), nil
+	}
+	for _, h := range d.Hypotheses {
+		r, err := d.Test.RunContext(ctx, c, h)
+		if err != nil {
+			return false, err
+		}
+		if !r.Reject {
+			return false, nil
+		}
+	}
+	return len(d.Hypotheses) > 0, nil
+}
+
+// rejectsRow runs the decision on the outcomes (x1, x2), x2 = lo..hi, and
+// calls f(x2, rejects) for each; it looks at ctx before every outcome of a
+// costly test and every ctxStride outcomes of a cheap one, so a cancel is
+// seen inside the row.
+func (d Decision) rejectsRow(ctx context.Context, x1, n1, n2, lo, hi int, f func(x2 int, rejects bool)) error {
+	c := proportions.Counts{X1: int64(x1), N1: int64(n1), N2: int64(n2)}
+	costly := d.Test.RunContext != nil
+	for x2 := lo; x2 <= hi; x2++ {
+		if costly || (x2-lo)%ctxStride == 0 {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+		}
+		c.X2 = int64(x2)
+		r, err := d.RejectsContext(ctx, c)
+		if err != nil {
+			return err
+		}
+		f(x2, r)
+	}
+	return nil
+}
+
 // Validate checks that the decision can be run.
 func (d Decision) Validate() error {
 	if d.Test.Run == nil {
@@ -94,16 +137,14 @@ func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64
 		workers = 1
 	}
 	err := parallel(ctx, workers, rows, func(i int) error {
-		c := proportions.Counts{X1: int64(b1.lo + i), N1: int64(n1), N2: int64(n2)}
 		var s float64
-		for x2 := b2.lo; x2 <= b2.hi; x2++ {
-			c.X2 = int64(x2)
-			if d.Rejects(c) {
+		err := d.rejectsRow(ctx, b1.lo+i, n1, n2, b2.lo, b2.hi, func(x2 int, rejects bool) {
+			if rejects {
 				s += b2.p[x2]
 			}
-		}
+		})
 		sums[i] = s
-		return nil
+		return err
 	})
 	if err != nil {
 		return 0, err
@@ -146,12 +187,9 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 	rowRuns := make([][]int32, n1+1)
 	rep := newReporter(cfg.progress, n1+1)
 	err := parallel(ctx, cfg.workers, n1+1, func(x1 int) error {
-		c := proportions.Counts{X1: int64(x1), N1: int64(n1), N2: int64(n2)}
 		var runs []int32
 		inRun := false
-		for x2 := 0; x2 <= n2; x2++ {
-			c.X2 = int64(x2)
-			r := d.Rejects(c)
+		err := d.rejectsRow(ctx, x1, n1, n2, 0, n2, func(x2 int, r bool) {
 			switch {
 			case r && !inRun:
 				runs = append(runs, int32(x2))
@@ -159,6 +197,9 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 				runs = append(runs, int32(x2))
 			}
 			inRun = r
+		})
+		if err != nil {
+			return err
 		}
 		if inRun {
 			runs = append(runs, int32(n2+1))

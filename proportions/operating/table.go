@@ -78,7 +78,7 @@ func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Desig
 		half = d.N1 / 2
 	}
 	err = parallel(ctx, cfg.workers, half+1, func(x1 int) error {
-		return t.computeRow(x1, sym)
+		return t.computeRow(ctx, x1, sym)
 	})
 	if err != nil {
 		return nil, err
@@ -168,14 +168,31 @@ func (t *OutcomeLimits) computedRange(x1 int, sym symmetry) (lo, hi int) {
 }
 
 // computeRow calls the method for the computed range of row x1 and checks
-// the limits.
-func (t *OutcomeLimits) computeRow(x1 int, sym symmetry) error {
+// the limits. It looks at ctx inside the row, before every outcome of a
+// costly method (which also looks at ctx inside its own work, through
+// LimitsContext) and every ctxStride outcomes of a cheap one, so a cancel
+// is seen within milliseconds however long the row.
+func (t *OutcomeLimits) computeRow(ctx context.Context, x1 int, sym symmetry) error {
 	c := proportions.Counts{X1: int64(x1), N1: int64(t.n1), N2: int64(t.n2)}
 	base := x1 * t.stride
 	lo, hi := t.computedRange(x1, sym)
+	costly := t.method.LimitsContext != nil
 	for x2 := lo; x2 <= hi; x2++ {
 		c.X2 = int64(x2)
-		l, u := t.method.Limits(c, t.conf)
+		if costly || (x2-lo)%ctxStride == 0 {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+		}
+		var l, u float64
+		if costly {
+			var err error
+			if l, u, err = t.method.LimitsContext(ctx, c, t.conf); err != nil {
+				return err
+			}
+		} else {
+			l, u = t.method.Limits(c, t.conf)
+		}
 		if !(l <= u) { // also catches NaN
 			return fmt.Errorf("interval method %q gave limits (%v, %v) at %d/%d vs %d/%d; the engine needs numbers with lower ≤ upper",
 				t.method.Key, l, u, x1, t.n1, x2, t.n2)
@@ -292,6 +309,10 @@ func logWidth(lo, hi float64) float64 {
 	}
 	return math.Log(hi) - math.Log(lo)
 }
+
+// ctxStride is how many outcomes of a cheap method (microseconds each) a
+// row computes between two looks at the context.
+const ctxStride = 256
 
 // parallel runs job(i) for i in [0, n) on the given number of workers
 // (GOMAXPROCS when 0), stopping at the first error or when ctx ends.

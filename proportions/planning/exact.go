@@ -3,6 +3,7 @@ package planning
 import (
 	"context"
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
@@ -58,6 +59,10 @@ func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 in
 	}
 	asym, err := Power(d, n1, n2)
 	if err != nil {
+		return ExactPowerResult{}, err
+	}
+	if err := guardSearch(fmt.Sprintf("the exact power of %s at n1 = %d, n2 = %d", m.Name, n1, n2),
+		exactPowerCost(d, m, dc.Hypotheses, n1, n2), "use the asymptotic Power, a faster test or smaller groups"); err != nil {
 		return ExactPowerResult{}, err
 	}
 	p, err := exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
@@ -161,6 +166,9 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
+	if err := guardScan(d, m, dc.Hypotheses, s, asym.N1); err != nil {
+		return ExactSampleSizeResult{}, err
+	}
 	power := func(ctx context.Context, n1, n2 int64) (float64, error) {
 		if err := checkSizes(n1, n2); err != nil {
 			return 0, err
@@ -184,6 +192,32 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	}
 	res.Notes = append(testNotes(m), searchNotes(res)...)
 	return res, nil
+}
+
+// guardScan estimates the exact sample-size search before it starts, from
+// Search.From (default 1) to where it is expected to end: the default
+// horizon past the normal approximation's n1, or Search.Horizon when set.
+// Above ExactSearchCost it is refused, with the cost of a scan started
+// near the approximation as the way out.
+func guardScan(d Plan, m proportions.TestMethod, h []proportions.Hypothesis, s Search, asymN1 int64) error {
+	maxN := s.maxN1(d)
+	from := max(s.From, 1)
+	end := max(asymN1+10, int64(math.Ceil(1.25*float64(asymN1))))
+	if s.Horizon > 0 {
+		end = max(s.Horizon, asymN1)
+	}
+	end = max(min(end, maxN), from)
+	cost := scanCost(d, m, h, from, end)
+	if cost.Within(ExactSearchCost) {
+		return nil
+	}
+	near := max(int64(0.8*float64(asymN1)), 1)
+	hint := fmt.Sprintf("the normal approximation needs n1 = %d; ", asymN1)
+	if near > from {
+		hint += fmt.Sprintf("a scan from Search.From = %d would need %v; ", near, scanCost(d, m, h, near, end))
+	}
+	hint += "or use the asymptotic SampleSize or a faster test"
+	return guardSearch(fmt.Sprintf("the exact sample-size search with %s from n1 = %d to about %d", m.Name, from, end), cost, hint)
 }
 
 // sizeAt picks the curve point at n1, with its enrolment (an error
@@ -233,6 +267,15 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 		return PowerCurve{}, err
 	}
 	grid.Basis = "exact power of " + m.Name
+	var cost proportions.Cost
+	for _, p := range grid.Points {
+		c := exactPowerCost(d, m, dc.Hypotheses, p.N1, p.N2)
+		cost = proportions.Cost{Steps: cost.Steps + c.Steps, Bytes: max(cost.Bytes, c.Bytes)}
+	}
+	if err := guardSearch(fmt.Sprintf("the exact power of %s at %d sizes from n1 = %d to %d", m.Name, len(grid.Points), n1From, n1To),
+		cost, "use the asymptotic PowerByTrials, a faster test or a narrower range"); err != nil {
+		return PowerCurve{}, err
+	}
 	for i, p := range grid.Points {
 		if err := checkSizes(p.N1, p.N2); err != nil {
 			return PowerCurve{}, err

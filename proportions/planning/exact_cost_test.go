@@ -1,0 +1,77 @@
+package planning
+
+import (
+	"context"
+	"errors"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// The reproducers: an exact sample size whose asymptotic n1 is
+// about 1565 scanned from n1 = 1 (weeks by the measured growth), and the
+// exact power of Boschloo's test at 500/500 took 89 s. Both are refused
+// before they start, with an error wrapping ErrTooLarge that says what
+// they would need and how to narrow the search.
+func TestExactSearchesRefusedBeforeTheyStart(t *testing.T) {
+	d := NewPlan(Equality, 0.30, 0.35)
+	asym, err := SampleSize(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if asym.N1 < 1000 {
+		t.Fatalf("the plan should need over 1000 per group, the approximation says %d", asym.N1)
+	}
+	_, err = ExactSampleSize(context.Background(), d, proportions.BoschlooTest, Search{})
+	if !errors.Is(err, proportions.ErrTooLarge) || !strings.Contains(err.Error(), "would need about") || !strings.Contains(err.Error(), "Search.From") {
+		t.Errorf("exact sample size from 1 with Boschloo at n1 ≈ %d: got %v, want ErrTooLarge with the cost and a narrower search", asym.N1, err)
+	}
+	_, err = ExactPower(context.Background(), NewPlan(Equality, 0.30, 0.35), proportions.BoschlooTest, 500, 500)
+	if !errors.Is(err, proportions.ErrTooLarge) {
+		t.Errorf("exact power of Boschloo at 500/500: got %v, want ErrTooLarge", err)
+	}
+	// A cheap test at the same plan stays within the guard: the estimate
+	// depends on the test, not only on the sizes.
+	if c := scanCost(d, proportions.FarringtonManningTest, nil, 1, 10); !c.Within(ExactSearchCost) {
+		t.Errorf("a short scan of the score test is estimated at %v", c)
+	}
+}
+
+// ExactSampleSize returns within 100 ms of a cancel, the best of three
+// attempts (several times that under the race detector).
+func TestExactSampleSizeCancel(t *testing.T) {
+	d := NewPlan(Equality, 0.30, 0.37)
+	bound := 100 * time.Millisecond * raceSlowdown
+	best := time.Hour
+	for range 3 {
+		ctx, cancel := context.WithCancel(context.Background())
+		done := make(chan error, 1)
+		go func() {
+			_, err := ExactSampleSize(ctx, d, proportions.FarringtonManningTest, Search{})
+			done <- err
+		}()
+		select {
+		case err := <-done:
+			cancel()
+			t.Fatalf("returned before the cancel with %v: the search is too short to test cancellation", err)
+		case <-time.After(100 * time.Millisecond):
+		}
+		cancel()
+		at := time.Now()
+		err := <-done
+		took := time.Since(at)
+		if !errors.Is(err, context.Canceled) {
+			t.Fatalf("got %v, want context.Canceled", err)
+		}
+		best = min(best, took)
+		if best <= bound {
+			break
+		}
+	}
+	t.Logf("returned %v after the cancel", best)
+	if best > bound {
+		t.Errorf("returned %v after the cancel, want within %v", best, bound)
+	}
+}
