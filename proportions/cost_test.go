@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/propscope/propscope/internal/canceltest"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -85,27 +86,6 @@ func TestAnalyzeSkipsCostlyTest(t *testing.T) {
 	}
 }
 
-// cancelReturn starts run, cancels its context after delay and returns the
-// time from the cancel to run's return, and run's error. It fails the test
-// when run returns before the cancel (the call was not long enough to test
-// anything).
-func cancelReturn(t *testing.T, delay time.Duration, run func(ctx context.Context) error) (time.Duration, error) {
-	t.Helper()
-	ctx, cancel := context.WithCancel(context.Background())
-	defer cancel()
-	done := make(chan error, 1)
-	go func() { done <- run(ctx) }()
-	select {
-	case err := <-done:
-		t.Fatalf("returned before the cancel (after less than %v), with %v: the call is too short to test cancellation", delay, err)
-	case <-time.After(delay):
-	}
-	cancel()
-	at := time.Now()
-	err := <-done
-	return time.Since(at), err
-}
-
 // AnalyzeContext with every method on a table whose exact tests take
 // seconds returns within 100 ms of a cancel (the bound; several
 // times that under the race detector). The best of three attempts counts,
@@ -115,23 +95,8 @@ func TestAnalyzeContextCancel(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	bound := 100 * time.Millisecond * raceSlowdown
-	best := time.Hour
-	for range 3 {
-		took, err := cancelReturn(t, 30*time.Millisecond, func(ctx context.Context) error {
-			_, err := proportions.AnalyzeContext(ctx, cmp, proportions.WithNull(0.02), proportions.WithScope(proportions.ScopeAll))
-			return err
-		})
-		if !errors.Is(err, context.Canceled) {
-			t.Fatalf("got %v, want context.Canceled", err)
-		}
-		best = min(best, took)
-		if best <= bound {
-			break
-		}
-	}
-	t.Logf("returned %v after the cancel", best)
-	if best > bound {
-		t.Errorf("returned %v after the cancel, want within %v", best, bound)
-	}
+	canceltest.Check(t, 30*time.Millisecond, func(ctx context.Context) error {
+		_, err := proportions.AnalyzeContext(ctx, cmp, proportions.WithNull(0.02), proportions.WithScope(proportions.ScopeAll))
+		return err
+	})
 }

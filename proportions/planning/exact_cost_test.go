@@ -7,6 +7,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/propscope/propscope/internal/canceltest"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -43,35 +44,8 @@ func TestExactSearchesRefusedBeforeTheyStart(t *testing.T) {
 // attempts (several times that under the race detector).
 func TestExactSampleSizeCancel(t *testing.T) {
 	d := NewPlan(Equality, 0.30, 0.37)
-	bound := 100 * time.Millisecond * raceSlowdown
-	best := time.Hour
-	for range 3 {
-		ctx, cancel := context.WithCancel(context.Background())
-		done := make(chan error, 1)
-		go func() {
-			_, err := ExactSampleSize(ctx, d, proportions.FarringtonManningTest, Search{})
-			done <- err
-		}()
-		select {
-		case err := <-done:
-			cancel()
-			t.Fatalf("returned before the cancel with %v: the search is too short to test cancellation", err)
-		case <-time.After(100 * time.Millisecond):
-		}
-		cancel()
-		at := time.Now()
-		err := <-done
-		took := time.Since(at)
-		if !errors.Is(err, context.Canceled) {
-			t.Fatalf("got %v, want context.Canceled", err)
-		}
-		best = min(best, took)
-		if best <= bound {
-			break
-		}
-	}
-	t.Logf("returned %v after the cancel", best)
-	if best > bound {
-		t.Errorf("returned %v after the cancel, want within %v", best, bound)
-	}
+	canceltest.Check(t, 100*time.Millisecond, func(ctx context.Context) error {
+		_, err := ExactSampleSize(ctx, d, proportions.FarringtonManningTest, Search{})
+		return err
+	})
 }

@@ -1,7 +1,0 @@
-//go:build !race
-
-package proportions_test
-
-// raceSlowdown scales the bound of the cancellation tests (1 without the
-// race detector).
-const raceSlowdown = 1

@@ -1,7 +1,0 @@
-//go:build race
-
-package proportions_test
-
-// raceSlowdown scales the bound of the cancellation tests: the race
-// detector makes the code several times slower.
-const raceSlowdown = 5
