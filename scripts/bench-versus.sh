@@ -10,9 +10,11 @@
 # machine (a third from one minute to the next) falls on both alike. The
 # table gives, per case, the median ns/op of each side, the median and the
 # range of the per-round ratios new/old, and the allocations per op of each
-# side; the last lines give the worst ratio, the count of cases slower by
-# more than 5 % (median ratio above 1.05) and the cases found on one side
-# only. Not part of `make test`.
+# side, and the ratio of the fastest rounds (new/old; the least disturbed
+# runs, a second opinion on a loaded machine); the last lines give the
+# geometric mean of the median ratios, the worst ratio, the count of cases
+# slower by more than 5 % (median ratio above 1.05) and the cases found on
+# one side only. Not part of `make test`.
 #
 #   scripts/bench-versus.sh OLD_DIR [ROUNDS] [BENCHTIME]
 #
@@ -49,6 +51,12 @@
 #               'Previous|/previous$|/old-|/gonum-' leaves out the yardsticks
 #               (previous implementations kept in the tests, and gonum), a
 #               quarter of the cases
+#   BENCH_CASES a file of case names (new names, as in the table's first
+#               column), one a line: exactly those cases are run
+#   SLOWER      a file to write the names of the cases slower by more than
+#               5 % to, ready for BENCH_CASES:
+#                 SLOWER=slow.txt scripts/bench-versus.sh ../old
+#                 BENCH_CASES=slow.txt scripts/bench-versus.sh ../old 15
 #   BENCH_MAP   a file of extra rename rules (same format as below)
 #   NEW_DIR     the new tree (default: the tree holding this script)
 #   RAW         a file to keep the raw per-round records in
@@ -128,25 +136,53 @@ if [[ -n "${BENCH_MAP:-}" ]]; then
 	cat "$BENCH_MAP" >>"$work/map"
 fi
 
-# The old binaries' pattern: each slash-separated part of BENCH that is a new
-# name (bare or anchored) goes back to its old name.
-if [[ -n "${BENCH_OLD:-}" ]]; then
-	bench_old="$BENCH_OLD"
-else
-	bench_old="$(awk -v pat="$bench" '
+# exact(NAME): the pattern that selects one case, its name anchored part by
+# part.
+awk_exact='
+function exact(name,   n, seg, i, j, c, out, e) {
+	n = split(name, seg, "/")
+	for (i = 1; i <= n; i++) {
+		e = ""
+		for (j = 1; j <= length(seg[i]); j++) {
+			c = substr(seg[i], j, 1)
+			e = e (index("\\.^$*+?()[]{}|", c) ? "\\" : "") c
+		}
+		out = out (i > 1 ? "/" : "") "^" e "$"
+	}
+	return out
+}'
+
+# BENCH_CASES: the listed cases and nothing under them.
+if [[ -n "${BENCH_CASES:-}" ]]; then
+	[[ -r "$BENCH_CASES" ]] || { echo "bench-versus: BENCH_CASES=$BENCH_CASES cannot be read" >&2; exit 2; }
+	bench="$(awk "$awk_exact"'NF { out = out (out == "" ? "" : "|") exact($1) } END { print out }' "$BENCH_CASES")"
+	below="$(awk "$awk_exact"'NF { out = out (out == "" ? "" : "|") exact($1) "/." } END { print out }' "$BENCH_CASES")"
+	[[ -n "$bench" ]] || { echo "bench-versus: BENCH_CASES=$BENCH_CASES names no case" >&2; exit 2; }
+	skip="${below}${skip:+|$skip}"
+fi
+
+# to_old PATTERN: the pattern with each part (between / and |) that is a new
+# name, bare or anchored, put back to its old name.
+to_old() {
+	awk -v pat="$1" '
 		$1 == "key" || ($1 == "func" && $2 !~ /\*$/) { back[$3] = $2 }
 		END {
-			n = split(pat, part, "/")
-			for (i = 1; i <= n; i++) {
-				p = part[i]; pre = ""; post = ""
+			rest = pat
+			while (rest != "") {
+				if (match(rest, /[\/|]/)) { p = substr(rest, 1, RSTART - 1); sep = substr(rest, RSTART, 1); rest = substr(rest, RSTART + 1) }
+				else { p = rest; sep = ""; rest = "" }
+				pre = ""; post = ""
 				if (substr(p, 1, 1) == "^") { pre = "^"; p = substr(p, 2) }
-				if (substr(p, length(p), 1) == "$") { post = "$"; p = substr(p, 1, length(p) - 1) }
+				if (p != "" && substr(p, length(p), 1) == "$") { post = "$"; p = substr(p, 1, length(p) - 1) }
 				if (p in back) p = back[p]
-				out = out (i > 1 ? "/" : "") pre p post
+				out = out pre p post sep
 			}
 			print out
-		}' <(grep -v '^[[:space:]]*\(#\|$\)' "$work/map"))"
-fi
+		}' <(grep -v '^[[:space:]]*\(#\|$\)' "$work/map")
+}
+bench_old="${BENCH_OLD:-$(to_old "$bench")}"
+skip_old=""
+[[ -z "$skip" ]] || skip_old="$(to_old "$skip")"
 
 # old package → new package; the old one falls back to the new path.
 old_pkgs=(proportions proportions/exact proportions/planning notebookui)
@@ -212,11 +248,11 @@ failed() {
 echo "listing the cases (one iteration each)" >&2
 for side in old new; do
 	: >"$work/cases.$side"
-	if [[ "$side" == old ]]; then pat="$bench_old"; else pat="$bench"; fi
+	if [[ "$side" == old ]]; then pat="$bench_old" skp="$skip_old"; else pat="$bench" skp="$skip"; fi
 	for i in "${!new_pkgs[@]}"; do
 		[[ -x "$work/$side.$i.test" ]] || continue
 		out="$work/list.$side.$i"
-		runbin "$side" "$i" "$pat" "$skip" 1x "$out" || failed "listing the $side ${new_pkgs[$i]} benchmarks" "$out"
+		runbin "$side" "$i" "$pat" "$skp" 1x "$out" || failed "listing the $side ${new_pkgs[$i]} benchmarks" "$out"
 		parse "$out" | awk -v i="$i" '{ print i, $1 }' >>"$work/cases.$side"
 	done
 done
@@ -226,19 +262,7 @@ done
 # is the name anchored part by part; the label is the new name, prefixed by
 # the package when the name occurs in more than one package of a side. The
 # cases of one side only go to "$work/unpaired".
-awk -v pkgs="${new_pkgs[*]}" -v unpaired="$work/unpaired" '
-function exact(name,   n, seg, i, j, c, out, e) {
-	n = split(name, seg, "/")
-	for (i = 1; i <= n; i++) {
-		e = ""
-		for (j = 1; j <= length(seg[i]); j++) {
-			c = substr(seg[i], j, 1)
-			e = e (index("\\.^$*+?()[]{}|", c) ? "\\" : "") c
-		}
-		out = out (i > 1 ? "/" : "") "^" e "$"
-	}
-	return out
-}
+awk -v pkgs="${new_pkgs[*]}" -v unpaired="$work/unpaired" "$awk_exact"'
 function rename(name,   n, seg, i, out, f, p) {
 	n = split(name, seg, "/")
 	f = seg[1]
@@ -310,14 +334,24 @@ for ((r = 1; r <= rounds; r++)); do
 done
 
 echo "old: $old_dir ($(git -C "$old_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))   new: $new_dir ($(git -C "$new_dir" rev-parse --short HEAD 2>/dev/null || echo '?'))"
-echo "$rounds rounds, -test.benchtime $benchtime, GOMAXPROCS $procs, BENCH ${bench}${skip:+, BENCH_SKIP $skip}"
+if [[ -n "${BENCH_CASES:-}" ]]; then
+	echo "$rounds rounds, -test.benchtime $benchtime, GOMAXPROCS $procs, the cases named in $BENCH_CASES${BENCH_SKIP:+, BENCH_SKIP $BENCH_SKIP}"
+else
+	echo "$rounds rounds, -test.benchtime $benchtime, GOMAXPROCS $procs, BENCH ${bench}${skip:+, BENCH_SKIP $skip}"
+fi
 echo
 
-awk -v pkgs="${new_pkgs[*]}" '
+[[ -z "${SLOWER:-}" ]] || : >"$SLOWER"
+awk -v pkgs="${new_pkgs[*]}" -v slowfile="${SLOWER:-}" '
 function median(list,   n, a, i, j, t) {
 	n = split(list, a, " ")
 	for (i = 2; i <= n; i++) { t = a[i] + 0; for (j = i - 1; j >= 1 && a[j] + 0 > t; j--) a[j + 1] = a[j]; a[j + 1] = t }
 	return n % 2 ? a[(n + 1) / 2] : (a[n / 2] + a[n / 2 + 1]) / 2
+}
+function fastest(list,   n, a, i, m) {
+	n = split(list, a, " ")
+	for (i = 1; i <= n; i++) if (i == 1 || a[i] + 0 < m) m = a[i] + 0
+	return m
 }
 function fmtns(x) { return x < 100 ? sprintf("%.2f", x) : x < 10000 ? sprintf("%.1f", x) : sprintf("%.0f", x) }
 BEGIN { FS = "\t"; npkg = split(pkgs, pkg, " ") }
@@ -340,7 +374,7 @@ file == 2 {
 { unpaired = unpaired $0 "\n" }
 END {
 	if (w < 20) w = 20
-	printf "%-" w "s %13s %13s %8s %13s %10s %10s\n", "benchmark (new name)", "old ns/op", "new ns/op", "new/old", "range", "allocs old", "allocs new"
+	printf "%-" w "s %13s %13s %8s %13s %8s %10s %10s\n", "benchmark (new name)", "old ns/op", "new ns/op", "new/old", "range", "fastest", "allocs old", "allocs new"
 	for (pi = 1; pi <= npkg; pi++) {
 		header = 0
 		for (i = 1; i <= cases; i++) {
@@ -355,12 +389,14 @@ END {
 			}
 			if (ratios == "") { missing = missing "\n  " k; continue }
 			if (!header) { printf "-- %s\n", pkg[pi]; header = 1 }
-			m = median(ratios); compared++
+			m = median(ratios); compared++; logsum += log(m)
+			if (m < 1 / 1.05) faster++
 			flag = ""
-			if (m > 1.05) { slower++; flag = "  SLOWER"; slowlist = slowlist "\n  " k sprintf(" (%.3f)", m) }
+			if (m > 1.05) { slower++; flag = "  SLOWER"; slowlist = slowlist "\n  " k sprintf(" (%.3f)", m); if (slowfile != "") print k >slowfile }
 			if (m > worst) { worst = m; worstname = k }
 			if (oldpkg[k] != newpkg[k]) moved[oldpkg[k] " → " newpkg[k]]++
-			printf "%-" w "s %13s %13s %8.3f %6.3f..%-5.3f %10s %10s%s\n", k, fmtns(median(times["old", k])), fmtns(median(times["new", k])), m, lo, hi,
+			printf "%-" w "s %13s %13s %8.3f %6.3f..%-5.3f %8.3f %10s %10s%s\n", k, fmtns(median(times["old", k])), fmtns(median(times["new", k])), m, lo, hi,
+				fastest(times["new", k]) / fastest(times["old", k]),
 				allocs["old", k] == "" ? "-" : median(allocs["old", k]), allocs["new", k] == "" ? "-" : median(allocs["new", k]), flag
 		}
 	}
@@ -370,6 +406,7 @@ END {
 	printf "%s", unpaired
 	if (missing != "") printf "paired but without a result on both sides in any round:%s\n", missing
 	if (slower) printf "slower by more than 5%%:%s\n", slowlist
+	if (compared) printf "geometric mean of the median ratios: %.3f; %d cases faster by more than 5%% (new/old below 1/1.05)\n", exp(logsum / compared), faster
 	if (compared) printf "worst new/old: %.3f (%s); %d of %d cases slower by more than 5%%\n", worst, worstname, slower, compared
 	else print "worst new/old: none (no case ran on both sides)"
 }' "$work/pairs" "$raw" "$work/unpaired"
