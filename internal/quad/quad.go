@@ -117,3 +117,8 @@ func Integrate(f func(float64) float64, a, b float64, breaks []float64, absTol, 
 		ps = append(ps, panel{m, p.b, v2, e2})
 	}
 }
+
+// Nodes returns copies of the 10- and 20-point Gauss–Legendre nodes and
+// weights on [−1, 1] that Integrate uses, for callers that lay out a fixed
+// composite rule once and reuse it for many integrands.
+func Nodes() (n10, c10 [10]float64, n20, c20 [20]float64) { return x10, w10, x20, w20 }

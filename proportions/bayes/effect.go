@@ -26,6 +26,7 @@ type Effect struct {
 	outerFirst   bool
 	lo, hi, tail float64 // the outer posterior's log-odds window and its truncation bound
 	innerMax     float64 // the inner density's maximum (+Inf for a shape below 1)
+	rule         fixedRule
 }
 
 // NewEffect returns the posterior of the effect on the scale (Difference,
@@ -41,6 +42,7 @@ func NewEffect(scale proportions.Scale, first, second Posterior) (*Effect, error
 	out, in := e.outer()
 	e.lo, e.hi, e.tail = out.window()
 	e.innerMax = in.maxDensity()
+	e.rule = newFixedRule(out, e.lo, e.hi)
 	return e, nil
 }
 
@@ -122,28 +124,9 @@ func (e *Effect) Tails(v float64) (below, above, err float64) {
 		}
 		return 1, 0, 0
 	}
-	out, in := e.outer()
-	var bb [4]float64
-	br := e.breaks(v, bb[:0])
-	integrate := func(upper bool) quad.Result {
-		return quad.Integrate(func(t float64) float64 {
-			o, oc := logistic(t)
-			l, _ := out.ell(t)
-			z, zc, _ := e.threshold(o, oc, v)
-			// with the second group outer, "below" is π1 ≤ z; with the
-			// first outer it is π2 ≥ z
-			var g float64
-			if upper != e.outerFirst {
-				g = in.above(zc)
-			} else {
-				g = in.Below(z)
-			}
-			return math.Exp(l) * g
-		}, e.lo, e.hi, br, absTol, relTol)
-	}
-	rb, ra := integrate(false), integrate(true)
-	err = math.Max(rb.Err, ra.Err) + e.tail
-	return clamp01(rb.Value), clamp01(ra.Value), err
+	pb, eb := e.tailIntegral(v, false)
+	pa, ea := e.tailIntegral(v, true)
+	return pb, pa, math.Max(eb, ea)
 }
 
 // tail returns P(E > v) when upper, P(E ≤ v) otherwise, with its error
@@ -156,19 +139,32 @@ func (e *Effect) tail1(v float64, upper bool) (p, err float64) {
 		}
 		return b, 0
 	}
+	return e.tailIntegral(v, upper)
+}
+
+// tailIntegral returns P(E > v) when upper, P(E ≤ v) otherwise, for v
+// inside the support: on the fixed rule when its error estimate is within
+// the tolerances, by adaptive quadrature otherwise.
+func (e *Effect) tailIntegral(v float64, upper bool) (p, err float64) {
 	out, in := e.outer()
+	// with the second group outer, "below" is π1 ≤ z; with the first outer
+	// it is π2 ≥ z
+	useAbove := upper != e.outerFirst
+	g := func(o, oc float64) float64 {
+		z, zc, _ := e.threshold(o, oc, v)
+		if useAbove {
+			return in.above(zc)
+		}
+		return in.Below(z)
+	}
+	if val, er := e.rule.integrate(g, 1); er <= math.Max(absTol, relTol*math.Abs(val)) {
+		return clamp01(val), er + e.tail
+	}
 	var bb [4]float64
 	r := quad.Integrate(func(t float64) float64 {
 		o, oc := logistic(t)
 		l, _ := out.ell(t)
-		z, zc, _ := e.threshold(o, oc, v)
-		var g float64
-		if upper != e.outerFirst {
-			g = in.above(zc)
-		} else {
-			g = in.Below(z)
-		}
-		return math.Exp(l) * g
+		return math.Exp(l) * g(o, oc)
 	}, e.lo, e.hi, e.breaks(v, bb[:0]), absTol, relTol)
 	return clamp01(r.Value), r.Err + e.tail
 }
@@ -187,6 +183,23 @@ func (e *Effect) Density(v float64) (f, err float64) {
 		return 0, 0
 	}
 	out, in := e.outer()
+	jac := 1.0
+	if e.Scale != proportions.Difference {
+		m := math.Min(1, v)
+		jac = math.Max(1, 1/(4*m*m))
+	}
+	g := func(o, oc float64) float64 {
+		z, zc, dz := e.threshold(o, oc, v)
+		if z <= 0 || zc <= 0 {
+			return 0
+		}
+		return math.Exp(in.logDensity(z, zc)) * dz
+	}
+	if bound := e.innerMax * jac; !math.IsInf(bound, 1) {
+		if val, er := e.rule.integrate(g, bound); er <= relTol*math.Abs(val) {
+			return val, er + e.tail*bound
+		}
+	}
 	var bb [4]float64
 	r := quad.Integrate(func(t float64) float64 {
 		o, oc := logistic(t)
@@ -198,11 +211,6 @@ func (e *Effect) Density(v float64) (f, err float64) {
 		// the density of t is exp(ℓ); in is evaluated at z
 		return math.Exp(l+in.logDensity(z, zc)) * dz
 	}, e.lo, e.hi, e.breaks(v, bb[:0]), 1e-300, relTol)
-	jac := 1.0
-	if e.Scale != proportions.Difference {
-		m := math.Min(1, v)
-		jac = math.Max(1, 1/(4*m*m))
-	}
 	return r.Value, r.Err + e.tail*e.innerMax*jac
 }
 
