@@ -246,6 +246,13 @@ func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 		if i == 3 {
 			p1, p2 = s.prior1, s.prior2
 		}
+		if p1 == s.prior1 && p2 == s.prior2 { // the analysis's own priors: its numbers
+			d := a.Effects[0]
+			a.Sensitivity = append(a.Sensitivity, SensitivityRow{Priors: [2]Prior{p1, p2},
+				ProbabilityFirstHigher: a.ProbabilityFirstHigher, Median: d.Median, Lower: d.Lower, Upper: d.Upper,
+				ProbabilityEquivalent: copyOf(a.ProbabilityEquivalent)})
+			continue
+		}
 		row, er, err := sensitivityRow(c, p1, p2, s)
 		if err != nil {
 			return Analysis{}, err
@@ -299,7 +306,7 @@ func summarize(e *Effect, level float64) (EffectSummary, error) {
 	if err != nil {
 		return EffectSummary{}, err
 	}
-	hl, hh, he, err := e.HighestDensity(level)
+	hl, hh, he, err := e.highestDensityFrom(level, lo, hi, ee)
 	if err != nil {
 		return EffectSummary{}, err
 	}
@@ -349,4 +356,12 @@ func sensitivityRow(c proportions.Comparison, p1, p2 Prior, s settings) (Sensiti
 		errMax = math.Max(errMax, er)
 	}
 	return row, errMax, nil
+}
+
+func copyOf(p *float64) *float64 {
+	if p == nil {
+		return nil
+	}
+	v := *p
+	return &v
 }

@@ -25,6 +25,12 @@ func (e *Effect) HighestDensity(level float64) (lower, upper, err float64, fail 
 	if fail != nil {
 		return 0, 0, 0, fail
 	}
+	return e.highestDensityFrom(level, lo, hi, eerr)
+}
+
+// highestDensityFrom is HighestDensity started from the equal-tailed
+// interval [lo, hi] (with its error estimate), when the caller has it.
+func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, err float64, fail error) {
 	_, sd := e.approx()
 	if e.Scale != proportions.Difference {
 		sd = (hi - lo) / 4
