@@ -292,8 +292,8 @@ func rateInterval(p Posterior, level float64) (lo, hi float64) {
 }
 
 func inside(diff *Effect, r Region) (float64, float64) {
-	below, _, e1 := diff.Tails(r.Lower)
-	_, above, e2 := diff.Tails(r.Upper)
+	below, e1 := diff.tail1(r.Lower, false)
+	above, e2 := diff.tail1(r.Upper, true)
 	return clamp01(1 - below - above), e1 + e2
 }
 

@@ -270,7 +270,7 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 	var gv, ge float64
 	for i := 0; i < 100; i++ {
 		gv, ge = g(s)
-		if gv == 0 {
+		if math.Abs(gv) <= ge { // zero within the distribution function's error estimate
 			break
 		}
 		if gv < 0 {
@@ -293,7 +293,10 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 				next = (lo + hi) / 2
 			}
 		}
-		if math.Abs(next-s) <= 1e-12*math.Max(sd, 1e-300)+4e-16*math.Abs(s) || (hi-lo) <= 1e-12*sd {
+		// stop when the step is below the search tolerance or below what
+		// the distribution function's own error estimate can resolve
+		// (ge/f, which the reported error includes)
+		if math.Abs(next-s) <= 1e-12*math.Max(sd, 1e-300)+4e-16*math.Abs(s)+resolvable(ge, f) || (hi-lo) <= 1e-12*sd {
 			s = next
 			break
 		}
@@ -309,6 +312,15 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 		err += ge / f
 	}
 	return v, err, nil
+}
+
+// resolvable is the step below which the distribution function's error
+// estimate ge hides the change, at density f (0 when f is not above 0).
+func resolvable(ge, f float64) float64 {
+	if f > 0 && !math.IsInf(f, 1) {
+		return ge / f
+	}
+	return 0
 }
 
 // EqualTailed returns the interval holding the given posterior
