@@ -87,12 +87,14 @@ func wholeShapeSum(p, q Posterior) (le, gt, err float64) {
 		var r float64
 		if up {
 			if k >= n {
+				rest = 0 // the whole tail is summed
 				break
 			}
 			r = ratio(k)
 			k++
 		} else {
 			if k <= 0 {
+				rest = 0 // the whole tail is summed
 				break
 			}
 			r = 1 / ratio(k-1)
