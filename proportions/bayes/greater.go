@@ -26,9 +26,9 @@ import (
 // whole tail is summed. The error estimate covers that bound, rounding,
 // and the log-gamma evaluations of the first term.
 //
-// Otherwise the bounded integral P(π1 > π2) = ∫ f2(y)·P(π1 > y) dy (and its
-// complement, computed separately) of the difference's posterior (see
-// Effect). Identical posteriors give exactly ½ by symmetry.
+// Otherwise the bounded integral of the difference's posterior (see
+// Effect) for the smaller of the two probabilities, the side the posterior
+// means point away from, and the larger as one minus it. Identical posteriors give exactly ½ by symmetry.
 func ProbabilityFirstHigher(first, second Posterior) (higher, lower, err float64, exact bool) {
 	if first.EventShape == second.EventShape && first.NonEventShape == second.NonEventShape {
 		return 0.5, 0.5, 0, isWhole(first)
@@ -41,9 +41,16 @@ func ProbabilityFirstHigher(first, second Posterior) (higher, lower, err float64
 		le, gt, er := wholeShapeSum(second, first) // P(π2 ≤ π1), P(π2 > π1)
 		return le, gt, er, true
 	}
+	// the integral of the smaller probability (the side the posterior
+	// means point away from), the other as one minus it: the smaller keeps
+	// its relative precision, the larger its absolute precision
 	e, _ := NewEffect(proportions.Difference, first, second)
-	below, above, er := e.Tails(0)
-	return above, below, er, false
+	if first.Mean() >= second.Mean() {
+		below, er := e.tail1(0, false)
+		return clamp01(1 - below), below, er, false
+	}
+	above, er := e.tail1(0, true)
+	return above, clamp01(1 - above), er, false
 }
 
 // wholeShapeWalkLimit is the longest beta-binomial tail summed term by
