@@ -19,6 +19,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 )
@@ -226,7 +227,22 @@ func analysisCharts(t *testing.T, a proportions.Analysis) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}}
+	p, err := notebookui.PosteriorChart(bayesView(t, a.Comparison))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}}
+}
+
+// bayesView is the Bayesian analysis of the comparison with the default
+// prior and an equivalence region of ±5 points, so the chart shades it.
+func bayesView(t *testing.T, c proportions.Comparison) bayes.Analysis {
+	t.Helper()
+	b, err := bayes.Analyze(c, bayes.WithEquivalence(-0.05, 0.05))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
 }
 
 // designCharts are the charts of a design: exact coverage along a slice
@@ -344,6 +360,9 @@ func TestChartTooltipsShowNumbers(t *testing.T) {
 	}
 	if tip := b.tooltip(t, 2, 0, -1); !strings.Contains(tip, "pp") || !strings.Contains(tip, "p-value") {
 		t.Errorf("curve tooltip %q lacks the difference", tip)
+	}
+	if tip := b.tooltip(t, 3, 0, -1); !strings.Contains(tip, "coated") || !strings.Contains(tip, "density") || !strings.Contains(tip, "%") {
+		t.Errorf("posterior tooltip %q lacks the group, the density or the share", tip)
 	}
 	b.offline(t)
 }

@@ -9,6 +9,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 )
 
 // Hostile labels: each would run script if it reached the page unescaped,
@@ -62,6 +63,28 @@ func TestHostileLabelsInBrowser(t *testing.T) {
 	screenshot(t, ctx, "hostile-card")
 }
 
+// TestHostileLabelsInBayesCard opens a standalone page of the Bayesian
+// card made from hostile labels: no script may run, and each label must
+// show as literal text.
+func TestHostileLabelsInBayesCard(t *testing.T) {
+	c, err := proportions.NewComparison(3, 10, 7, 10, hostile)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := bayes.Analyze(c, bayes.WithMargin(0.05), bayes.WithEquivalence(-0.1, 0.1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := filepath.Join(outDir, "hostile-bayes-card.html")
+	if err := notebookui.WriteHTMLFile(page, "hostile labels", notebookui.NewBayesCard(a)); err != nil {
+		t.Fatal(err)
+	}
+	ctx := browse(t)
+	open(t, ctx, page)
+	assertInertCard(t, ctx, "bayes-card")
+	screenshot(t, ctx, "hostile-bayes-card")
+}
+
 // TestHostileLabelsInNotebook runs the hostile labels through the whole
 // notebook path: GoNB display output, nbconvert's HTML export, browser.
 func TestHostileLabelsInNotebook(t *testing.T) {
@@ -77,6 +100,13 @@ func TestHostileLabelsInNotebook(t *testing.T) {
 // become an element, and that the strings show literally in the card.
 func assertInert(t *testing.T, ctx context.Context) {
 	t.Helper()
+	assertInertCard(t, ctx, "result-card")
+}
+
+// assertInertCard is assertInert for a card of the given kind
+// ("result-card", "bayes-card").
+func assertInertCard(t *testing.T, ctx context.Context, kind string) {
+	t.Helper()
 	if pwned := eval[any](t, ctx, `window.__pwned === undefined ? null : window.__pwned`); pwned != nil {
 		t.Errorf("a hostile label ran script: window.__pwned = %v", pwned)
 	}
@@ -85,17 +115,17 @@ func assertInert(t *testing.T, ctx context.Context) {
 	if title := eval[string](t, ctx, `document.title`); strings.HasPrefix(title, "PWNED") {
 		t.Errorf("a hostile label ran script: document.title = %q", title)
 	}
-	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"] :is(script, img, svg:not(.ps-strip), iframe, object)').length
+	injected := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="`+kind+`"] :is(script, img, svg:not(.ps-strip), iframe, object)').length
 		+ document.querySelectorAll('img[src="x"], [onerror], [onload]').length`)
 	if injected > 0 {
 		t.Errorf("%d elements were injected by hostile labels", injected)
 	}
-	n := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="result-card"]').length`)
+	n := eval[int](t, ctx, `document.querySelectorAll('section[data-propscope="`+kind+`"]').length`)
 	if n == 0 {
-		t.Fatal("no result card on the page")
+		t.Fatalf("no %s on the page", kind)
 	}
-	text := cardText(t, ctx, 0)
-	wantText(t, "the hostile card", text, hostile.First, hostile.Second, hostile.Event)
+	text := eval[string](t, ctx, `(() => { const c = document.querySelector('section[data-propscope="`+kind+`"]'); return c ? c.innerText : ""; })()`)
+	wantText(t, "the hostile "+kind, text, hostile.First, hostile.Second, hostile.Event)
 }
 
 // markerPayload is a group label wrapped in the go-echarts code marker:

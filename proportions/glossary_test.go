@@ -19,6 +19,7 @@ var glossaryPackages = map[string]string{
 	"proportions": ".",
 	"planning":    "planning",
 	"operating":   "operating",
+	"bayes":       "bayes",
 	"notebookui":  "../notebookui",
 }
 

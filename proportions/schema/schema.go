@@ -62,6 +62,9 @@ const (
 	// RejectionRegion describes operating.RejectionRegion, from
 	// NewRejectionRegion: the decision and the design it was built for.
 	RejectionRegion = "rejection-region"
+	// Bayes describes bayes.Analysis, from bayes.Analyze: the Bayesian
+	// view of a comparison.
+	Bayes = "bayes"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"

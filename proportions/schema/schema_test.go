@@ -41,7 +41,7 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method,
+	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -738,6 +738,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkExactPlanning(t, c)
 	checkOperating(t, c)
 	checkRegistry(t, c)
+	checkBayes(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}

@@ -1,0 +1,135 @@
+package bayes
+
+import (
+	"math"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// HighestDensity returns the highest-density interval holding the given
+// posterior probability: the shortest interval [L, U] with P(L ≤ E ≤ U) =
+// level, where, for a density with one peak, f(L) = f(U) (Box GEP, Tiao
+// GC (1973), Bayesian Inference in Statistical Analysis, Addison-Wesley,
+// §2.8). It is not invariant under a change of scale: the interval for the
+// ratio is not the exponential of one for the log ratio.
+//
+// It solves f(U) = f(L) and P(E < L) + P(E > U) = 1 − level by Newton's
+// method in two unknowns from the equal-tailed interval; when that does not
+// settle (a peak at the end of the range, as for the ratio when group 1
+// had no events) it minimises U − L over the lower tail probability u by
+// golden-section search, with L, U the quantiles at u and u + level. The
+// error estimate is the larger error estimate of the ends' quantiles or
+// of the distribution function over the density.
+func (e *Effect) HighestDensity(level float64) (lower, upper, err float64, fail error) {
+	lo, hi, eerr, fail := e.EqualTailed(level)
+	if fail != nil {
+		return 0, 0, 0, fail
+	}
+	return e.highestDensityFrom(level, lo, hi, eerr)
+}
+
+// highestDensityFrom is HighestDensity started from the equal-tailed
+// interval [lo, hi] (with its error estimate), when the caller has it.
+func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, err float64, fail error) {
+	_, sd := e.approx()
+	if e.Scale != proportions.Difference {
+		sd = (hi - lo) / 4
+	}
+	logf := func(v float64) float64 {
+		f, _ := e.Density(v)
+		return math.Log(f)
+	}
+	dlogf := func(v float64) float64 {
+		h := 1e-4 * sd
+		if e.Scale != proportions.Difference {
+			h = math.Min(h, v/4)
+		}
+		return (logf(v+h) - logf(v-h)) / (2 * h)
+	}
+	L, U := lo, hi
+	ok := false
+	for i := 0; i < 30; i++ {
+		below, e1 := e.tail1(L, false)
+		above, e2 := e.tail1(U, true)
+		fL, _ := e.Density(L)
+		fU, _ := e.Density(U)
+		g1 := below + above - (1 - level)
+		g2 := math.Log(fU) - math.Log(fL)
+		// Jacobian of (g1, g2) in (L, U)
+		j11, j12 := fL, -fU
+		j21, j22 := -dlogf(L), dlogf(U)
+		det := j11*j22 - j12*j21
+		if !(det != 0) || math.IsNaN(g1+g2) || math.IsInf(g2, 0) {
+			break
+		}
+		dL := (g1*j22 - j12*g2) / det
+		dU := (j11*g2 - j21*g1) / det
+		nL, nU := L-dL, U-dU
+		for k := 0; k < 30 && !(nL < nU && e.inSupport(nL) && e.inSupport(nU)); k++ {
+			dL, dU = dL/2, dU/2
+			nL, nU = L-dL, U-dU
+		}
+		if !(nL < nU && e.inSupport(nL) && e.inSupport(nU)) {
+			break
+		}
+		L, U = nL, nU
+		eerr = math.Max(eerr, math.Max(e1/math.Max(fL, 1e-300), e2/math.Max(fU, 1e-300)))
+		if math.Abs(dL)+math.Abs(dU) <= 1e-11*sd {
+			ok = true
+			break
+		}
+	}
+	if ok && U-L <= hi-lo+1e-12*sd {
+		below, _ := e.tail1(L, false)
+		above, _ := e.tail1(U, true)
+		if math.Abs(below+above-(1-level)) < 1e-8 {
+			return L, U, eerr, nil
+		}
+	}
+	return e.shortestBySearch(level)
+}
+
+// shortestBySearch minimises Q(u + level) − Q(u) over u in [0, 1 − level]
+// by golden-section search (the width is convex in u for a density with
+// one peak); an end of the range stands for u = 0 or u = 1 − level.
+func (e *Effect) shortestBySearch(level float64) (lower, upper, err float64, fail error) {
+	rangeLo := -1.0
+	if e.Scale != proportions.Difference {
+		rangeLo = 0
+	}
+	q := func(u float64) (float64, float64) {
+		if u <= 0 {
+			return rangeLo, 0
+		}
+		v, er, _ := e.Quantile(u)
+		return v, er
+	}
+	width := func(u float64) (w, l, h, er float64) {
+		l, e1 := q(u)
+		h, e2, _ := e.Quantile(u + level)
+		return h - l, l, h, math.Max(e1, e2)
+	}
+	a, b := 0.0, 1-level
+	const phi = 0.6180339887498949
+	c, d := b-phi*(b-a), a+phi*(b-a)
+	wc, _, _, _ := width(c)
+	wd, _, _, _ := width(d)
+	for i := 0; i < 60 && b-a > 1e-10; i++ {
+		if wc < wd {
+			b, d, wd = d, c, wc
+			c = b - phi*(b-a)
+			wc, _, _, _ = width(c)
+		} else {
+			a, c, wc = c, d, wd
+			d = a + phi*(b-a)
+			wd, _, _, _ = width(d)
+		}
+	}
+	u := (a + b) / 2
+	w0, l0, h0, e0 := width(0)
+	w, l, h, er := width(u)
+	if w0 <= w {
+		return l0, h0, e0, nil
+	}
+	return l, h, er, nil
+}
