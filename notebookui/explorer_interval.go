@@ -27,7 +27,8 @@ import (
 // π1 − difference is a rate. Each method's table of limits is computed
 // once per design (n1, n2, level) and kept while the reader moves the
 // rates, so a change of π1, π2 or the difference costs a slice, not a
-// table.
+// table. In a live notebook a new position cancels the tables still being
+// computed for the settings the reader moved away from.
 //
 // Build it as a literal; zero fields take the defaults noted.
 type IntervalExplorer struct {
@@ -142,6 +143,7 @@ func (e IntervalExplorer) Run(opts ...LiveOption) error {
 	if err != nil {
 		return err
 	}
+	m.latest = &latestRun{}
 	return run(m, opts)
 }
 
@@ -162,7 +164,7 @@ func (e IntervalExplorer) Slice() ([]CoverageSlice, error) {
 	if err != nil {
 		return nil, err
 	}
-	return m.slices(m.settings(startPositions(m)))
+	return m.slices(context.Background(), m.settings(startPositions(m)))
 }
 
 func (e IntervalExplorer) model() (*intervalModel, error) {
@@ -209,6 +211,11 @@ type intervalModel struct {
 	e       IntervalExplorer
 	methods []proportions.IntervalMethod
 	tables  *tableCache
+	// latest, in a live explorer, cancels the tables and slices of
+	// settings the reader has already moved away from, so that slider
+	// moves never queue up seconds of exact computation (new tables after
+	// a change of n or of the level); nil in a static frame.
+	latest *latestRun
 }
 
 func (*intervalModel) name() string { return "interval" }
@@ -282,9 +289,10 @@ func (m *intervalModel) shown(s sliceSettings) []proportions.IntervalMethod {
 	return m.methods[s.methodChoice : s.methodChoice+1]
 }
 
-// slices computes every shown method's slice, the methods in parallel.
-func (m *intervalModel) slices(s sliceSettings) ([]CoverageSlice, error) {
-	r, err := m.start(s)
+// slices computes every shown method's slice, the methods in parallel;
+// it stops with ctx's error when ctx is cancelled.
+func (m *intervalModel) slices(ctx context.Context, s sliceSettings) ([]CoverageSlice, error) {
+	r, err := m.start(ctx, s)
 	if err != nil {
 		return nil, err
 	}
@@ -302,7 +310,7 @@ type running struct {
 	all   chan struct{} // closed when every method is done
 }
 
-func (m *intervalModel) start(s sliceSettings) (*running, error) {
+func (m *intervalModel) start(ctx context.Context, s sliceSettings) (*running, error) {
 	d, err := operating.NewDesign(s.n1, s.n2, s.level)
 	if err != nil {
 		return nil, err
@@ -315,7 +323,7 @@ func (m *intervalModel) start(s sliceSettings) (*running, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			r.out[i], r.errs[i] = m.slice(me, d, s)
+			r.out[i], r.errs[i] = m.slice(ctx, me, d, s)
 			r.ready[i].Store(true)
 		}()
 	}
@@ -347,12 +355,11 @@ func (r *running) soFar() (done []CoverageSlice, pending []string) {
 	return done, pending
 }
 
-func (m *intervalModel) slice(me proportions.IntervalMethod, d operating.Design, s sliceSettings) (CoverageSlice, error) {
-	t, err := m.tables.get(me, d)
+func (m *intervalModel) slice(ctx context.Context, me proportions.IntervalMethod, d operating.Design, s sliceSettings) (CoverageSlice, error) {
+	t, err := m.tables.get(ctx, me, d)
 	if err != nil {
 		return CoverageSlice{}, err
 	}
-	ctx := context.Background()
 	// The methods already run in parallel: one worker each.
 	var es *operating.Slice
 	if s.holdDiff {
@@ -396,21 +403,27 @@ func samePoint(p operating.Point, pi1, pi2 float64) bool {
 // render computes the slices and shows the chart and the summary table.
 func (m *intervalModel) render(pos []int) Displayable {
 	s := m.settings(pos)
-	sl, err := m.slices(s)
+	sl, err := m.slices(context.Background(), s)
 	return m.view(s, sl, err)
 }
 
 // renderWithin shows what is ready within the budget: after a change of n
 // or of the level the score methods' tables take a few hundred
-// milliseconds at 200 per group, so the others are drawn first.
+// milliseconds at 200 per group, so the others are drawn first. In a live
+// explorer a newer call cancels the computation of this one; the view it
+// then completes to says the settings were left.
 func (m *intervalModel) renderWithin(pos []int, budget time.Duration) (Displayable, func() Displayable) {
 	s := m.settings(pos)
-	r, err := m.start(s)
+	ctx := m.latest.start()
+	r, err := m.start(ctx, s)
 	if err != nil {
 		return m.view(s, nil, err), nil
 	}
 	full := func() Displayable {
 		<-r.all
+		if ctx.Err() != nil {
+			return message{kind: "interval", text: "These settings were left before their exact tables were computed; the view for the newest settings follows."}
+		}
 		sl, err := r.results()
 		return m.view(s, sl, err)
 	}
@@ -457,7 +470,9 @@ func newTableCache(limit int) *tableCache {
 	return &tableCache{limit: max(limit, 4), byKey: map[string]*operating.OutcomeLimits{}}
 }
 
-func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*operating.OutcomeLimits, error) {
+// get returns the table of me for d, computing it (stopped with ctx's error
+// when ctx is cancelled; a stopped table is not kept) when it is not kept.
+func (c *tableCache) get(ctx context.Context, me proportions.IntervalMethod, d operating.Design) (*operating.OutcomeLimits, error) {
 	key := fmt.Sprintf("%s/%d/%d/%v", me.Key, d.N1, d.N2, d.Level)
 	c.mu.Lock()
 	if t, ok := c.byKey[key]; ok {
@@ -466,7 +481,7 @@ func (c *tableCache) get(me proportions.IntervalMethod, d operating.Design) (*op
 		return t, nil
 	}
 	c.mu.Unlock()
-	t, err := operating.NewOutcomeLimits(context.Background(), me, d)
+	t, err := operating.NewOutcomeLimits(ctx, me, d)
 	if err != nil {
 		return nil, err
 	}

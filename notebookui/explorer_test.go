@@ -441,3 +441,44 @@ func TestWhatIfSupersededAnalysisIsCancelled(t *testing.T) {
 		}
 	}
 }
+
+// Moving a slider on from a design cancels the exact tables of the design
+// left: the earlier frame's completion says so, the table stopped half-way
+// is not kept, and the newest settings still get their full view.
+func TestIntervalSupersededTablesAreCancelled(t *testing.T) {
+	// The profile-likelihood tail-area interval's table takes most of a
+	// second at 150 per group and several seconds at 300.
+	slow := "profile-exact-tails"
+	e := IntervalExplorer{N1: 300, N2: 300, Rate1: 0.3, Rate2: 0.2, Methods: []string{"wald", slow}}
+	m, err := e.model()
+	if err != nil {
+		t.Fatal(err)
+	}
+	m.latest = &latestRun{}
+	pos := startPositions(m)
+	_, rest := m.renderWithin(pos, time.Millisecond)
+	if rest == nil {
+		t.Skip("every table was ready within a millisecond; nothing to cancel")
+	}
+	moved := append([]int(nil), pos...)
+	moved[0], moved[1] = 20, 20 // n1, n2
+	_, rest2 := m.renderWithin(moved, time.Millisecond)
+	first := rest()
+	if msg, ok := first.(message); !ok || !strings.Contains(msg.text, "were left before") {
+		t.Errorf("the superseded computation finished as %T %q, want the note that its settings were left", first, first.Text())
+	}
+	m.tables.mu.Lock()
+	for key := range m.tables.byKey {
+		if strings.HasPrefix(key, slow+"/300/") {
+			t.Errorf("the table %s was kept: its computation was not stopped by the move", key)
+		}
+	}
+	m.tables.mu.Unlock()
+	second := m.render(moved)
+	if rest2 != nil {
+		second = rest2()
+	}
+	if _, ok := second.(views); !ok || !strings.Contains(second.HTML(), `data-method="`+slow+`"`) {
+		t.Fatalf("the newest settings' view is %T:\n%s", second, second.Text())
+	}
+}

@@ -3,6 +3,7 @@ package proportions_test
 import (
 	"context"
 	"errors"
+	"os"
 	"strings"
 	"testing"
 	"time"
@@ -99,4 +100,25 @@ func TestAnalyzeContextCancel(t *testing.T) {
 		_, err := proportions.AnalyzeContext(ctx, cmp, proportions.WithNull(0.02), proportions.WithScope(proportions.ScopeAll))
 		return err
 	})
+}
+
+// The README quotes the refusal of the 34.7 s reproducer (Barnard,
+// 0/1 vs 1/100000, null −0.3): the quote must be what the code says.
+func TestREADMEQuotesTheCostRefusal(t *testing.T) {
+	_, err := proportions.BarnardTest.Test(proportions.Counts{X1: 0, N1: 1, X2: 1, N2: 100000}, proportions.WithNull(-0.3))
+	if !errors.Is(err, proportions.ErrTooLarge) {
+		t.Fatalf("got %v, want an error wrapping ErrTooLarge", err)
+	}
+	_, quote, ok := strings.Cut(err.Error(), " would need ")
+	if !ok {
+		t.Fatalf("the error does not say what the call would need: %q", err)
+	}
+	b, err := os.ReadFile("../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	readme := strings.Join(strings.Fields(string(b)), " ")
+	if !strings.Contains(readme, "would need "+quote) {
+		t.Errorf("README.md should quote the refusal as the code gives it: %q", "would need "+quote)
+	}
 }

@@ -27,6 +27,12 @@ type config struct {
 // WithProgress reports progress to f.
 func WithProgress(f Progress) RunOption { return func(c *config) { c.progress = f } }
 
+// ProgressOf returns the function set by WithProgress among opts, or nil.
+// Packages that run the engine in steps of their own (the exact searches
+// of package planning) use it to report their progress to the same
+// function.
+func ProgressOf(opts ...RunOption) Progress { return newConfig(opts).progress }
+
 // WithGrid sets the success rates of a surface: π1 takes the values pi1,
 // π2 the values pi2 (each in [0, 1]). The default is 0, 0.01, …, 1 for both.
 func WithGrid(pi1, pi2 []float64) RunOption {

@@ -26,5 +26,10 @@
 // to a stated horizon reaches it.
 //
 // Functions that enumerate take a context.Context, stop when it is
-// cancelled, and use every core.
+// cancelled, and use every core. ExactSampleSize, ExactPowerByTrials and
+// ExactPowerByDifference also take the engine's options and report
+// progress through operating.WithProgress, in thousandths of their
+// estimated work ([ProgressTotal]); before they start, ExactPower,
+// ExactSampleSize and ExactPowerByTrials estimate their cost and refuse
+// one above [ExactSearchCost] with an error wrapping proportions.ErrTooLarge.
 package planning

@@ -153,7 +153,12 @@ type GroupSizes struct {
 // when no size up to Search.MaxN1 reaches the target, ErrTooLarge when the
 // asymptotic size is above 1.5·MaxN1 (checked first, to fail fast), and
 // ErrPlan for a bad Search.
-func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Search) (ExactSampleSizeResult, error) {
+//
+// Of opts it reads operating.WithProgress: progress in thousandths of the
+// estimated work (see ProgressTotal), size by size, each size weighted by
+// its estimated cost; the estimate runs to the expected end of the scan
+// and is revised once the horizon is known.
+func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Search, opts ...operating.RunOption) (ExactSampleSizeResult, error) {
 	asym, err := SampleSize(d)
 	if err != nil {
 		return ExactSampleSizeResult{}, err
@@ -169,13 +174,20 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	if err := guardScan(d, m, dc.Hypotheses, s, asym.N1); err != nil {
 		return ExactSampleSizeResult{}, err
 	}
+	sizeCost := func(n1 int64) float64 { return exactPowerCost(d, m, dc.Hypotheses, n1, d.SecondGroupSize(n1)).Steps }
+	from, end := scanRange(d, s, asym.N1)
+	var expected float64
+	for n := from; n <= end; n++ {
+		expected += sizeCost(n)
+	}
+	prog := newProgress(opts, expected)
 	power := func(ctx context.Context, n1, n2 int64) (float64, error) {
 		if err := checkSizes(n1, n2); err != nil {
 			return 0, err
 		}
 		return exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
 	}
-	sc, err := scan(ctx, d, s, power)
+	sc, err := scan(ctx, d, s, power, prog, sizeCost)
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
@@ -191,6 +203,7 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 		}
 	}
 	res.Notes = append(testNotes(m), searchNotes(res)...)
+	prog.finish()
 	return res, nil
 }
 
@@ -200,13 +213,7 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 // Above ExactSearchCost it is refused, with the cost of a scan started
 // near the approximation as the way out.
 func guardScan(d Plan, m proportions.TestMethod, h []proportions.Hypothesis, s Search, asymN1 int64) error {
-	maxN := s.maxN1(d)
-	from := max(s.From, 1)
-	end := max(asymN1+10, int64(math.Ceil(1.25*float64(asymN1))))
-	if s.Horizon > 0 {
-		end = max(s.Horizon, asymN1)
-	}
-	end = max(min(end, maxN), from)
+	from, end := scanRange(d, s, asymN1)
 	cost := scanCost(d, m, h, from, end)
 	if cost.Within(ExactSearchCost) {
 		return nil
@@ -218,6 +225,18 @@ func guardScan(d Plan, m proportions.TestMethod, h []proportions.Hypothesis, s S
 	}
 	hint += "or use the asymptotic SampleSize or a faster test"
 	return guardSearch(fmt.Sprintf("the exact sample-size search with %s from n1 = %d to about %d", m.Name, from, end), cost, hint)
+}
+
+// scanRange is where the scan is expected to start and end: from
+// Search.From (default 1) to the default horizon past the normal
+// approximation's n1, or to Search.Horizon when set, within the cap.
+func scanRange(d Plan, s Search, asymN1 int64) (from, end int64) {
+	from = max(s.From, 1)
+	end = max(asymN1+10, int64(math.Ceil(1.25*float64(asymN1))))
+	if s.Horizon > 0 {
+		end = max(s.Horizon, asymN1)
+	}
+	return from, max(min(end, s.maxN1(d)), from)
 }
 
 // sizeAt picks the curve point at n1, with its enrolment (an error
@@ -256,8 +275,10 @@ func searchNotes(r ExactSampleSizeResult) []string {
 // ExactPowerByTrials returns the exact power of test m for every n1 from n1From
 // to n1To (in equal steps when that is more than MaxCurvePoints
 // sizes), n2 = ⌈r·n1⌉: the saw-tooth as data for a chart. Plan.Power is
-// not used.
-func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n1From, n1To int64) (PowerCurve, error) {
+// not used. Of opts it reads operating.WithProgress: progress in
+// thousandths of the estimated work (see ProgressTotal), size by size,
+// each weighted by its estimated cost.
+func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n1From, n1To int64, opts ...operating.RunOption) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return PowerCurve{}, err
@@ -268,14 +289,17 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 	}
 	grid.Basis = "exact power of " + m.Name
 	var cost proportions.Cost
-	for _, p := range grid.Points {
+	costs := make([]float64, len(grid.Points))
+	for i, p := range grid.Points {
 		c := exactPowerCost(d, m, dc.Hypotheses, p.N1, p.N2)
+		costs[i] = c.Steps
 		cost = proportions.Cost{Steps: cost.Steps + c.Steps, Bytes: max(cost.Bytes, c.Bytes)}
 	}
 	if err := guardSearch(fmt.Sprintf("the exact power of %s at %d sizes from n1 = %d to %d", m.Name, len(grid.Points), n1From, n1To),
 		cost, "use the asymptotic PowerByTrials, a faster test or a narrower range"); err != nil {
 		return PowerCurve{}, err
 	}
+	prog := newProgress(opts, cost.Steps)
 	for i, p := range grid.Points {
 		if err := checkSizes(p.N1, p.N2); err != nil {
 			return PowerCurve{}, err
@@ -283,7 +307,9 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 		if grid.Points[i].Power, err = exactPower(ctx, dc, p.N1, p.N2, d.Rate1, d.Rate2); err != nil {
 			return PowerCurve{}, err
 		}
+		prog.add(costs[i])
 	}
+	prog.finish()
 	return grid, nil
 }
 
@@ -291,8 +317,10 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 // units against the first group's true rate, at points rates evenly spaced
 // from rate1From to rate1To, π2 = Plan.Rate2 fixed. The test runs once on
 // every outcome (operating.NewRejectionRegion, which stops when ctx is
-// cancelled); each rate then costs one sum over the region's runs.
-func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
+// cancelled); each rate then costs one sum over the region's runs. Of
+// opts it reads operating.WithProgress: progress in thousandths of the
+// work (see ProgressTotal), by rows of outcomes of the region.
+func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int, opts ...operating.RunOption) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return PowerCurve{}, err
@@ -304,7 +332,9 @@ func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMetho
 	if err != nil {
 		return PowerCurve{}, err
 	}
-	region, err := operating.NewRejectionRegion(ctx, dc, int(n1), int(n2))
+	prog := newProgress(opts, float64(n1+1))
+	rows := func(done, _ int) { prog.add(float64(done) - prog.done) }
+	region, err := operating.NewRejectionRegion(ctx, dc, int(n1), int(n2), operating.WithProgress(rows))
 	if err != nil {
 		return PowerCurve{}, err
 	}
@@ -314,6 +344,7 @@ func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMetho
 			return PowerCurve{}, err
 		}
 	}
+	prog.finish()
 	return grid, nil
 }
 

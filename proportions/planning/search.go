@@ -59,8 +59,10 @@ type scanResult struct {
 
 // scan walks n1 upward from s.From until the power reaches the target, then
 // on to the horizon, and finds the smallest size from which every size up
-// to the horizon reaches the target.
-func scan(ctx context.Context, d Plan, s Search, power powerFunc) (scanResult, error) {
+// to the horizon reaches the target. Each size done adds its estimated
+// cost, sizeCost(n1), to prog; once the horizon is known (or widened) the
+// estimate of the rest is revised to the sizes left.
+func scan(ctx context.Context, d Plan, s Search, power powerFunc, prog *progress, sizeCost func(n1 int64) float64) (scanResult, error) {
 	from, maxN := s.From, s.maxN1(d)
 	if from == 0 {
 		from = 1
@@ -78,7 +80,15 @@ func scan(ctx context.Context, d Plan, s Search, power powerFunc) (scanResult, e
 		}
 		res.curve = append(res.curve, PowerPoint{N1: n1, N2: n2, Rate1: d.Rate1,
 			Difference: d.Rate1 - d.Rate2, Ratio: d.Rate1 / d.Rate2, Power: p})
+		prog.add(sizeCost(n1))
 		return p, nil
+	}
+	rest := func(from, to int64) float64 {
+		var c float64
+		for n := from; n <= to; n++ {
+			c += sizeCost(n)
+		}
+		return c
 	}
 	n := from
 	for ; ; n++ {
@@ -100,6 +110,7 @@ func scan(ctx context.Context, d Plan, s Search, power powerFunc) (scanResult, e
 		horizon = min(maxN, max(n+10, int64(math.Ceil(1.25*float64(n)))))
 	}
 	for {
+		prog.revise(rest(n+1, horizon))
 		for n++; n <= horizon; n++ {
 			if _, err := at(n); err != nil {
 				return res, err
