@@ -201,30 +201,35 @@ func runUnconditional(c Counts, h Hypothesis, d UnconditionalVariant, key, name 
 	r := TestResult{Method: key, MethodName: name, Scale: Difference}
 	if checkUnconditionalSize(c) != nil {
 		r.StatisticName = "not computed (design too large)"
-		r.PValue, r.LogPValue = 1, 0
+		one := 1.0
+		r.PValue, r.LogPValue, r.PValueBound = 1, 0, &one
 		r.decide(h)
 		return r
 	}
-	var logp, nuis float64
+	var logp, nuis, logBound float64
 	switch {
 	case h.Alternative == TwoSided && d.TwoSided == TwoSidedDoubled:
-		lg, ng, sg := unconditionalSide(c, h.Null, d, sideGreater)
-		ll, nl, sl := unconditionalSide(c, h.Null, d, sideLess)
+		lg, ng, sg, bg := unconditionalSide(c, h.Null, d, sideGreater)
+		ll, nl, sl, bl := unconditionalSide(c, h.Null, d, sideLess)
 		logp, nuis, r.Statistic = lg, ng, sg
 		if ll < lg {
 			logp, nuis, r.Statistic = ll, nl, sl
 		}
-		logp = min(logp+math.Ln2, 0)
+		// The true value is 2·min(sup_greater, sup_less) ≤ 2·min(bounds).
+		logp, logBound = min(logp+math.Ln2, 0), min(min(bg, bl)+math.Ln2, 0)
 	case h.Alternative == Greater:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideGreater)
+		logp, nuis, r.Statistic, logBound = unconditionalSide(c, h.Null, d, sideGreater)
 	case h.Alternative == Less:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideLess)
+		logp, nuis, r.Statistic, logBound = unconditionalSide(c, h.Null, d, sideLess)
 	default:
-		logp, nuis, r.Statistic = unconditionalSide(c, h.Null, d, sideBoth)
+		logp, nuis, r.Statistic, logBound = unconditionalSide(c, h.Null, d, sideBoth)
 	}
 	if g := d.BergerBoosGamma; g > 0 {
 		logp = math.Log(min(math.Exp(logp)+g, 1))
+		logBound = math.Log(min(math.Exp(logBound)+g, 1))
 	}
+	bound := max(math.Exp(logBound), math.Exp(logp))
+	r.PValueBound = &bound
 	r.StatisticName = "z"
 	if d.Statistic == FisherPValue {
 		r.StatisticName = "Fisher p"
@@ -235,9 +240,10 @@ func runUnconditional(c Counts, h Hypothesis, d UnconditionalVariant, key, name 
 }
 
 // unconditionalSide returns the log of the maximised tail probability for
-// one region, the nuisance value π2 where it is attained, and the observed
-// ordering statistic.
-func unconditionalSide(c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat float64) {
+// one region, the nuisance value π2 where it is attained, the observed
+// ordering statistic, and the log of the proven upper bound on the
+// supremum (unconditional_bound.go).
+func unconditionalSide(c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat, logBound float64) {
 	var reg region
 	switch d.Statistic {
 	case FisherPValue:
@@ -249,8 +255,8 @@ func unconditionalSide(c Counts, delta float64, d UnconditionalVariant, side reg
 	}
 	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
 	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b}
-	logp, nuisance = s.supremum()
-	return logp, nuisance, stat
+	logp, nuisance, logBound = s.provenSupremum()
+	return logp, nuisance, stat, logBound
 }
 
 // nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0
