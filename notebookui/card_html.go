@@ -74,7 +74,11 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 <summary>Methods and their sources ({{len .References}})</summary>
 <ol class="ps-refs">{{range .References}}
 <li><strong>{{.Name}}</strong> — {{.Citation}}</li>{{end}}
-</ol>
+</ol>{{if .Bounds}}
+<p class="ps-small">Unconditional tests maximise over the unknown common rate; the exact p-value lies between the p-value and its proven bound:</p>
+<ul class="ps-refs">{{range .Bounds}}
+<li>{{.}}</li>{{end}}
+</ul>{{end}}
 </details>{{end}}
 <p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
 </section>`

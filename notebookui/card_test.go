@@ -389,3 +389,48 @@ func TestCardNamesMethodsNotRun(t *testing.T) {
 		}
 	}
 }
+
+// TestCardShowsProvenBounds: with every method, the unconditional tests'
+// proven bounds appear in the folded sources of the HTML card (inside the
+// <details>), and in the text and Markdown forms, each at least its
+// p-value; the quick analysis, without those tests, shows none.
+func TestCardShowsProvenBounds(t *testing.T) {
+	c, err := proportions.NewComparison(2, 14, 7, 15, proportions.Labels{First: "coated", Second: "bare", Event: "sprouted"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := proportions.Analyze(c, proportions.WithScope(proportions.ScopeAll))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var lines []string
+	for _, tr := range a.Tests {
+		if tr.PValueBound == nil {
+			continue
+		}
+		if *tr.PValueBound < tr.PValue {
+			t.Errorf("%s: bound %v below p = %v", tr.MethodName, *tr.PValueBound, tr.PValue)
+		}
+		lines = append(lines, tr.MethodName+": p = "+proportions.FormatP(tr.PValue, tr.LogPValue)+", proven bound ")
+	}
+	if len(lines) == 0 {
+		t.Fatal("no unconditional test carries a bound")
+	}
+	card := NewResultCard(a)
+	html := card.HTML()
+	folded := html[strings.LastIndex(html, "<details"):]
+	for _, l := range lines {
+		for name, form := range map[string]string{"folded HTML": folded, "text": card.Text(), "Markdown": card.Markdown()} {
+			if !strings.Contains(form, strings.ReplaceAll(l, "(", `\(`)) && !strings.Contains(form, l) {
+				t.Errorf("%s lacks %q", name, l)
+			}
+		}
+	}
+	quick, err := proportions.Analyze(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(NewResultCard(quick).HTML(), "proven bound") {
+		t.Error("the quick analysis shows a proven bound")
+	}
+}

@@ -47,6 +47,9 @@ func renderText(v cardView) string {
 		for i, r := range v.References {
 			b.WriteString(wrap(fmt.Sprintf("[%d] %s — %s", i+1, r.Name, r.Citation), "      ", textWidth)[4:])
 		}
+		for _, l := range v.Bounds {
+			b.WriteString(wrap("- "+l, "    ", textWidth)[2:])
+		}
 	}
 	b.WriteString("\n")
 	b.WriteString(wrap("Before acting on this: "+v.Caution, "", textWidth))
@@ -90,6 +93,12 @@ func renderMarkdown(v cardView) string {
 		b.WriteString("\n#### Methods and their sources\n\n")
 		for i, r := range v.References {
 			fmt.Fprintf(&b, "%d. **%s** — %s\n", i+1, e(r.Name), e(r.Citation))
+		}
+		if len(v.Bounds) > 0 {
+			b.WriteString("\n")
+		}
+		for _, l := range v.Bounds {
+			fmt.Fprintf(&b, "- %s\n", e(l))
 		}
 	}
 	fmt.Fprintf(&b, "\n> **Before acting on this:** %s\n", e(v.Caution))

@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 	"unicode"
 	"unicode/utf8"
@@ -33,7 +34,10 @@ type cardView struct {
 	NotRun     string // which methods the analysis's scope left out, or ""
 	Sections   []methodSection
 	References []Reference
-	Caution    string
+	// Bounds are the unconditional tests' proven bounds, one line each,
+	// shown in the folded sources.
+	Bounds  []string
+	Caution string
 }
 
 type groupTable struct {
@@ -135,6 +139,7 @@ func (c ResultCard) view() cardView {
 		v.Warnings = append(v.Warnings, w.Message)
 	}
 	v.Sections = sectionsOf(a)
+	v.Bounds = boundsOf(a)
 	lookup := c.lookup
 	if lookup == nil {
 		lookup = registryReference
@@ -350,4 +355,18 @@ func capitalize(s string) string {
 		return s
 	}
 	return string(unicode.ToUpper(r)) + s[size:]
+}
+
+// boundsOf words each unconditional test's proven bound on its p-value
+// (TestResult.PValueBound) in one line.
+func boundsOf(a proportions.Analysis) []string {
+	var out []string
+	for _, t := range a.Tests {
+		if t.PValueBound == nil {
+			continue
+		}
+		out = append(out, fmt.Sprintf("%s: p = %s, proven bound %s", t.MethodName,
+			proportions.FormatP(t.PValue, t.LogPValue), strconv.FormatFloat(*t.PValueBound, 'g', 12, 64)))
+	}
+	return out
 }

@@ -208,6 +208,13 @@ type TestResult struct {
 	// Nuisance is, for unconditional exact tests, the common success
 	// probability at which the supremum of the tail probability was found.
 	Nuisance *float64 `json:"nuisance,omitempty"`
+	// PValueBound is, for unconditional exact tests, a proven upper bound
+	// on the true supremum behind PValue (branch and bound over the
+	// nuisance parameter, see unconditional_bound.go): the exact p-value
+	// lies in [PValue, PValueBound], and (PValueBound − PValue)/PValue is
+	// below 1e−9 (supBoundTolerance). Nil for other tests; 0, like PValue,
+	// when the bound is below the float64 range.
+	PValueBound *float64 `json:"p_value_bound,omitempty"`
 }
 
 // String prints a one-line summary such as
@@ -221,7 +228,11 @@ func (r TestResult) String() string {
 	if r.StatisticName != "" {
 		stat = fmt.Sprintf(" %s = %.4g,", r.StatisticName, r.Statistic)
 	}
-	return fmt.Sprintf("%s:%s p = %s (%s, null %v): %s at %s%%", r.MethodName, stat, FormatP(r.PValue, r.LogPValue),
+	bound := ""
+	if r.PValueBound != nil {
+		bound = ", proven bound " + strconv.FormatFloat(*r.PValueBound, 'g', 12, 64)
+	}
+	return fmt.Sprintf("%s:%s p = %s%s (%s, null %v): %s at %s%%", r.MethodName, stat, FormatP(r.PValue, r.LogPValue), bound,
 		r.Alternative, r.Null, decision, strconv.FormatFloat(100*(1-r.Level), 'g', 4, 64))
 }
 

@@ -242,18 +242,18 @@ func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d Uncondition
 	if err := unconditionalCost(c, h, d).guard(fmt.Sprintf("%s at %d/%d vs %d/%d (null %v)", name, c.X1, c.N1, c.X2, c.N2, h.Null), guard); err != nil {
 		return r, err
 	}
-	side := func(s regionSide) (logp, nuis, stat float64, err error) {
+	side := func(s regionSide) (logp, nuis, stat, logBound float64, err error) {
 		return unconditionalSide(ctx, guard, c, h.Null, d, s)
 	}
-	var logp, nuis float64
+	var logp, nuis, logBound float64
 	var err error
 	switch {
 	case h.Alternative == TwoSided && d.TwoSided == TwoSidedDoubled:
-		lg, ng, sg, errG := side(sideGreater)
+		lg, ng, sg, bg, errG := side(sideGreater)
 		if errG != nil {
 			return r, errG
 		}
-		ll, nl, sl, errL := side(sideLess)
+		ll, nl, sl, bl, errL := side(sideLess)
 		if errL != nil {
 			return r, errL
 		}
@@ -261,20 +261,24 @@ func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d Uncondition
 		if ll < lg {
 			logp, nuis, r.Statistic = ll, nl, sl
 		}
-		logp = min(logp+math.Ln2, 0)
+		// The true value is 2·min(sup_greater, sup_less) ≤ 2·min(bounds).
+		logp, logBound = min(logp+math.Ln2, 0), min(min(bg, bl)+math.Ln2, 0)
 	case h.Alternative == Greater:
-		logp, nuis, r.Statistic, err = side(sideGreater)
+		logp, nuis, r.Statistic, logBound, err = side(sideGreater)
 	case h.Alternative == Less:
-		logp, nuis, r.Statistic, err = side(sideLess)
+		logp, nuis, r.Statistic, logBound, err = side(sideLess)
 	default:
-		logp, nuis, r.Statistic, err = side(sideBoth)
+		logp, nuis, r.Statistic, logBound, err = side(sideBoth)
 	}
 	if err != nil {
 		return r, err
 	}
 	if g := d.BergerBoosGamma; g > 0 {
 		logp = math.Log(min(math.Exp(logp)+g, 1))
+		logBound = math.Log(min(math.Exp(logBound)+g, 1))
 	}
+	bound := max(math.Exp(logBound), math.Exp(logp))
+	r.PValueBound = &bound
 	r.StatisticName = "z"
 	if d.Statistic == FisherPValue {
 		r.StatisticName = "Fisher p"
@@ -285,10 +289,12 @@ func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d Uncondition
 }
 
 // unconditionalSide returns the log of the maximised tail probability for
-// one region, the nuisance value π2 where it is attained, and the observed
-// ordering statistic; ctx's error when ctx ends, and an error wrapping
-// ErrTooLarge when the log-space search would exceed the guard.
-func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat float64, err error) {
+// one region, the nuisance value π2 where it is attained, the observed
+// ordering statistic, and the log of the proven upper bound on the
+// supremum (unconditional_bound.go); ctx's error when ctx ends, and an
+// error wrapping ErrTooLarge when the log-space search would exceed the
+// guard.
+func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat, logBound float64, err error) {
 	var reg region
 	switch d.Statistic {
 	case FisherPValue:
@@ -299,15 +305,15 @@ func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64,
 		reg, stat = zRegionContext(ctx, c, delta, d.Statistic == PooledScore, side)
 	}
 	if err := ctx.Err(); err != nil {
-		return 0, 0, 0, err
+		return 0, 0, 0, 0, err
 	}
 	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
 	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
-	logp, nuisance = s.supremum()
+	logp, nuisance, logBound = s.provenSupremum()
 	if s.err != nil {
-		return 0, 0, 0, s.err
+		return 0, 0, 0, 0, s.err
 	}
-	return logp, nuisance, stat, nil
+	return logp, nuisance, stat, logBound, nil
 }
 
 // nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0

@@ -69,6 +69,19 @@ type nuisanceSearch struct {
 	ctx   context.Context
 	guard Cost
 	err   error
+	// prove, when set (tests only, not the interval searches; low must be
+	// nil), makes every evaluation carry its rounding allowance and keeps
+	// the grid and the best point for proveSupremum (unconditional_bound.go).
+	prove     bool
+	lastErr   float64
+	grid      []boundPoint
+	bestPoint boundPoint
+	hasBest   bool
+	// rowMin and rowMax are the smallest and largest x2 of each row of the
+	// region, for the monotone-cell check of proveSupremum.
+	rowMin, rowMax []int32
+	// outMin and outMax: the same for the tables outside the region.
+	outMin, outMax []int32
 }
 
 func (s *nuisanceSearch) pi2(theta float64) float64 {
@@ -92,20 +105,36 @@ func (s *nuisanceSearch) at(theta float64) float64 {
 		if s.low != nil {
 			v = special.LogAddExp(v, s.work.logProb(s.low, min(max(p2+s.lowDelta, 0), 1), p2))
 		}
+		s.keep(theta, p2, v)
 		return v
 	}
 	// The cutoff is relative to the largest value seen, but never below
 	// what a result of linearFloor needs: smaller values are redone in log
 	// space anyway, and a cutoff of 0 would let the binomial windows run on
 	// through subnormal numbers (whose products round back to themselves),
-	// a third of the range at slow subnormal speed.
+	// a third of the range at slow subnormal speed. The proof's allowance
+	// counts the terms skipped below whatever cutoff is used.
 	cutoff := 1e-13 * max(s.best, linearFloor) / float64(s.reg.n1+s.reg.n2+2)
+	if s.prove {
+		v, e := s.work.probErr(s.reg, p1, p2, cutoff)
+		s.lastErr = e + lineAllowance(v, s.reg.n1, p1, s.delta)
+		s.best = max(s.best, v)
+		s.keep(theta, p2, v)
+		return v
+	}
 	v := s.work.prob(s.reg, p1, p2, cutoff)
 	if s.low != nil {
 		v += s.work.prob(s.low, min(max(p2+s.lowDelta, 0), 1), p2, cutoff)
 	}
 	s.best = max(s.best, v)
 	return v
+}
+
+// keep records the best evaluated point when proving.
+func (s *nuisanceSearch) keep(theta, p2, v float64) {
+	if s.prove && (!s.hasBest || v > s.bestPoint.val) {
+		s.bestPoint, s.hasBest = boundPoint{theta: theta, pi2: p2, val: v, up: s.upper(v)}, true
+	}
 }
 
 // supremum returns the log of the largest tail probability over the
@@ -131,6 +160,7 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 		}
 	}
 	s.logScale = true
+	s.grid, s.hasBest = s.grid[:0], false
 	return s.search()
 }
 
@@ -147,6 +177,9 @@ func (s *nuisanceSearch) search() (value, pi2 float64) {
 	vals := make([]float64, g)
 	for i := range vals {
 		vals[i] = s.at(float64(i) * step)
+		if s.prove {
+			s.grid = append(s.grid, boundPoint{theta: float64(i) * step, pi2: s.pi2(float64(i) * step), val: vals[i], up: s.upper(vals[i])})
+		}
 	}
 	top := 0
 	for i, v := range vals {

@@ -47,7 +47,7 @@ var allNames = []string{
 // optionalFields are the only fields the library may leave out of an
 // object (they carry omitempty in Go): every other documented field must
 // be required.
-var optionalFields = map[string]bool{"df": true, "critical_value": true, "nuisance": true, "nntb": true, "nnth": true,
+var optionalFields = map[string]bool{"df": true, "critical_value": true, "nuisance": true, "p_value_bound": true, "nntb": true, "nnth": true,
 	"trial_limit": true, "symmetric": true, "continuity_corrected": true}
 
 func compileAll(t *testing.T) map[string]*jsonschema.Schema {
