@@ -38,19 +38,20 @@
 #
 #   BENCH='^BenchmarkAnalyze$' scripts/bench-versus.sh ../old
 #   BENCH='^BenchmarkFisher$/^n1e6$/^near$/^fisher-test$/^two-sided$' scripts/bench-versus.sh ../old 15
-#   BENCH_SKIP='Previous|/previous$|/old-|/gonum-' scripts/bench-versus.sh ../old
+#   BENCH_SKIP='Previous|/old-|/gonum-|///^previous$' scripts/bench-versus.sh ../old
 #
 # Environment:
 #   BENCH       -test.bench pattern, in the new names (default "."); the old
-#               binaries get the same pattern with each slash-separated part
+#               binaries get the same pattern with each part between / and |
 #               that is a renamed key or function (bare or in ^…$) put back
 #               to its old name
 #   BENCH_OLD   the pattern for the old binaries, when that rewriting is not
 #               enough
-#   BENCH_SKIP  -test.skip pattern for both sides (default none); e.g.
-#               'Previous|/previous$|/old-|/gonum-' leaves out the yardsticks
-#               (previous implementations kept in the tests, and gonum), a
-#               quarter of the cases
+#   BENCH_SKIP  -test.skip pattern for both sides (default none), put back
+#               to the old names like BENCH; e.g.
+#               'Previous|/old-|/gonum-|///^previous$' leaves out the
+#               yardsticks (previous implementations kept in the tests, and
+#               gonum), 69 of the 241 cases
 #   BENCH_CASES a file of case names (new names, as in the table's first
 #               column), one a line: exactly those cases are run
 #   SLOWER      a file to write the names of the cases slower by more than
