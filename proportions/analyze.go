@@ -204,13 +204,8 @@ func (a *Analysis) intervalsOf(ctx context.Context, f methodFilter, c Counts, co
 				continue
 			}
 			iv, err := m.intervalContext(ctx, c, conf, AnalysisCost)
-			switch {
-			case errors.Is(err, ErrTooLarge):
-				a.skipCostly(m.Name, err)
-			case err != nil:
+			if out, err = keepCostly(a, out, iv, m.Name, err); err != nil {
 				return out, err
-			default:
-				out = append(out, iv)
 			}
 		}
 	}
@@ -234,15 +229,25 @@ func (a *Analysis) testsOf(ctx context.Context, f methodFilter, c Counts, h Hypo
 				continue
 			}
 			r, err := m.runContext(ctx, c, h, AnalysisCost)
-			switch {
-			case errors.Is(err, ErrTooLarge):
-				a.skipCostly(m.Name, err)
-			case err != nil:
+			if out, err = keepCostly(a, out, r, m.Name, err); err != nil {
 				return out, err
-			default:
-				out = append(out, r)
 			}
 		}
+	}
+	return out, nil
+}
+
+// keepCostly appends a costly method's result v to out; a method refused
+// for its cost (ErrTooLarge) is recorded as skipped instead, and any other
+// error (the context's) is passed on.
+func keepCostly[T any](a *Analysis, out []T, v T, name string, err error) ([]T, error) {
+	switch {
+	case errors.Is(err, ErrTooLarge):
+		a.skipCostly(name, err)
+	case err != nil:
+		return out, err
+	default:
+		out = append(out, v)
 	}
 	return out, nil
 }
