@@ -57,16 +57,23 @@ func TestExactRestricted(t *testing.T) {
 	}
 }
 
+// bruteScoreZ returns the score statistic of each table of c's design at
+// δ, with the restricted estimates found by likelihood maximisation (no
+// closed form): the slow, independent definition the brute-force checks use.
+func bruteScoreZ(c Counts, delta float64) func(x1, x2 int64) float64 {
+	return func(x1, x2 int64) float64 {
+		t := Counts{x1, c.N1, x2, c.N2}
+		q1, q2 := restrictedByLikelihood(t, delta)
+		return zRatio(t.P1()-t.P2()-delta, q1*(1-q1)/float64(c.N1)+q2*(1-q2)/float64(c.N2))
+	}
+}
+
 // bruteScoreP is the exact unconditional score-test p-value at δ computed
 // the slow way: restricted estimates by likelihood maximisation for every
 // table, the tail summed table by table, the supremum over 1000 grid values
 // of π2 plus golden refinement around the best.
 func bruteScoreP(c Counts, delta float64, side regionSide) float64 {
-	z := func(x1, x2 int64) float64 {
-		t := Counts{x1, c.N1, x2, c.N2}
-		q1, q2 := restrictedByLikelihood(t, delta)
-		return zRatio(t.P1()-t.P2()-delta, q1*(1-q1)/float64(c.N1)+q2*(1-q2)/float64(c.N2))
-	}
+	z := bruteScoreZ(c, delta)
 	obs := z(c.X1, c.X2)
 	in := make([][]bool, c.N1+1)
 	for x1 := range in {

@@ -123,17 +123,8 @@ const unitRoundoff = 0x1p-53
 // value ± err (see the floating-point notes above).
 func (w *tailWork) probErr(r *region, p1, p2, cutoff float64) (value, err float64) {
 	w.evals++
-	l1, h1 := fillBinomial(w.b1, r.n1, p1, cutoff, w.recip)
-	l2, h2 := fillBinomial(w.b2, r.n2, p2, cutoff, w.recip)
-	pre, suf, b2 := w.pre, w.suf, w.b2
-	pre[l2] = 0
-	for j := l2; j <= h2; j++ {
-		pre[j+1] = pre[j] + b2[j]
-	}
-	suf[h2+1] = 0
-	for j := h2; j >= l2; j-- {
-		suf[j] = suf[j+1] + b2[j]
-	}
+	l1, h1, l2, h2 := w.fill(r, p1, p2, cutoff)
+	pre, suf := w.pre, w.suf
 	total, mag := 0.0, 0.0
 	runs := 0
 	for x1 := l1; x1 <= h1; x1++ {

@@ -249,11 +249,7 @@ func bruteRegion(c Counts, s OrderingStatistic, side regionSide, delta float64) 
 	if delta == 0 {
 		return newBruteTail(c, s, side).in
 	}
-	z := func(x1, x2 int64) float64 {
-		t := Counts{x1, c.N1, x2, c.N2}
-		q1, q2 := restrictedByLikelihood(t, delta)
-		return zRatio(t.P1()-t.P2()-delta, q1*(1-q1)/float64(c.N1)+q2*(1-q2)/float64(c.N2))
-	}
+	z := bruteScoreZ(c, delta)
 	obs := z(c.X1, c.X2)
 	in := make([][]bool, c.N1+1)
 	for x1 := range in {

@@ -70,6 +70,24 @@ func fillBinomial(b []float64, n int, p, cutoff float64, recip []float64) (lo, h
 	return lo, hi
 }
 
+// fill computes both groups' binomial terms at (p1, p2) above cutoff
+// and the second group's prefix and suffix sums over its window, for prob
+// and probErr; it returns the two windows.
+func (w *tailWork) fill(r *region, p1, p2, cutoff float64) (l1, h1, l2, h2 int) {
+	l1, h1 = fillBinomial(w.b1, r.n1, p1, cutoff, w.recip)
+	l2, h2 = fillBinomial(w.b2, r.n2, p2, cutoff, w.recip)
+	pre, suf, b2 := w.pre, w.suf, w.b2
+	pre[l2] = 0
+	for j := l2; j <= h2; j++ {
+		pre[j+1] = pre[j] + b2[j]
+	}
+	suf[h2+1] = 0
+	for j := h2; j >= l2; j-- {
+		suf[j] = suf[j+1] + b2[j]
+	}
+	return l1, h1, l2, h2
+}
+
 // prob returns the probability of the region when X1 ~ Binomial(n1, p1) and
 // X2 ~ Binomial(n2, p2) independently:
 //
@@ -83,17 +101,8 @@ func fillBinomial(b []float64, n int, p, cutoff float64, recip []float64) (lo, h
 // set ε relative to the p-value (not to 1) and tiny p-values stay accurate.
 func (w *tailWork) prob(r *region, p1, p2, cutoff float64) float64 {
 	w.evals++
-	l1, h1 := fillBinomial(w.b1, r.n1, p1, cutoff, w.recip)
-	l2, h2 := fillBinomial(w.b2, r.n2, p2, cutoff, w.recip)
-	pre, suf, b2 := w.pre, w.suf, w.b2
-	pre[l2] = 0
-	for j := l2; j <= h2; j++ {
-		pre[j+1] = pre[j] + b2[j]
-	}
-	suf[h2+1] = 0
-	for j := h2; j >= l2; j-- {
-		suf[j] = suf[j+1] + b2[j]
-	}
+	l1, h1, l2, h2 := w.fill(r, p1, p2, cutoff)
+	pre, suf := w.pre, w.suf
 	total := 0.0
 	for x1 := l1; x1 <= h1; x1++ {
 		row := 0.0
