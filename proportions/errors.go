@@ -22,6 +22,9 @@ var (
 	ErrEmptyInput = errors.New("empty input")
 	// ErrMissingColumn: a named column is not in the CSV header.
 	ErrMissingColumn = errors.New("missing column")
+	// ErrDuplicateValue: a value of a breakdown column (a stratum, a
+	// segment, a cluster) appears in more than one row.
+	ErrDuplicateValue = errors.New("value appears more than once")
 	// ErrMalformedRow: a CSV row cannot be read (its line number is in the message).
 	ErrMalformedRow = errors.New("malformed row")
 	// ErrLevel: a confidence level is outside [MinLevel, MaxLevel], a

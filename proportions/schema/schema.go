@@ -65,6 +65,9 @@ const (
 	// Bayes describes bayes.Analysis, from bayes.Analyze: the Bayesian
 	// view of a comparison.
 	Bayes = "bayes"
+	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
+	// comparison broken down by the values of one column.
+	Breakdown = "breakdown"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"

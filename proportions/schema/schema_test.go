@@ -41,7 +41,7 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes,
+	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -739,6 +739,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkOperating(t, c)
 	checkRegistry(t, c)
 	checkBayes(t, c)
+	checkBreakdowns(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -899,6 +900,9 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"null hypotheses", region, schema.RejectionRegion, func(d obj) { d["decision"].(obj)["hypotheses"] = nil }},
 		{"a test with an interval's field", proportions.BarnardTest, schema.Method, func(d obj) { d["symmetric"] = true }},
 		{"an interval method without its scale", proportions.Mee, schema.Method, func(d obj) { delete(d, "scale") }},
+		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
+			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
+		}},
 	}
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)
@@ -929,7 +933,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
-		operating.Decision{}, &operating.RejectionRegion{},
+		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
