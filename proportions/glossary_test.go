@@ -20,6 +20,7 @@ var glossaryPackages = map[string]string{
 	"planning":    "planning",
 	"operating":   "operating",
 	"bayes":       "bayes",
+	"clusters":    "clusters",
 	"notebookui":  "../notebookui",
 }
 
