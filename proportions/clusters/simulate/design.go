@@ -17,27 +17,28 @@ const (
 	MaxClusterSize = 100_000
 	// MaxStudies is the largest number of simulated studies of one run.
 	MaxStudies = 10_000_000
-	// MaxICC is the largest ICC a design may state: at ρ = 1 every cluster
-	// is all events or all non-events and the beta shapes vanish.
-	MaxICC = 0.99
+	// MaxCorrelation is the largest intracluster correlation ρ a design may
+	// state: at ρ = 1 every cluster is all events or all non-events and the
+	// beta shapes vanish.
+	MaxCorrelation = 0.99
 )
 
 // Design is what a simulation draws: two groups of clusters, the units per
-// cluster, the true rates and the ICC. Cluster i of a group has
-// Sizes[i mod len(Sizes)] units, so one size gives equal clusters and a list
-// gives unequal ones in a fixed order. Each cluster's own rate is drawn from
-// the beta distribution with mean Rate1 (or Rate2) and intraclass
-// correlation ICC, then its events from the binomial distribution at that
-// rate (the beta-binomial model); ICC = 0 draws every cluster at the
-// group's rate, plain binomial sampling.
+// cluster, the true rates and the intracluster correlation ρ. Cluster i of
+// a group has Sizes[i mod len(Sizes)] units, so one size gives equal
+// clusters and a list gives unequal ones in a fixed order. Each cluster's
+// own rate is drawn from the beta distribution with mean Rate1 (or Rate2)
+// and intracluster correlation ρ = Correlation, then its events from the
+// binomial distribution at that rate (the beta-binomial model); ρ = 0
+// draws every cluster at the group's rate, plain binomial sampling.
 type Design struct {
-	Clusters1 int     `json:"clusters1"`
-	Clusters2 int     `json:"clusters2"`
-	Sizes     []int   `json:"sizes"`
-	Rate1     float64 `json:"rate1"`
-	Rate2     float64 `json:"rate2"`
-	ICC       float64 `json:"icc"`
-	Level     float64 `json:"level"`
+	Clusters1   int     `json:"clusters1"`
+	Clusters2   int     `json:"clusters2"`
+	Sizes       []int   `json:"sizes"`
+	Rate1       float64 `json:"rate1"`
+	Rate2       float64 `json:"rate2"`
+	Correlation float64 `json:"correlation"`
+	Level       float64 `json:"level"`
 }
 
 // Validate returns an error wrapping proportions.ErrSimulation (or ErrLevel)
@@ -61,8 +62,8 @@ func (d Design) Validate() error {
 			return fmt.Errorf("true rate of group %d = %v: %w; a rate lies between 0 and 1", i+1, r, proportions.ErrSimulation)
 		}
 	}
-	if !(d.ICC >= 0 && d.ICC <= MaxICC) {
-		return fmt.Errorf("ICC = %v: %w; the ICC lies between 0 and %v", d.ICC, proportions.ErrSimulation, MaxICC)
+	if !(d.Correlation >= 0 && d.Correlation <= MaxCorrelation) {
+		return fmt.Errorf("intracluster correlation ρ = %v: %w; ρ lies between 0 and %v", d.Correlation, proportions.ErrSimulation, MaxCorrelation)
 	}
 	return proportions.ValidateLevel(d.Level)
 }
@@ -89,14 +90,14 @@ func (d Design) Truth() float64 { return d.Rate1 - d.Rate2 }
 // whose intraclass correlation is ρ = 1/(α + β + 1). It reports fixed when
 // every cluster has the group's rate (ρ = 0, or a rate of 0 or 1).
 func (d Design) shapes(pi float64) (a, b float64, fixed bool) {
-	if d.ICC == 0 || pi == 0 || pi == 1 {
+	if d.Correlation == 0 || pi == 0 || pi == 1 {
 		return 0, 0, true
 	}
-	k := (1 - d.ICC) / d.ICC
+	k := (1 - d.Correlation) / d.Correlation
 	return pi * k, (1 - pi) * k, false
 }
 
-// String prints "2 × 20 clusters of 25 units, rates 80% and 70%, ICC 0.05, 95% level".
+// String prints "2 × 20 clusters of 25 units, rates 80% and 70%, intracluster correlation 0.05, 95% level".
 func (d Design) String() string {
 	sizes := make([]string, len(d.Sizes))
 	for i, n := range d.Sizes {
@@ -110,8 +111,8 @@ func (d Design) String() string {
 	if d.Clusters1 == d.Clusters2 {
 		groups = fmt.Sprintf("2 × %d clusters", d.Clusters1)
 	}
-	return fmt.Sprintf("%s %s, rates %s and %s, ICC %s, %s level", groups, of,
-		pct(d.Rate1), pct(d.Rate2), strconv.FormatFloat(d.ICC, 'g', 4, 64), pct(d.Level))
+	return fmt.Sprintf("%s %s, rates %s and %s, intracluster correlation %s, %s level", groups, of,
+		pct(d.Rate1), pct(d.Rate2), strconv.FormatFloat(d.Correlation, 'g', 4, 64), pct(d.Level))
 }
 
 // pct prints 0.8 as "80%" and 0.955 as "95.5%".

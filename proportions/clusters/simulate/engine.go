@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"runtime"
-	"strconv"
 	"sync"
 	"sync/atomic"
 
@@ -36,10 +35,10 @@ type Plan struct {
 const DefaultStudies = 10_000
 
 // NewPlan returns a plan for k clusters of n units in each group at the
-// given rates and ICC, at the 95% level, with DefaultStudies studies and
-// seed 1.
-func NewPlan(k, n int, rate1, rate2, icc float64) Plan {
-	return Plan{Design: Design{Clusters1: k, Clusters2: k, Sizes: []int{n}, Rate1: rate1, Rate2: rate2, ICC: icc, Level: 0.95},
+// given rates and intracluster correlation ρ, at the 95% level, with
+// DefaultStudies studies and seed 1.
+func NewPlan(k, n int, rate1, rate2, correlation float64) Plan {
+	return Plan{Design: Design{Clusters1: k, Clusters2: k, Sizes: []int{n}, Rate1: rate1, Rate2: rate2, Correlation: correlation, Level: 0.95},
 		Studies: DefaultStudies, Seed: 1, By: clusters.DefaultColumn}
 }
 
@@ -123,16 +122,16 @@ func (r *runner) newTally() tally {
 func (r *runner) run(ctx context.Context, stream uint64, p Plan, workers int, prog *progress) (*Result, error) {
 	chunks := (p.Studies + chunkStudies - 1) / chunkStudies
 	tallies := make([]tally, chunks)
-	err := parallel(ctx, workers, chunks, func(w *worker, i int) error {
+	err := parallel(ctx, workers, chunks, func(i int) error {
 		n := min(chunkStudies, p.Studies-i*chunkStudies)
-		t, err := w.chunk(ctx, r, p.Design, newSampler(p.Seed, stream, uint64(i)), n)
+		t, err := chunk(ctx, r, p.Design, newSampler(p.Seed, stream, uint64(i)), n)
 		if err != nil {
 			return err
 		}
 		tallies[i] = t
 		prog.add(n)
 		return nil
-	}, func() *worker { return newWorker(p) })
+	})
 	if err != nil {
 		return nil, err
 	}
@@ -151,29 +150,8 @@ func (r *runner) run(ctx context.Context, stream uint64, p Plan, workers int, pr
 	return r.result(p, total), nil
 }
 
-// worker is one goroutine's reusable study: its clusters are overwritten
-// for every study, so a run allocates per chunk, not per study.
-type worker struct{ data clusters.Data }
-
-func newWorker(p Plan) *worker {
-	d := p.Design
-	mk := func(prefix string, k int) []clusters.Cluster {
-		out := make([]clusters.Cluster, k)
-		for i := range out {
-			out[i] = clusters.Cluster{Value: prefix + strconv.Itoa(i+1), Trials: d.size(i)}
-		}
-		return out
-	}
-	by := p.By
-	if by == "" {
-		by = clusters.DefaultColumn
-	}
-	return &worker{data: clusters.Data{By: by, First: p.Labels.First, Second: p.Labels.Second, Event: p.Labels.Event,
-		Group1: mk("a", d.Clusters1), Group2: mk("b", d.Clusters2)}}
-}
-
 // chunk simulates n studies from one stream and tallies every method.
-func (w *worker) chunk(ctx context.Context, r *runner, d Design, s *sampler, n int) (tally, error) {
+func chunk(ctx context.Context, r *runner, d Design, s *sampler, n int) (tally, error) {
 	t := r.newTally()
 	truth := d.Truth()
 	a1, b1, fixed1 := d.shapes(d.Rate1)
@@ -184,18 +162,19 @@ func (w *worker) chunk(ctx context.Context, r *runner, d Design, s *sampler, n i
 				return tally{}, err
 			}
 		}
-		draw(s, w.data.Group1, d.Rate1, a1, b1, fixed1)
-		draw(s, w.data.Group2, d.Rate2, a2, b2, fixed2)
-		pooled := w.data.Totals()
+		sum := clusters.Summary{
+			Group1: draw(s, d, d.Clusters1, d.Rate1, a1, b1, fixed1),
+			Group2: draw(s, d, d.Clusters2, d.Rate2, a2, b2, fixed2),
+		}
 		for k, m := range r.intervals {
-			lo, hi, ok := m.Limits(&w.data, pooled, r.conf)
+			lo, hi, ok := m.Limits(&sum, r.conf)
 			if !ok || math.IsNaN(lo) || math.IsNaN(hi) {
 				continue
 			}
 			t.intervals[k].add(lo, hi, truth)
 		}
 		for k, m := range r.tests {
-			rej, ok := m.Rejects(&w.data, pooled, r.conf)
+			rej, ok := m.Rejects(&sum, r.conf)
 			if !ok {
 				continue
 			}
@@ -224,22 +203,26 @@ func (a *intervalTally) add(lo, hi, truth float64) {
 	a.width2 += w * w
 }
 
-// draw fills one group's events: each cluster's rate from Beta(a, b)
-// (the group's rate itself when fixed), then its events from the binomial.
-func draw(s *sampler, g []clusters.Cluster, rate, a, b float64, fixed bool) {
-	for i := range g {
+// draw simulates one group's k clusters and returns their sums: each
+// cluster's rate from Beta(a, b) (the group's rate itself when fixed),
+// then its events from the binomial at that rate.
+func draw(s *sampler, d Design, k int, rate, a, b float64, fixed bool) clusters.GroupSummary {
+	var g clusters.GroupSummary
+	for i := range k {
 		p := rate
 		if !fixed {
 			p = s.beta(a, b)
 		}
-		g[i].Events = s.binomial(g[i].Trials, p)
+		n := d.size(i)
+		g.Add(s.binomial(n, p), n)
 	}
+	return g
 }
 
 // parallel runs job(i) for i in [0, n) on up to workers goroutines (all
-// cores when workers ≤ 0), each with its own worker state, and returns the
-// first error; the others stop at their next job.
-func parallel(ctx context.Context, workers, n int, job func(w *worker, i int) error, state func() *worker) error {
+// cores when workers ≤ 0) and returns the first error; the others stop at
+// their next job.
+func parallel(ctx context.Context, workers, n int, job func(i int) error) error {
 	if workers <= 0 {
 		workers = runtime.GOMAXPROCS(0)
 	}
@@ -253,7 +236,6 @@ func parallel(ctx context.Context, workers, n int, job func(w *worker, i int) er
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			w := state()
 			for !failed.Load() {
 				i := int(next.Add(1) - 1)
 				if i >= n {
@@ -261,7 +243,7 @@ func parallel(ctx context.Context, workers, n int, job func(w *worker, i int) er
 				}
 				err := ctx.Err()
 				if err == nil {
-					err = job(w, i)
+					err = job(i)
 				}
 				if err != nil {
 					failed.Store(true)

@@ -18,11 +18,11 @@ type IntervalMethod struct {
 	Name string
 	// Adjusted is true for a method that accounts for the clusters.
 	Adjusted bool
-	// Limits returns the reported limits for one simulated study, given its
-	// clusters and their pooled counts; ok is false when the method gives
-	// no interval for these data (the study is then counted as undefined
-	// for this method, never dropped silently).
-	Limits func(d *clusters.Data, pooled proportions.Counts, conf proportions.Confidence) (lower, upper float64, ok bool)
+	// Limits returns the reported limits for one simulated study, given the
+	// sums over its clusters (whose Counts are the pooled counts); ok is
+	// false when the method gives no interval for these data (the study is
+	// then counted as undefined for this method, never dropped silently).
+	Limits func(s *clusters.Summary, conf proportions.Confidence) (lower, upper float64, ok bool)
 }
 
 // TestMethod is a test of equal rates as a simulation runs it, naive or
@@ -37,15 +37,15 @@ type TestMethod struct {
 	// Rejects tells whether the two-sided test of equal rates rejects at
 	// α = 1 − conf.Level for one simulated study; ok is false when the
 	// test gives no answer for these data.
-	Rejects func(d *clusters.Data, pooled proportions.Counts, conf proportions.Confidence) (reject, ok bool)
+	Rejects func(s *clusters.Summary, conf proportions.Confidence) (reject, ok bool)
 }
 
 // NaiveInterval wraps a registered interval method on the difference scale
 // so that it runs on the pooled counts, ignoring the clusters.
 func NaiveInterval(m proportions.IntervalMethod) IntervalMethod {
 	return IntervalMethod{Key: m.Key, Name: m.Name,
-		Limits: func(_ *clusters.Data, c proportions.Counts, conf proportions.Confidence) (float64, float64, bool) {
-			iv := m.IntervalAt(c, conf)
+		Limits: func(s *clusters.Summary, conf proportions.Confidence) (float64, float64, bool) {
+			iv := m.IntervalAt(s.Counts(), conf)
 			return iv.Lower, iv.Upper, true
 		}}
 }
@@ -54,9 +54,9 @@ func NaiveInterval(m proportions.IntervalMethod) IntervalMethod {
 // scale's no-effect null, two-sided) on the pooled counts.
 func NaiveTest(m proportions.TestMethod) TestMethod {
 	return TestMethod{Key: m.Key, Name: m.Name,
-		Rejects: func(_ *clusters.Data, c proportions.Counts, conf proportions.Confidence) (bool, bool) {
+		Rejects: func(s *clusters.Summary, conf proportions.Confidence) (bool, bool) {
 			h := proportions.Hypothesis{Null: m.Scale.NoEffect(), Alternative: proportions.TwoSided, Conf: conf}
-			return m.Run(c, h).Reject, true
+			return m.Run(s.Counts(), h).Reject, true
 		}}
 }
 
@@ -84,11 +84,42 @@ func Tests() []TestMethod {
 	return append(out, adjustedTests()...)
 }
 
+// AdjustedInterval wraps a clustered interval method of package clusters.
+func AdjustedInterval(m clusters.IntervalMethod) IntervalMethod {
+	return IntervalMethod{Key: m.Key, Name: m.Name, Adjusted: true,
+		Limits: func(s *clusters.Summary, conf proportions.Confidence) (float64, float64, bool) {
+			iv := m.IntervalAt(*s, conf)
+			return iv.Lower, iv.Upper, true
+		}}
+}
+
+// AdjustedTest wraps a clustered test of package clusters, two-sided at
+// no difference.
+func AdjustedTest(m clusters.TestMethod) TestMethod {
+	return TestMethod{Key: m.Key, Name: m.Name, Adjusted: true,
+		Rejects: func(s *clusters.Summary, conf proportions.Confidence) (bool, bool) {
+			h := proportions.Hypothesis{Null: 0, Alternative: proportions.TwoSided, Conf: conf}
+			return m.Run(*s, h).Reject, true
+		}}
+}
+
 // adjustedIntervals lists the methods that account for the clusters.
-func adjustedIntervals() []IntervalMethod { return nil }
+func adjustedIntervals() []IntervalMethod {
+	var out []IntervalMethod
+	for _, m := range clusters.IntervalMethods() {
+		out = append(out, AdjustedInterval(m))
+	}
+	return out
+}
 
 // adjustedTests lists the tests that account for the clusters.
-func adjustedTests() []TestMethod { return nil }
+func adjustedTests() []TestMethod {
+	var out []TestMethod
+	for _, m := range clusters.Tests() {
+		out = append(out, AdjustedTest(m))
+	}
+	return out
+}
 
 // pick keeps the methods whose keys are listed (all when keys is empty),
 // in registry order; an unknown key is an error wrapping

@@ -39,8 +39,8 @@ func splitMix(z uint64) uint64 {
 // method for generating gamma variables", ACM Transactions on Mathematical
 // Software 26(3)); for a < 1 it draws Gamma(a + 1) and multiplies by
 // U^(1/a), the boost given in the same paper. Working with the logarithm
-// keeps tiny shapes (a high ICC at a rate near 0 or 1) from underflowing to
-// 0, which would make the beta draw 0/0.
+// keeps tiny shapes (a high intracluster correlation at a rate near 0 or
+// 1) from underflowing to 0, which would make the beta draw 0/0.
 func (s *sampler) logGamma(a float64) float64 {
 	boost := 0.0
 	if a < 1 {

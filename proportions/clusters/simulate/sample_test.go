@@ -49,7 +49,7 @@ func TestBetaBinomialMoments(t *testing.T) {
 		{25, 0.3, 0.1, 200_000}, {25, 0.8, 0.05, 200_000}, {10, 0.05, 0.5, 200_000},
 		{40, 0.97, 0.9, 200_000}, {3000, 0.4, 0.02, 50_000}, {25, 0.5, 0, 200_000},
 	} {
-		d := Design{ICC: tc.icc}
+		d := Design{Correlation: tc.icc}
 		a, b, fixed := d.shapes(tc.pi)
 		s := newSampler(42, 7, uint64(tc.n))
 		rates := make([]float64, tc.draws)
