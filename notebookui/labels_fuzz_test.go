@@ -76,6 +76,8 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	sim, err := SimulatedCoverageChart(handCurve(event, first, second))
+	add("simulated coverage chart", sim, err)
 	return names, ds
 }
 

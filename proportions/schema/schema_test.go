@@ -18,6 +18,7 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
@@ -42,6 +43,7 @@ var allNames = []string{
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
+	schema.Simulation, schema.SimulationCurve,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -740,6 +742,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkRegistry(t, c)
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
+	checkSimulations(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -900,6 +903,11 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"null hypotheses", region, schema.RejectionRegion, func(d obj) { d["decision"].(obj)["hypotheses"] = nil }},
 		{"a test with an interval's field", proportions.BarnardTest, schema.Method, func(d obj) { d["symmetric"] = true }},
 		{"an interval method without its scale", proportions.Mee, schema.Method, func(d obj) { delete(d, "scale") }},
+		{"a simulated coverage above 1", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["coverage"] = 1.2 }},
+		{"null simulated tests", mustSimulation(t), schema.Simulation, func(d obj) { d["tests"] = nil }},
+		{"a coverage where no study gave an interval", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["studies"] = 0 }},
+		{"a simulation with one cluster", mustSimulation(t), schema.Simulation, func(d obj) { d["plan"].(obj)["design"].(obj)["clusters1"] = 1 }},
+		{"a curve without its correlations", mustCurve(t), schema.SimulationCurve, func(d obj) { delete(d, "correlations") }},
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
@@ -934,6 +942,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
+		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
