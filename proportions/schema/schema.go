@@ -68,6 +68,9 @@ const (
 	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
 	// comparison broken down by the values of one column.
 	Breakdown = "breakdown"
+	// Clusters describes clusters.Analysis, from clusters.Analyze: a
+	// clustered comparison with its unit-level analysis beside it.
+	Clusters = "clusters"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
