@@ -24,7 +24,7 @@ const simulatedCoverageTooltip = `function (ps) {
 
 // SimulatedCoverageChart draws the simulated coverage of every interval
 // method against the intracluster correlation ρ (a simulate.Curve from
-// simulate.Sweep): adjusted methods as solid lines, the naive ones run on
+// simulate.Sweep): adjusted methods as solid lines, the unit-level ones run on
 // the pooled counts as dashed lines, the nominal level as a line inside
 // the Monte Carlo band, the range of ±2 Monte Carlo SEs around nominal
 // within which a method that holds its level lands about 95% of the time.
@@ -101,7 +101,7 @@ func SimulatedCoverageChart(c *simulate.Curve, options ...ChartOption) (*Chart, 
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(simulatedCoverageTooltip)}
 	notes := []string{
-		fmt.Sprintf("Each point is the share of %d simulated studies whose interval contained the true difference; solid lines account for the clusters, dashed lines analyse the pooled counts as if every unit were independent.", p.Studies),
+		fmt.Sprintf("Each point is the share of %d simulated studies whose interval contained the true difference; solid lines account for the clusters, dashed lines are unit-level methods run on the pooled counts as if every unit were independent.", p.Studies),
 		fmt.Sprintf("The grey band is the nominal %s ± 2 Monte Carlo standard errors (%s points): a method that holds its level falls inside it about 95%% of the time; lines well below it miss the truth more often than their label promises.",
 			fmtLevel(nominal), strconv.FormatFloat(100*band, 'f', 2, 64)),
 	}
@@ -143,7 +143,7 @@ func yesNo(b bool) string {
 	if b {
 		return "yes"
 	}
-	return "no (pooled counts)"
+	return "no (unit-level)"
 }
 
 // niceCeil rounds an axis end up to a round tenth (or hundredth below 0.1).

@@ -74,6 +74,9 @@ const (
 	// SimulationCurve describes simulate.Curve, from simulate.Sweep: a
 	// simulation at several values of the intracluster correlation.
 	SimulationCurve = "simulation-curve"
+	// Clusters describes clusters.Analysis, from clusters.Analyze: a
+	// clustered comparison with its unit-level analysis beside it.
+	Clusters = "clusters"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"

@@ -18,6 +18,7 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
@@ -42,7 +43,7 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
+	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
 	schema.Simulation, schema.SimulationCurve,
 }
 
@@ -743,6 +744,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
 	checkSimulations(t, c)
+	checkClusters(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -908,6 +910,11 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a coverage where no study gave an interval", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["studies"] = 0 }},
 		{"a simulation with one cluster", mustSimulation(t), schema.Simulation, func(d obj) { d["plan"].(obj)["design"].(obj)["clusters1"] = 1 }},
 		{"a curve without its correlations", mustCurve(t), schema.SimulationCurve, func(d obj) { delete(d, "correlations") }},
+		{"a cluster with no units", mustClustered(t), schema.Clusters, func(d obj) {
+			d["data"].(obj)["group1"].([]any)[0].(obj)["trials"] = 0
+		}},
+		{"null other correlations", mustClustered(t), schema.Clusters, func(d obj) { d["other_correlations"] = nil }},
+		{"a design effect below 1", mustClustered(t), schema.Clusters, func(d obj) { d["design_effects"].([]any)[0].(obj)["value"] = 0.5 }},
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
@@ -941,7 +948,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
-		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
+		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
 		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
 	} {
 		b, err := json.Marshal(r)

@@ -9,7 +9,7 @@ import (
 )
 
 // IntervalMethod is an interval method for π1 − π2 as a simulation runs it:
-// a naive method of the registry applied to the pooled counts, or an
+// a unit-level (naive) method of the registry run on the pooled counts, or an
 // adjusted one that accounts for the clusters.
 type IntervalMethod struct {
 	// Key is the method's key in its registry.

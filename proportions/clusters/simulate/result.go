@@ -179,9 +179,9 @@ func (s SimulatedRejection) String() string {
 
 func tagged(name string, adjusted bool) string {
 	if adjusted {
-		return name + " (adjusted for clusters)"
+		return name + " (accounts for clusters)"
 	}
-	return name + " (ignoring clusters)"
+	return name + " (unit-level)"
 }
 
 func pctf(v float64) string { return fmt.Sprintf("%.2f%%", 100*v) }
