@@ -20,6 +20,7 @@ import (
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 )
@@ -305,7 +306,18 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff}}
+	sp := simulate.NewPlan(8, 20, 0.8, 0.7, 0)
+	sp.Studies, sp.By = 500, "tray"
+	sweep, err := simulate.Sweep(ctx, sp, []float64{0, 0.05, 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	simulated, err := notebookui.SimulatedCoverageChart(sweep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff},
+		{"simulated-coverage", simulated}}
 }
 
 // TestChartsDrawOffline writes each chart as a standalone page, opens it in

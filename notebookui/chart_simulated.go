@@ -63,26 +63,29 @@ func SimulatedCoverageChart(c *simulate.Curve, options ...ChartOption) (*Chart, 
 		if m.Adjusted {
 			style = "solid"
 		}
+		name := m.MethodName
+		if !m.Adjusted {
+			name += " (unit-level)"
+		}
 		line := map[string]any{
-			"type": "line", "name": m.MethodName, "data": data, "showSymbol": true, "symbol": markerShape(i), "symbolSize": 6,
+			"type": "line", "name": name, "data": data, "showSymbol": true, "symbol": markerShape(i), "symbolSize": 6,
 			"lineStyle": map[string]any{"color": paletteColor(i), "width": 2, "type": style},
 			"itemStyle": map[string]any{"color": paletteColor(i)},
 		}
 		if i == 0 {
 			line["markArea"] = map[string]any{"silent": true, "itemStyle": map[string]any{"color": "rgba(0,0,0,0.08)"},
-				"label": map[string]any{"position": "insideTopLeft", "color": "#444444"},
-				"data": []any{[]any{map[string]any{"yAxis": round9(nominal - band), "name": "Monte Carlo band: nominal ± 2 SE"},
+				"data": []any{[]any{map[string]any{"yAxis": round9(nominal - band)},
 					map[string]any{"yAxis": round9(math.Min(nominal+band, 1))}}}}
 			line["markLine"] = map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": []any{
 				map[string]any{"yAxis": nominal, "name": "nominal",
 					"lineStyle": map[string]any{"color": "#000000", "type": "solid", "width": 1},
-					"label":     map[string]any{"formatter": "nominal " + fmtLevel(nominal), "position": "insideEndTop", "color": "#000000"}}}}
+					"label":     map[string]any{"formatter": "nominal " + fmtLevel(nominal) + " ± 2 Monte Carlo SE", "position": "insideEndTop", "color": "#000000"}}}}
 		}
 		series = append(series, line)
-		legend = append(legend, map[string]any{"name": m.MethodName})
+		legend = append(legend, map[string]any{"name": name})
 	}
-	yMin := math.Max(0, math.Floor(low*20)/20)
-	yStep := niceStep((1 - yMin) / 6)
+	yStep := niceStep((1 - math.Max(0, math.Floor(low*20)/20)) / 6)
+	yMin := math.Max(0, math.Floor(low/yStep+1e-9)*yStep)
 	xMax := c.Correlations[len(c.Correlations)-1]
 	for _, rho := range c.Correlations {
 		xMax = math.Max(xMax, rho)
@@ -135,7 +138,7 @@ func simulationSubtitle(p simulate.Plan) string {
 		units += " in turn"
 	}
 	return fmt.Sprintf("%s %d and %s %d clusters by %s, %s; true rates %s and %s; %s level, seed %d",
-		first, d.Clusters1, second, d.Clusters2, by, units, fmtPct(d.Rate1), fmtPct(d.Rate2), fmtLevel(d.Level), p.Seed)
+		first, d.Clusters1, second, d.Clusters2, by, units, trimPct(d.Rate1), trimPct(d.Rate2), fmtLevel(d.Level), p.Seed)
 }
 
 // yesNo prints a flag in a table.
