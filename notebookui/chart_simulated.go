@@ -96,7 +96,8 @@ func SimulatedCoverageChart(c *simulate.Curve, options ...ChartOption) (*Chart, 
 		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: niceCeil(xMax), Name: "intracluster correlation ρ", NameLocation: "middle", NameGap: 30}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: yMin, Max: 1, MinInterval: yStep, MaxInterval: yStep, Name: axisName("simulated coverage", "%"),
 			NameLocation: "middle", NameGap: 46}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "130", Bottom: "56", ContainLabel: opts.Bool(true)}),
+		// The legend wraps at about four methods a row: the plot starts below it.
+		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: strconv.Itoa(90 + 24*((len(series)+3)/4)), Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
 	axisFormatter(option, "yAxis", percentAxisLabel)
@@ -108,7 +109,7 @@ func SimulatedCoverageChart(c *simulate.Curve, options ...ChartOption) (*Chart, 
 		fmt.Sprintf("The grey band is the nominal %s ± 2 Monte Carlo standard errors (%s points): a method that holds its level falls inside it about 95%% of the time; lines well below it miss the truth more often than their label promises.",
 			fmtLevel(nominal), strconv.FormatFloat(100*band, 'f', 2, 64)),
 	}
-	return newChart("simulated-coverage", title, subtitle, set.heightOr(defaultHeight+80), option, table, notes)
+	return newChart("simulated-coverage", title, subtitle, set.heightOr(defaultHeight+24*((len(series)+3)/4)+40), option, table, notes)
 }
 
 // simulationSubtitle describes the design: the groups' clusters, their
