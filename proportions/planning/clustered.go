@@ -279,4 +279,3 @@ func (g ClusteredPowerGrid) MarshalJSON() ([]byte, error) {
 	}
 	return json.Marshal(q)
 }
-
