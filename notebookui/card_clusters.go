@@ -39,8 +39,10 @@ type clusterTable struct {
 
 type clusterView struct {
 	Title, Lead, Conclusion, Caution string
-	Tables                           []clusterTable
-	Warnings                         []proportions.Warning
+	// Clustered is set when the lead is the clustered-units warning.
+	Clustered bool
+	Tables    []clusterTable
+	Warnings  []proportions.Warning
 }
 
 func (c ClusterCard) view() clusterView {
@@ -54,7 +56,7 @@ func (c ClusterCard) view() clusterView {
 		Lead: clusters.EffectiveSentence(d, a.EffectiveTotal()) + "."}
 	for _, w := range a.Warnings {
 		if w.Code == clusters.WarnClustered {
-			v.Lead = w.Message // the same sentence with what follows from it
+			v.Lead, v.Clustered = w.Message, true // the same sentence with what follows from it
 			continue
 		}
 		v.Warnings = append(v.Warnings, w)
@@ -117,7 +119,7 @@ func clusterWord(by string, n int) string {
 var clusterTemplate = template.Must(template.New("clusters").Parse(`<section class="ps-card" data-propscope="cluster-card" aria-label="{{.Title}}">
 <style>` + cardCSS + `</style>
 <h3 class="ps-title">{{.Title}}</h3>
-<p class="ps-lead" data-role="worth">{{.Lead}}</p>
+{{if .Clustered}}<ul class="ps-warnings"><li data-role="worth" data-code="clustered-units">{{.Lead}}</li></ul>{{else}}<p class="ps-lead" data-role="worth">{{.Lead}}</p>{{end}}
 <p class="ps-lead">{{.Conclusion}}</p>
 {{range .Tables}}<h4 class="ps-h">{{.Heading}}</h4>
 <div class="ps-scroll"><table class="ps-t">
@@ -126,7 +128,7 @@ var clusterTemplate = template.Must(template.New("clusters").Parse(`<section cla
 <tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 {{end}}{{if .Warnings}}<h4 class="ps-h">Warnings</h4>
-<ul class="ps-warn">{{range .Warnings}}
+<ul class="ps-warnings">{{range .Warnings}}
 <li data-code="{{.Code}}">{{.Message}}</li>{{end}}
 </ul>
 {{end}}<p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>

@@ -84,6 +84,14 @@ func TestClusterCardShowsTheAnalysis(t *testing.T) {
 	if strings.Contains(c.HTML(), "<script") {
 		t.Error("the card carries a script")
 	}
+	// The README quotes this card's sentence.
+	readme, err := os.ReadFile("../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if quote := clusters.EffectiveSentence(a.Data, a.EffectiveTotal()); !strings.Contains(strings.Join(strings.Fields(string(readme)), " "), quote) {
+		t.Errorf("README.md should quote %q", quote)
+	}
 	raw, err := c.JSON()
 	if err != nil {
 		t.Fatal(err)

@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"fmt"
+	"strconv"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
@@ -30,13 +31,16 @@ func ClusteredPowerChart(g planning.ClusteredPowerGrid, options ...ChartOption) 
 	target := g.Plan.Power
 	title := "Power against the number of clusters"
 	subtitle := fmt.Sprintf("%s; intracluster correlation %v", g.Plan, g.Correlation)
+	if g.SizeVariation > 0 {
+		subtitle += fmt.Sprintf(", cluster size variation %v", g.SizeVariation)
+	}
 	table := dataTable{Caption: fmt.Sprintf("Clusters per group reaching the target power of %s", fmtPct(target)),
 		Header: []string{"cluster size", "design effect", "fewest clusters drawn reaching target", "power there"}}
 	var series, legend []any
 	for i, l := range g.Lines {
-		name := fmt.Sprintf("clusters of %s", signless(l.ClusterSize, 1))
+		name := fmt.Sprintf("clusters of %s units", strconv.FormatFloat(l.ClusterSize, 'g', 4, 64))
 		data := make([][]float64, len(l.Points))
-		row := []string{signless(l.ClusterSize, 1), signless(l.DesignEffect, 2), "not reached", ""}
+		row := []string{strconv.FormatFloat(l.ClusterSize, 'g', 4, 64), signless(l.DesignEffect, 2), "not reached", ""}
 		for k, p := range l.Points {
 			data[k] = []float64{float64(p.Clusters), round6(p.Power), round6(p.EffectiveSize)}
 			if row[3] == "" && target > 0 && p.Power >= target {
