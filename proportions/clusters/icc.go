@@ -4,6 +4,8 @@ import (
 	"math"
 
 	"gonum.org/v1/gonum/stat/distuv"
+
+	"github.com/propscope/propscope/internal/special"
 )
 
 // Correlation is an estimate of the intracluster correlation ρ: the
@@ -106,16 +108,34 @@ func ANOVACorrelation(s Summary, level float64) Correlation {
 		return c
 	}
 	f := t.between / t.within
-	dist := distuv.F{D1: t.dfBetween, D2: t.dfWithin}
-	alpha := 1 - level
+	lo, hi := fQuantiles(t.dfBetween, t.dfWithin, 1-level)
 	fromF := func(v float64) float64 { return (v - 1) / (v + t.n0 - 1) }
-	c.Lower = fromF(f / dist.Quantile(1-alpha/2))
-	c.Upper = fromF(f / dist.Quantile(alpha/2))
+	c.Lower = fromF(f / hi)
+	c.Upper = fromF(f / lo)
 	c.IntervalDefined = !math.IsNaN(c.Lower) && !math.IsNaN(c.Upper)
 	if !c.IntervalDefined {
 		c.Lower, c.Upper = 0, 0
 	}
 	return c
+}
+
+// fQuantiles returns the α/2 and 1 − α/2 quantiles of the F distribution
+// on d1 and d2 degrees of freedom, from the beta quantiles of X =
+// d1·F/(d1·F + d2) ~ Beta(d1/2, d2/2): F = d2·x/(d1·(1 − x)). The upper
+// quantile is the lower one of the reflected Beta(d2/2, d1/2). Levels below
+// 50% (α above ½) go to gonum's F quantile.
+func fQuantiles(d1, d2, alpha float64) (lo, hi float64) {
+	if !(alpha > 0 && alpha <= 1) {
+		dist := distuv.F{D1: d1, D2: d2}
+		return dist.Quantile(alpha / 2), dist.Quantile(1 - alpha/2)
+	}
+	tail := special.NewBetaTail(alpha/2, 0)
+	x, y := special.BetaLowerQuantile(d1/2, d2/2, &tail)
+	lo = d2 * x / (d1 * y)
+	tail = special.NewBetaTail(alpha/2, 0)
+	y, x = special.BetaLowerQuantile(d2/2, d1/2, &tail) // 1 − X and X at the upper tail
+	hi = d2 * x / (d1 * y)
+	return lo, hi
 }
 
 // FleissCuzickCitation is the source of the kappa-type estimator.

@@ -7,6 +7,8 @@ import (
 	"os"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -154,6 +156,33 @@ func TestSumsAgainstDefinitions(t *testing.T) {
 		}
 		if got, want := FleissCuzickCorrelation(s).Estimate, bruteFleissCuzick(d.Group1, d.Group2); !near(got, want, 1e-12) {
 			t.Errorf("%s: Fleiss–Cuzick %.15g, from its definition %.15g", c.Name, got, want)
+		}
+	}
+}
+
+// The fast t quantile against gonum's StudentsT.Quantile, at the degrees
+// of freedom and levels a cluster-level analysis meets.
+func TestTQuantileAgainstGonum(t *testing.T) {
+	for _, df := range []float64{1, 2, 3, 5, 8, 14, 30, 98, 500, 10000} {
+		for _, alpha := range []float64{0.5, 0.2, 0.1, 0.05, 0.01, 1e-4} {
+			got := tQuantile(df, alpha)
+			want := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: df}.Quantile(1 - alpha/2)
+			if !near(got, want, 1e-9) {
+				t.Errorf("df %v, α %v: %.15g, gonum %.15g", df, alpha, got, want)
+			}
+		}
+	}
+}
+
+// The F quantiles from the beta solver against gonum's F.Quantile.
+func TestFQuantilesAgainstGonum(t *testing.T) {
+	for _, d := range [][2]float64{{1, 1}, {2, 30}, {6, 304}, {14, 1000}, {40, 12}, {200, 5000}} {
+		for _, alpha := range []float64{0.5, 0.1, 0.05, 0.001} {
+			lo, hi := fQuantiles(d[0], d[1], alpha)
+			dist := distuv.F{D1: d[0], D2: d[1]}
+			if wl, wh := dist.Quantile(alpha/2), dist.Quantile(1-alpha/2); !near(lo, wl, 1e-8) || !near(hi, wh, 1e-8) {
+				t.Errorf("F(%v, %v), α %v: (%.12g, %.12g), gonum (%.12g, %.12g)", d[0], d[1], alpha, lo, hi, wl, wh)
+			}
 		}
 	}
 }

@@ -6,6 +6,7 @@ import (
 
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/clusters"
+	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
 )
 
@@ -52,6 +53,7 @@ func checkClusters(t *testing.T, c *corpus) {
 		c.check(schema.Clusters, a)
 		c.check(schema.Analysis, a.Naive)
 	}
+	checkClusteredPlanning(t, c)
 }
 
 func mustClustered(t *testing.T) clusters.Analysis {
@@ -64,4 +66,42 @@ func mustClustered(t *testing.T) clusters.Analysis {
 		t.Fatal(err)
 	}
 	return a
+}
+
+// checkClusteredPlanning validates clustered plans with equal and unequal
+// cluster sizes, drop-out and an allocation ratio, and their power grids.
+func checkClusteredPlanning(t *testing.T, c *corpus) {
+	p := planning.NewPlan(planning.Equality, 0.6, 0.4)
+	q := planning.NewPlan(planning.NonInferiority, 0.8, 0.8)
+	q.Margin, q.Dropout, q.Allocation = -0.1, 0.1, 2
+	for _, plan := range []planning.Plan{p, q} {
+		for _, cl := range []planning.Clustering{{Size: 20, Correlation: 0.05}, {Size: 8.5, Correlation: 0, SizeVariation: 0.4}} {
+			res, err := planning.ClusteredSampleSize(plan, cl)
+			if err != nil {
+				t.Fatal(err)
+			}
+			c.check(schema.ClusteredSampleSize, res)
+		}
+		g, err := planning.ClusteredPowerByClusters(plan, 0.05, 0.2, []float64{5, 20, 50}, []int64{2, 5, 10, 40})
+		if err != nil {
+			t.Fatal(err)
+		}
+		c.check(schema.ClusteredPower, g)
+	}
+}
+
+func mustClusteredPlan(t *testing.T) planning.ClusteredSizeResult {
+	r, err := planning.ClusteredSampleSize(planning.NewPlan(planning.Equality, 0.6, 0.4), planning.Clustering{Size: 10, Correlation: 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func mustClusteredGrid(t *testing.T) planning.ClusteredPowerGrid {
+	g, err := planning.ClusteredPowerByClusters(planning.NewPlan(planning.Equality, 0.6, 0.4), 0.1, 0, []float64{10}, []int64{4})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return g
 }

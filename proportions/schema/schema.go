@@ -77,6 +77,12 @@ const (
 	// Clusters describes clusters.Analysis, from clusters.Analyze: a
 	// clustered comparison with its unit-level analysis beside it.
 	Clusters = "clusters"
+	// ClusteredSampleSize describes planning.ClusteredSizeResult, from
+	// ClusteredSampleSize.
+	ClusteredSampleSize = "clustered-sample-size"
+	// ClusteredPower describes planning.ClusteredPowerGrid, from
+	// ClusteredPowerByClusters.
+	ClusteredPower = "clustered-power"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"

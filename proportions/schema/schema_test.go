@@ -45,6 +45,7 @@ var allNames = []string{
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
 	schema.Simulation, schema.SimulationCurve,
+	schema.ClusteredSampleSize, schema.ClusteredPower,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -913,6 +914,8 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a cluster with no units", mustClustered(t), schema.Clusters, func(d obj) {
 			d["data"].(obj)["group1"].([]any)[0].(obj)["trials"] = 0
 		}},
+		{"one cluster per group", mustClusteredPlan(t), schema.ClusteredSampleSize, func(d obj) { d["clusters1"] = 1 }},
+		{"null power lines", mustClusteredGrid(t), schema.ClusteredPower, func(d obj) { d["lines"] = nil }},
 		{"null other correlations", mustClustered(t), schema.Clusters, func(d obj) { d["other_correlations"] = nil }},
 		{"a design effect below 1", mustClustered(t), schema.Clusters, func(d obj) { d["design_effects"].([]any)[0].(obj)["value"] = 0.5 }},
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
@@ -950,6 +953,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
 		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
+		planning.ClusteredSizeResult{}, planning.ClusteredPowerGrid{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
