@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"strings"
 	"sync"
 	"testing"
@@ -76,6 +77,11 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	forest, err := ForestChart(Forest{Title: "by " + event, Subtitle: first + " − " + second, Effect: event, Scale: proportions.Difference, Level: 0.95,
+		Rows: []ForestRow{{Label: first, Estimate: 0.1, Lower: -0.05, Upper: 0.25, Weight: 0.6, Note: second},
+			{Label: second, Estimate: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), Note: event}},
+		Summary: &ForestRow{Label: event, Estimate: 0.08, Lower: 0.01, Upper: 0.15}, Notes: []string{first}})
+	add("forest chart", forest, err)
 	return names, ds
 }
 
