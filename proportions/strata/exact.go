@@ -85,28 +85,37 @@ func newSumDistribution(ctx context.Context, ts []table) (sumDistribution, error
 }
 
 // convolveLog returns log Σ_{i+j=k} exp(a[i] + b[j]) for every k, each
-// sum taken relative to its largest term.
+// sum taken relative to its largest term. It looks at ctx about every 10⁵
+// pairs of terms, so a cancel is seen within a millisecond or so.
 func convolveLog(ctx context.Context, a, b []float64) ([]float64, error) {
+	every := max(1, (1<<17)/len(b))
 	peak := make([]float64, len(a)+len(b)-1)
 	for k := range peak {
 		peak[k] = math.Inf(-1)
 	}
 	for i, ai := range a {
-		for j, bj := range b {
-			peak[i+j] = math.Max(peak[i+j], ai+bj)
-		}
-	}
-	sums := make([]float64, len(peak))
-	for i, ai := range a {
-		if i%4096 == 4095 {
+		if i%every == every-1 {
 			if err := ctx.Err(); err != nil {
 				return nil, err
 			}
 		}
+		row := peak[i : i+len(b)]
 		for j, bj := range b {
-			if p := peak[i+j]; !math.IsInf(p, -1) {
-				sums[i+j] += math.Exp(ai + bj - p)
+			if v := ai + bj; v > row[j] {
+				row[j] = v
 			}
+		}
+	}
+	sums := make([]float64, len(peak))
+	for i, ai := range a {
+		if i%every == every-1 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
+		row, top := sums[i:i+len(b)], peak[i:i+len(b)]
+		for j, bj := range b {
+			row[j] += math.Exp(ai + bj - top[j])
 		}
 	}
 	for k := range sums {
