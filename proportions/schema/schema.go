@@ -68,6 +68,9 @@ const (
 	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
 	// comparison broken down by the values of one column.
 	Breakdown = "breakdown"
+	// Stratified describes strata.Analysis, from strata.Analyze: the
+	// stratified analysis of a breakdown.
+	Stratified = "stratified"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"

@@ -21,6 +21,7 @@ import (
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // The schemas are written by hand from the documented meaning of each
@@ -41,7 +42,7 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
+	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Stratified,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -740,6 +741,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkRegistry(t, c)
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
+	checkStratified(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -903,6 +905,10 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
+		{"null homogeneity", mustStratified(t), schema.Stratified, func(d obj) { d["homogeneity"] = nil }},
+		{"an unknown stratified warning", mustStratified(t), schema.Stratified, func(d obj) { first(d["warnings"])["code"] = "simpson" }},
+		{"a stratum weight above 1", mustStratified(t), schema.Stratified, func(d obj) { first(d["strata"])["weight"] = 1.5 }},
+		{"an estimate without its key", mustStratified(t), schema.Stratified, func(d obj) { delete(d["interval"].(obj), "key") }},
 	}
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)
@@ -933,7 +939,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
-		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
+		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, strata.Analysis{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
