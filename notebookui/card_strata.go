@@ -278,8 +278,8 @@ func StrataForestChart(a strata.Analysis, options ...ChartOption) (*Chart, error
 		Subtitle: fmt.Sprintf("%s − %s, %s intervals; diamond: common difference", b.First, b.Second, levelText(a.Interval.Level)),
 		Effect:   fmt.Sprintf("difference in share %s, %s − %s", b.Event, b.First, b.Second),
 		Scale:    proportions.Difference, Level: a.Interval.Level,
-		Summary: &ForestRow{Label: "common (" + a.Interval.Name + ")", Estimate: a.Interval.Estimate,
-			Lower: a.Interval.Lower, Upper: a.Interval.Upper},
+		Summary: &ForestRow{Label: "common difference", Estimate: a.Interval.Estimate,
+			Lower: a.Interval.Lower, Upper: a.Interval.Upper, Note: a.Interval.Name},
 		Notes: []string{fmt.Sprintf("Pooled over every %s, ignoring it, the difference is %s pp.", b.By, points(a.Crude.Difference, 1))},
 	}
 	for _, s := range a.Strata {

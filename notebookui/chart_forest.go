@@ -154,6 +154,11 @@ func ForestChart(f Forest, options ...ChartOption) (*Chart, error) {
 	)
 	option := optionOf(ch)
 	axisFormatter(option, "xAxis", ax.label)
+	// The category axis stays at the left edge; by default echarts draws it
+	// through the value 0, on top of the no-difference line.
+	y := firstAxis(option, "yAxis")
+	y["axisLine"] = map[string]any{"onZero": false}
+	y["axisTick"] = map[string]any{"show": false}
 	if ax.kind == "log" {
 		firstAxis(option, "xAxis")["logBase"] = 2
 	}
