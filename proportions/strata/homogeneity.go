@@ -103,8 +103,8 @@ func cochranQ(ts []table, level float64) (t Test, skipped int, ok bool) {
 	t = Test{Key: CochranQKey, Name: "Cochran's Q for the difference", StatisticName: "Q", Alternative: proportions.TwoSided,
 		Citation:   "Cochran WG (1954). The combination of estimates from different experiments. Biometrics 10:101–129.",
 		Definition: "Q = Σw(d − d̄)², d = p1 − p2, w = 1/(p1(1−p1)/n1 + p2(1−p2)/n2), d̄ = Σwd/Σw; χ² with K − 1 df"}
-	var sw, swd, swdd float64
-	k := 0
+	var sw, swd float64
+	var ws, ds []float64
 	for _, s := range ts {
 		p1, p2 := s.a/s.n1, s.c/s.n2
 		v := p1*(1-p1)/s.n1 + p2*(1-p2)/s.n2
@@ -112,16 +112,19 @@ func cochranQ(ts []table, level float64) (t Test, skipped int, ok bool) {
 			skipped++
 			continue
 		}
-		d := p1 - p2
-		k++
+		ws, ds = append(ws, 1/v), append(ds, p1-p2)
 		sw += 1 / v
-		swd += d / v
-		swdd += d * d / v
+		swd += (p1 - p2) / v
 	}
+	k := len(ws)
 	if k < 2 {
 		return t, skipped, false
 	}
-	t.Statistic = math.Max(0, swdd-swd*swd/sw)
+	mean, q := swd/sw, 0.0
+	for i, w := range ws {
+		q += w * (ds[i] - mean) * (ds[i] - mean)
+	}
+	t.Statistic = q
 	t.DF = k - 1
 	t.PValue, t.LogPValue = special.ChiSquareUpperTail(t.Statistic, t.DF)
 	t.decide(level)

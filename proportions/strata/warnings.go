@@ -22,8 +22,8 @@ func (a *Analysis) addWarnings(ts []table) {
 	by := a.Breakdown.By
 	if empty := emptyValues(a.Strata); len(empty) > 0 {
 		a.Warnings = append(a.Warnings, proportions.Warning{Code: WarnEmptyRows, Message: fmt.Sprintf(
-			"%d %s value(s) have a group with no units (%s): they are listed but left out of every stratified method; "+
-				"the pooled (crude) counts include them.", len(empty), by, strings.Join(empty, ", "))})
+			"%d of the %d %s values (%s) have a group with no units: listed, but left out of every stratified method; "+
+				"the pooled (crude) counts include them.", len(empty), len(a.Strata), by, strings.Join(empty, ", "))})
 	}
 	if gap := mantelFleissGap(ts); gap < mantelFleissMinimum {
 		a.Warnings = append(a.Warnings, proportions.Warning{Code: proportions.WarnSmallExpected, Message: fmt.Sprintf(
@@ -92,7 +92,8 @@ func leader(a *Analysis, d float64) string {
 	return a.Breakdown.Second
 }
 
-// points prints a difference of rates in percentage points, signed.
+// points prints a difference of rates in percentage points with a
+// typographic minus.
 func points(d float64) string {
-	return strconv.FormatFloat(100*d, 'f', 1, 64) + " points"
+	return strings.Replace(strconv.FormatFloat(100*d, 'f', 1, 64), "-", "−", 1) + " points"
 }
