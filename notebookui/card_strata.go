@@ -20,6 +20,7 @@ import (
 // nothing. Draw the strata with [StrataForestChart]. Build one with
 // NewStrataCard, or as a literal.
 type StrataCard struct {
+	// Analysis is what the card shows.
 	Analysis strata.Analysis
 	// Title replaces the default heading "Within each <by>: <event>:
 	// <first> vs <second>".

@@ -17,12 +17,12 @@ import (
 // (a block without units of one group); Note says why, in the table and
 // the tooltip.
 type ForestRow struct {
-	Label    string
-	Estimate float64
-	Lower    float64
-	Upper    float64
-	Weight   float64
-	Note     string
+	Label    string  // the row's name on the axis (user text, shown as data)
+	Estimate float64 // the row's estimate on the Forest's scale; NaN: not drawn
+	Lower    float64 // the interval's lower limit (0 or −Inf is drawn at the axis end)
+	Upper    float64 // the interval's upper limit (+Inf is drawn at the axis end)
+	Weight   float64 // the row's share of the combined estimate, 0 to 1; 0 for none
+	Note     string  // a remark shown in the table and the tooltip
 }
 
 // Forest is the data of a forest chart, independent of where the rows come
@@ -32,16 +32,16 @@ type ForestRow struct {
 // logarithmic axis around 1). Summary, when set, is drawn under the rows
 // as a diamond spanning its interval.
 type Forest struct {
-	Title    string
-	Subtitle string
+	Title    string // the chart's title
+	Subtitle string // the line under the title (groups, level)
 	// Effect names what is estimated, for the axis, such as "difference in
 	// share germinated, primed − untreated".
 	Effect  string
-	Scale   proportions.Scale
-	Level   float64
-	Rows    []ForestRow
-	Summary *ForestRow
-	Notes   []string
+	Scale   proportions.Scale // Difference, Ratio or OddsRatio
+	Level   float64           // the intervals' level, for the table's caption; 0 to leave it out
+	Rows    []ForestRow       // the rows, top to bottom
+	Summary *ForestRow        // the combined estimate, drawn last as a diamond; nil for none
+	Notes   []string          // sentences printed under the chart
 }
 
 // forestRenderer draws a row as a horizontal interval with a square whose

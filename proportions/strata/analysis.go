@@ -46,14 +46,14 @@ const (
 // For an unused row (a group with no trials) the figures are NaN (null in
 // JSON) and the weight 0.
 type Stratum struct {
-	Value      string             `json:"value"`
-	Counts     proportions.Counts `json:"counts"`
-	Used       bool               `json:"used"`
-	Difference float64            `json:"difference"`
-	Lower      float64            `json:"lower"`
-	Upper      float64            `json:"upper"`
-	OddsRatio  float64            `json:"odds_ratio"`
-	Weight     float64            `json:"weight"`
+	Value      string             `json:"value"`      // the breakdown column's value
+	Counts     proportions.Counts `json:"counts"`     // the stratum's 2×2 counts
+	Used       bool               `json:"used"`       // both groups have units, so the methods used it
+	Difference float64            `json:"difference"` // p1 − p2
+	Lower      float64            `json:"lower"`      // Mee's lower limit for this stratum alone
+	Upper      float64            `json:"upper"`      // Mee's upper limit for this stratum alone
+	OddsRatio  float64            `json:"odds_ratio"` // the sample odds ratio ad/(bc)
+	Weight     float64            `json:"weight"`     // share of Σ n1·n2/n over the used strata
 }
 
 // MarshalJSON writes NaN as null and ±Inf as strings.
@@ -73,9 +73,9 @@ func (s Stratum) MarshalJSON() ([]byte, error) {
 // returns and the stratified card renders. Its JSON field names are
 // stable.
 type Analysis struct {
-	Breakdown   proportions.Breakdown   `json:"breakdown"`
-	Level       float64                 `json:"level"`
-	Alternative proportions.Alternative `json:"alternative"`
+	Breakdown   proportions.Breakdown   `json:"breakdown"`   // the data analysed
+	Level       float64                 `json:"level"`       // the confidence level; tests use α = 1 − Level
+	Alternative proportions.Alternative `json:"alternative"` // of the tests of no association
 	// Strata are the rows of the breakdown in their order, each with its
 	// own estimate.
 	Strata []Stratum `json:"strata"`
@@ -84,7 +84,7 @@ type Analysis struct {
 	// which excludes 0 exactly when the uncorrected
 	// Cochran–Mantel–Haenszel test (Test) rejects two-sided.
 	Interval Estimate `json:"interval"`
-	Test     Test     `json:"test"`
+	Test     Test     `json:"test"` // the headline test, paired with Interval
 	// Tests are the tests of no association: Cochran–Mantel–Haenszel
 	// without and with continuity correction, and the exact conditional
 	// test when its cost allows.
@@ -101,8 +101,8 @@ type Analysis struct {
 	Crude proportions.Analysis `json:"crude"`
 	// Conclusion reads the headline result and the crude one in plain words.
 	Conclusion string                `json:"conclusion"`
-	Notes      []string              `json:"notes"`
-	Warnings   []proportions.Warning `json:"warnings"`
+	Notes      []string              `json:"notes"`    // what was left out and why
+	Warnings   []proportions.Warning `json:"warnings"` // codes: the Warn... constants, WarnSmallExpected, WarnSkipped
 	// Caution is proportions.Caution.
 	Caution string `json:"caution"`
 }

@@ -19,11 +19,11 @@ type Estimate struct {
 	Key string `json:"key"`
 	// Name is the method's published name.
 	Name     string            `json:"method_name"`
-	Scale    proportions.Scale `json:"scale"`
-	Level    float64           `json:"level"`
-	Estimate float64           `json:"estimate"`
-	Lower    float64           `json:"lower"`
-	Upper    float64           `json:"upper"`
+	Scale    proportions.Scale `json:"scale"`    // difference, ratio or odds ratio
+	Level    float64           `json:"level"`    // the interval's confidence level
+	Estimate float64           `json:"estimate"` // the common estimate
+	Lower    float64           `json:"lower"`    // the interval's lower limit
+	Upper    float64           `json:"upper"`    // the interval's upper limit
 	// Citation names the paper; Definition states the formula.
 	Citation   string `json:"citation"`
 	Definition string `json:"definition"`
@@ -58,16 +58,16 @@ type Test struct {
 	Key string `json:"key"`
 	// Name is the test's published name.
 	Name          string                  `json:"method_name"`
-	StatisticName string                  `json:"statistic_name"`
-	Statistic     float64                 `json:"statistic"`
-	DF            int                     `json:"df,omitempty"`
-	Alternative   proportions.Alternative `json:"alternative"`
-	Level         float64                 `json:"level"`
-	PValue        float64                 `json:"p_value"`
-	LogPValue     float64                 `json:"log_p_value"`
-	Reject        bool                    `json:"reject"`
-	Citation      string                  `json:"citation"`
-	Definition    string                  `json:"definition"`
+	StatisticName string                  `json:"statistic_name"` // X², z, Q or Σx1
+	Statistic     float64                 `json:"statistic"`      // the statistic's value
+	DF            int                     `json:"df,omitempty"`   // chi-square degrees of freedom; 0 for z or exact
+	Alternative   proportions.Alternative `json:"alternative"`    // two-sided for homogeneity
+	Level         float64                 `json:"level"`          // α = 1 − Level
+	PValue        float64                 `json:"p_value"`        // in [0, 1]
+	LogPValue     float64                 `json:"log_p_value"`    // natural log of the p-value
+	Reject        bool                    `json:"reject"`         // PValue ≤ α
+	Citation      string                  `json:"citation"`       // the paper
+	Definition    string                  `json:"definition"`     // the formula
 }
 
 // String prints "name: statistic = 4.2, p = 0.04 (two-sided): reject at 5%".
