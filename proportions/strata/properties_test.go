@@ -385,3 +385,51 @@ func TestBadInput(t *testing.T) {
 		t.Errorf("no row with both groups: %v, want ErrNoTrials", err)
 	}
 }
+
+// With a few large strata sharing one difference, Sato's variance and
+// Greenland and Robins' both estimate the variance of the Mantel–Haenszel
+// difference consistently (Sato 1989; Sato's is derived under a common
+// difference), so their intervals must agree closely; a wrong term in
+// either formula would show as a gap of the order of the term.
+func TestSatoMatchesGreenlandRobinsInLargeStrata(t *testing.T) {
+	r := rand.New(rand.NewPCG(9, 10))
+	for range 50 {
+		delta := float64(r.IntN(5)) / 10 // 0 to 0.4, common to every stratum
+		rows := make([][4]int64, 2+r.IntN(4))
+		for i := range rows {
+			n1, n2 := 100*int64(20+r.IntN(80)), 100*int64(20+r.IntN(80))
+			p2 := float64(1+r.IntN(5)) / 10 // 0.1 to 0.5
+			rows[i] = [4]int64{int64(math.Round((p2 + delta) * float64(n1))), n1, int64(math.Round(p2 * float64(n2))), n2}
+		}
+		ts := usable(breakdownOf(t, rows)) // the two estimates alone: the exact methods would be slow here
+		conf, _ := proportions.NewConfidence(0.95)
+		s, g := satoDifference(ts, conf), greenlandRobinsDifference(ts, conf)
+		ws, wg := s.Upper-s.Lower, g.Upper-g.Lower
+		if math.Abs(ws-wg) > 0.01*wg {
+			t.Errorf("%v: Sato width %v, Greenland–Robins %v: more than 1%% apart", rows, ws, wg)
+		}
+	}
+}
+
+// A one-sided alternative: the interval at 1 − 2α excludes 0 on the
+// alternative's side exactly when the one-sided Cochran–Mantel–Haenszel
+// test rejects.
+func TestOneSidedHeadline(t *testing.T) {
+	r := rand.New(rand.NewPCG(11, 12))
+	for range 200 {
+		rows := randomRows(r, 1+r.IntN(5), 25)
+		for _, alt := range []proportions.Alternative{proportions.Greater, proportions.Less} {
+			a := analyze(t, rows, proportions.WithAlternative(alt), proportions.WithLevel(0.975))
+			if math.Abs(a.Test.PValue-0.025) < 1e-6 {
+				continue
+			}
+			excludes := a.Interval.Lower > 0
+			if alt == proportions.Less {
+				excludes = a.Interval.Upper < 0
+			}
+			if excludes != a.Test.Reject || a.Interval.Level != 0.95 {
+				t.Errorf("%v %v: p %v, interval %v to %v at %v", rows, alt, a.Test.PValue, a.Interval.Lower, a.Interval.Upper, a.Interval.Level)
+			}
+		}
+	}
+}
