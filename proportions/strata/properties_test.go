@@ -433,3 +433,36 @@ func TestOneSidedHeadline(t *testing.T) {
 		}
 	}
 }
+
+// Extreme breakdowns (no events anywhere, only events, one unit per
+// group, zero cells) never give a NaN where a number is due: the headline
+// limits, every p-value and every test statistic.
+func TestExtremeBreakdownsGiveNumbers(t *testing.T) {
+	r := rand.New(rand.NewPCG(13, 14))
+	cases := [][][4]int64{
+		{{0, 5, 0, 7}, {0, 3, 0, 2}}, {{5, 5, 7, 7}, {3, 3, 2, 2}}, {{1, 1, 0, 1}}, {{0, 1, 1, 1}, {1, 1, 0, 1}},
+		{{0, 10, 4, 10}, {0, 8, 3, 9}}, {{10, 10, 4, 10}, {8, 8, 3, 9}}, {{0, 1, 0, 1}},
+	}
+	for range 200 {
+		rows := randomRows(r, 1+r.IntN(4), 3)
+		cases = append(cases, rows)
+	}
+	for _, rows := range cases {
+		for _, alt := range []proportions.Alternative{proportions.TwoSided, proportions.Greater, proportions.Less} {
+			a := analyze(t, rows, proportions.WithAlternative(alt), proportions.WithLevel(0.975))
+			if math.IsNaN(a.Interval.Lower) || math.IsNaN(a.Interval.Upper) || math.IsNaN(a.Interval.Estimate) || a.Interval.Lower > a.Interval.Upper {
+				t.Errorf("%v %v: headline %v", rows, alt, a.Interval)
+			}
+			for _, x := range append(slices.Clone(a.Tests), a.Homogeneity...) {
+				if !(x.PValue >= 0 && x.PValue <= 1) || math.IsNaN(x.Statistic) || math.IsNaN(x.LogPValue) {
+					t.Errorf("%v %v: %s p %v, statistic %v", rows, alt, x.Key, x.PValue, x.Statistic)
+				}
+			}
+			for _, e := range a.Estimates {
+				if e.Scale == proportions.Difference && (math.IsNaN(e.Lower) || math.IsNaN(e.Upper)) {
+					t.Errorf("%v %v: %s limits %v, %v", rows, alt, e.Key, e.Lower, e.Upper)
+				}
+			}
+		}
+	}
+}
