@@ -83,6 +83,9 @@ const (
 	// ClusteredPower describes planning.ClusteredPowerGrid, from
 	// ClusteredPowerByClusters.
 	ClusteredPower = "clustered-power"
+	// Stratified describes strata.Analysis, from strata.Analyze: the
+	// stratified analysis of a breakdown.
+	Stratified = "stratified"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
