@@ -94,7 +94,7 @@ const (
 const suffix = ".schema.json"
 
 // FileName returns the file name of a schema, name + ".schema.json": the
-// name under which the others reference it (only Common is referenced).
+// name under which the others reference it (Common is referenced by every schema, Analysis by Clusters).
 func FileName(name string) string { return name + suffix }
 
 // Names returns the names of every schema, Common included, sorted.
