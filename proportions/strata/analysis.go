@@ -150,8 +150,9 @@ func Analyze(b proportions.Breakdown, opts ...proportions.Option) (Analysis, err
 
 // AnalyzeContext is Analyze with cancellation: the exact conditional
 // methods convolve one distribution per stratum, which can take seconds
-// for large strata; they look at ctx inside the convolution. Their cost is
-// estimated first; above proportions.AnalysisCost they are left out with a
+// for large strata; they look at ctx inside the convolution. Their cost
+// (see ExactCost) is estimated first; above proportions.AnalysisCost (above
+// proportions.MaxCost with WithScope(ScopeAll)) they are left out with a
 // warning (code proportions.WarnSkipped).
 func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...proportions.Option) (Analysis, error) {
 	s, conf, ivConf, err := settings(opts)
@@ -239,7 +240,11 @@ func (a *Analysis) addExact(ctx context.Context, ts []table, s proportions.Setti
 		a.Notes = append(a.Notes, "The exact conditional test and interval were left out (large-sample scope).")
 		return nil
 	}
-	t, e, err := exactMethods(ctx, ts, s.Alternative, ivConf, s.Level, math.Log(start), proportions.AnalysisCost)
+	guard := proportions.AnalysisCost
+	if s.Scope == proportions.ScopeAll {
+		guard = proportions.MaxCost // every method asked for: up to the guard of a direct call
+	}
+	t, e, err := exactMethods(ctx, ts, s.Alternative, ivConf, s.Level, math.Log(start), guard)
 	switch {
 	case err == nil:
 		a.Tests = append(a.Tests, t)

@@ -36,6 +36,16 @@ func TestExactCostGuard(t *testing.T) {
 	if !errors.Is(err, proportions.ErrTooLarge) {
 		t.Errorf("direct call above MaxCost: %v, want ErrTooLarge", err)
 	}
+	if c := ExactCost(breakdownOf(t, rows)); c.Within(proportions.MaxCost) {
+		t.Errorf("40 strata of 20000: cost %v within MaxCost", c)
+	}
+	mid := evenRows(20, 600) // above AnalysisCost, within MaxCost
+	if c := ExactCost(breakdownOf(t, mid)); c.Within(proportions.AnalysisCost) || !c.Within(proportions.MaxCost) {
+		t.Fatalf("20 strata of 600: cost %v, want between the two guards", c)
+	}
+	if !hasWarning(analyze(t, mid), proportions.WarnSkipped) {
+		t.Errorf("20 strata of 600, quick scope: exact methods not skipped")
+	}
 	small := analyze(t, evenRows(8, 50))
 	if hasWarning(small, proportions.WarnSkipped) {
 		t.Errorf("8 strata of 50: exact methods skipped")

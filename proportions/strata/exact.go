@@ -41,6 +41,14 @@ type sumDistribution struct {
 // convolution: two passes (maximum, then exp and add) with an exp each.
 const sumCostPerPair = 40
 
+// ExactCost is the estimated cost of the exact conditional test and
+// interval for the rows of b that have both groups: the log-space
+// convolution of their conditional distributions (about Σ over strata of
+// the support so far times the stratum's support, in pairs of terms) and
+// the searches of the interval. The analysis compares it with
+// proportions.AnalysisCost, or proportions.MaxCost with ScopeAll.
+func ExactCost(b proportions.Breakdown) proportions.Cost { return exactCost(usable(b)) }
+
 // exactCost estimates the work of the convolution and of the searches of
 // the interval (about two hundred evaluations of the distribution), and the
 // memory of the three arrays of the longest support.
