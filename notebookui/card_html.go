@@ -53,12 +53,13 @@ const cardHTML = `<section class="ps-card" data-propscope="result-card" aria-lab
 <thead><tr><th scope="col">Test</th><th scope="col" class="ps-n">Statistic</th><th scope="col" class="ps-n">p-value</th><th scope="col">Decision</th></tr></thead>
 <tbody>{{range .Tests}}
 <tr><th scope="row">{{.Name}}{{if .Headline}} <span class="ps-tag">headline</span>{{end}}</th><td class="ps-n">{{.Statistic}}</td><td class="ps-n">{{.P}}</td><td>{{.Decision}}</td></tr>{{end}}
-</tbody></table></div>{{end}}
+</tbody></table></div>{{range .StatNotes}}
+<p class="ps-muted ps-small">{{.}}</p>{{end}}{{end}}
 {{if .Conclusion}}<h4 class="ps-h">What the data say</h4>
 <p class="ps-conclusion">{{.Conclusion}}</p>{{end}}
 {{if .Warnings}}<h4 class="ps-h">Warnings</h4>
 <ul class="ps-warnings">{{range .Warnings}}
-<li><strong>Warning:</strong> {{.}}</li>{{end}}
+<li>{{.}}</li>{{end}}
 </ul>{{end}}{{if .NotRun}}
 <p class="ps-muted ps-small ps-notrun">{{.NotRun}}</p>{{end}}
 {{if .Sections}}<details class="ps-more">

@@ -42,7 +42,7 @@ func ExampleAnalyze() {
 	// Mee score: 0.2000 (0.0533 to 0.3377), 95% confidence
 	// Farrington–Manning score test: z = 2.65, p = 0.008045 (two-sided, null 0): reject at 5%
 	// Fisher exact: P(observed table) = 0.0042, p = 0.01252 (two-sided, null 0): reject at 5%
-	// new: 56 of 70 responded (80.0%); standard: 48 of 80 (60.0%). The difference new − standard is 20.0 percentage points (95% confidence interval 5.3 to 33.8). The score test rejects equal rates at the 5% level (p = 0.008045): the responded rate is higher for new than for standard.
+	// new: 56 of 70 responded (80.0%); standard: 48 of 80 (60.0%). The difference new − standard is +20.0 percentage points (95% confidence interval +5.3 to +33.8). The Farrington–Manning score test rejects equal rates at the 5% level (p = 0.0080): the responded rate is higher for new than for standard.
 }
 
 // The method scope: the default analysis runs every method that costs
