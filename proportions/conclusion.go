@@ -108,7 +108,7 @@ func (w *prose) oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit 
 	if a.Test.Reject {
 		w.add("At the one-sided ", alpha, " level the data show that ")
 		claim()
-		w.add(" (", p, "; the ", bound, " ")
+		w.add(" (", testName(a), ", ", p, "; the ", bound, " ")
 		w.points(limit)
 		w.add(" is beyond it)")
 		w.marginReading(a, true)
@@ -117,7 +117,7 @@ func (w *prose) oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit 
 	}
 	w.add("At the one-sided ", alpha, " level the data do not show that ")
 	claim()
-	w.add(" (", p, "; the ", bound, " is ")
+	w.add(" (", testName(a), ", ", p, "; the ", bound, " is ")
 	w.points(limit)
 	w.add(")")
 	w.marginReading(a, false)
