@@ -259,6 +259,28 @@ func niceRange(lo, hi, min, max float64) (float64, float64, float64) {
 	return math.Max(round6(l), min), math.Min(round6(h), max), step
 }
 
+// fitRange is an axis range that fits the data: lo to hi with 2% of the
+// span either side, within [min, max]. The ends are not rounded out to a
+// tick (a curve from −1.5 points does not get an axis from −5): the axis
+// labels its round values inside the range and hides the end labels
+// (hideEndLabels).
+func fitRange(lo, hi, min, max float64) (float64, float64) {
+	pad := math.Max((hi-lo)*0.02, 0.001)
+	return math.Max(round6(lo-pad), min), math.Min(round6(hi+pad), max)
+}
+
+// hideEndLabels hides the labels at the ends of an axis whose range was
+// set by fitRange, where the end values are not round.
+func hideEndLabels(option map[string]any, axis string) {
+	m := firstAxis(option, axis)
+	label, _ := m["axisLabel"].(map[string]any)
+	if label == nil {
+		label = map[string]any{}
+	}
+	label["showMinLabel"], label["showMaxLabel"] = false, false
+	m["axisLabel"] = label
+}
+
 // niceStep returns the smallest of 1, 2, 2.5 and 5 times a power of ten
 // that is at least raw.
 func niceStep(raw float64) float64 {
