@@ -287,7 +287,7 @@ func TestStripPlacesTheIntervalOnTheAxis(t *testing.T) {
 		t.Fatal("no picture for a finite interval")
 	}
 	num := func(v string) float64 {
-		f, err := strconv.ParseFloat(v, 64)
+		f, err := strconv.ParseFloat(strings.TrimSuffix(v, "%"), 64)
 		if err != nil {
 			t.Fatal(err)
 		}
