@@ -166,4 +166,18 @@ func genericChecks(t *testing.T, ctx context.Context) {
 	if empty > 0 {
 		t.Errorf("%d result cards have no headline difference", empty)
 	}
+	// No "Loading [MathJax]" badge over the content of the report or its
+	// screenshots (the exports leave MathJax out, see nbrun.ExportHTML).
+	if badge := eval[bool](t, ctx, `(() => { const m = document.getElementById('MathJax_Message');
+		return !!window.MathJax || (!!m && m.offsetParent !== null && m.innerText.trim() !== ""); })()`); badge {
+		t.Error("the page loads MathJax or shows its loading badge")
+	}
+	// Code cells are read, not scrolled: no line of the setup cell (the
+	// first code cell) runs off the right edge at the test's width.
+	wide := eval[[]string](t, ctx, `[...document.querySelectorAll('.jp-InputArea-editor pre, .input_area pre, div.highlight pre')].slice(0, 1)
+		.filter(p => p.scrollWidth > p.clientWidth + 1 || p.getBoundingClientRect().right > document.documentElement.clientWidth + 1)
+		.map(p => p.innerText.split("\n").sort((a, b) => b.length - a.length)[0])`)
+	if len(wide) > 0 {
+		t.Errorf("the setup cell runs off the right edge: %q", wide)
+	}
 }

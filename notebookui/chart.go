@@ -292,7 +292,8 @@ func (c *Chart) HTML() string {
 	fmt.Fprintf(&b, `<div id="%s" data-propscope-chart="%s" role="img" aria-label="%s" style="width:100%%;height:%dpx;"></div>`,
 		c.id, c.id, html.EscapeString(c.ariaLabel()), c.height)
 	if len(c.notes) > 0 || len(c.table.Rows) > 0 {
-		b.WriteString(`<figcaption style="font-size:0.9em;line-height:1.4;">`)
+		// The caption starts where the chart's title does (chartInset).
+		fmt.Fprintf(&b, `<figcaption style="font-size:0.9em;line-height:1.4;padding:0 %dpx;">`, chartInset)
 		for _, n := range c.notes {
 			b.WriteString(`<p style="margin:0.3em 0;">` + html.EscapeString(n) + `</p>`)
 		}

@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"html"
+	"strconv"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
@@ -48,6 +49,10 @@ func paletteColor(i int) string {
 	return p[i%len(p)]
 }
 
+// chartInset is the left inset, in pixels, of a chart's title and of the
+// caption under it, so that they line up.
+const chartInset = 12
+
 // Chart sizes in pixels.
 const (
 	defaultHeight = 420
@@ -61,7 +66,7 @@ func commonGlobals(title, subtitle string) []charts.GlobalOpts {
 	return []charts.GlobalOpts{
 		charts.WithInitializationOpts(opts.Initialization{Width: "100%", Height: "420px", Theme: "white"}),
 		charts.WithTitleOpts(opts.Title{
-			Title: title, Subtitle: subtitle, Left: "12", Top: "6",
+			Title: title, Subtitle: subtitle, Left: strconv.Itoa(chartInset), Top: "6",
 			TitleStyle:    &opts.TextStyle{FontSize: 16, FontWeight: "600"},
 			SubtitleStyle: &opts.TextStyle{FontSize: 12},
 		}),
