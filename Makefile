@@ -3,7 +3,8 @@ SHELL := /bin/bash
 GO ?= go
 # When make started, for the elapsed times of scripts/step.sh's progress
 # lines (each long step prints one line as it starts and one as it ends).
-export PROPSCOPE_T0 ?= $(shell date +%s)
+PROPSCOPE_T0 := $(or $(PROPSCOPE_T0),$(shell date +%s))
+export PROPSCOPE_T0
 STEP := scripts/step.sh
 
 .PHONY: help notebook reports setup test go-test notebook-test bench bench-analysis bench-coverage bench-charts bench-exact
