@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 )
 
 // parseShown reads a number back as a reader would: the typographic minus
@@ -148,6 +149,31 @@ func TestCardsSpeakOneNumberStyle(t *testing.T) {
 		for _, r := range v.Tests {
 			if !pCell.MatchString(r.P) {
 				t.Errorf("%s: p-value cell %q", r.Name, r.P)
+			}
+		}
+	}
+}
+
+// TestBayesCardSpeaksTheNumberStyle: the Bayesian card of several
+// analyses shows no hyphen as a minus and no exponent in any form.
+func TestBayesCardSpeaksTheNumberStyle(t *testing.T) {
+	for _, c := range [][4]int64{{41, 50, 33, 50}, {0, 12, 9, 12}, {3, 40, 30, 41}} {
+		cmp, err := proportions.NewComparison(c[0], c[1], c[2], c[3], proportions.Labels{First: "whip", Second: "cleft", Event: "took"})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, err := bayes.Analyze(cmp, bayes.WithEquivalence(-0.05, 0.05))
+		if err != nil {
+			t.Fatal(err)
+		}
+		card := NewBayesCard(a)
+		for form, s := range map[string]string{"text": card.Text(), "markdown": strings.ReplaceAll(card.Markdown(), `\`, ""),
+			"html": html.UnescapeString(card.HTML())} {
+			if m := hyphenNumber.FindString(s); m != "" {
+				t.Errorf("%v, %s: a hyphen as a minus sign (%q)", c, form, m)
+			}
+			if m := exponent.FindString(s); m != "" {
+				t.Errorf("%v, %s: an exponent (%q)", c, form, m)
 			}
 		}
 	}
