@@ -178,3 +178,20 @@ func TestBayesCardSpeaksTheNumberStyle(t *testing.T) {
 		}
 	}
 }
+
+// TestViewsSpeakTheNumberStyle: the text and Markdown forms of every view
+// that shows labels (cards, charts' notes and tables, explorer frames) use
+// no hyphen as a minus and no exponent.
+func TestViewsSpeakTheNumberStyle(t *testing.T) {
+	names, ds := labelViews(t, "coated", "bare", "germinated")
+	for i, d := range ds {
+		for form, s := range map[string]string{"text": d.Text(), "markdown": strings.ReplaceAll(d.Markdown(), `\`, "")} {
+			if m := hyphenNumber.FindString(s); m != "" {
+				t.Errorf("%s, %s: a hyphen as a minus sign (%q)", names[i], form, m)
+			}
+			if m := exponent.FindString(s); m != "" {
+				t.Errorf("%s, %s: an exponent (%q)", names[i], form, m)
+			}
+		}
+	}
+}
