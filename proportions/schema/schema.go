@@ -68,6 +68,21 @@ const (
 	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
 	// comparison broken down by the values of one column.
 	Breakdown = "breakdown"
+	// Simulation describes simulate.Result, from simulate.Run: simulated
+	// coverage and rejection rates of clustered studies.
+	Simulation = "simulation"
+	// SimulationCurve describes simulate.Curve, from simulate.Sweep: a
+	// simulation at several values of the intracluster correlation.
+	SimulationCurve = "simulation-curve"
+	// Clusters describes clusters.Analysis, from clusters.Analyze: a
+	// clustered comparison with its unit-level analysis beside it.
+	Clusters = "clusters"
+	// ClusteredSampleSize describes planning.ClusteredSizeResult, from
+	// ClusteredSampleSize.
+	ClusteredSampleSize = "clustered-sample-size"
+	// ClusteredPower describes planning.ClusteredPowerGrid, from
+	// ClusteredPowerByClusters.
+	ClusteredPower = "clustered-power"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
