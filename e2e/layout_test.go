@@ -13,6 +13,8 @@ import (
 
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters"
 )
 
 // longLabel is a group label no table can hold on one line: one word of
@@ -28,9 +30,9 @@ var longLabel = strings.Repeat("Hydroprimed", 16) + " lettuce seed from the nort
 const layoutBoxes = `(() => {
   const out = [];
   const vw = document.documentElement.clientWidth;
-  for (const card of document.querySelectorAll('section[data-propscope="result-card"]')) {
+  for (const card of document.querySelectorAll('section.ps-card')) {
     const c = card.getBoundingClientRect();
-    const r = {cardRight: c.right, viewport: vw, overflowing: [], clipped: [], tableDisplay: [], strip: null, labels: [], rowLabels: []};
+    const r = {kind: card.dataset.propscope, cardRight: c.right, viewport: vw, overflowing: [], clipped: [], tableDisplay: [], strip: null, labels: [], rowLabels: []};
     for (const s of card.querySelectorAll('.ps-scroll')) {
       if (s.scrollWidth > s.clientWidth + 1) {
         r.overflowing.push({caption: (s.querySelector('caption') || {}).innerText || s.querySelector('th').innerText, scroll: s.scrollWidth, client: s.clientWidth});
@@ -69,6 +71,7 @@ type stripLabel struct {
 }
 
 type cardBoxes struct {
+	Kind                string
 	CardRight, Viewport float64
 	Overflowing         []map[string]any
 	Clipped             []string
@@ -81,9 +84,10 @@ type cardBoxes struct {
 	}
 }
 
-// layoutPage writes a page with the result cards a reader meets at the
-// edges of the layout: every method (the widest tables), a zero-cell table
-// (the longest statistic notes) and a very long group label.
+// layoutPage writes a page with the cards a reader meets at the edges of
+// the layout: result cards with every method (the widest tables), a
+// zero-cell table (the longest statistic notes) and a very long group
+// label, a Bayesian card, and a cluster card with the long label.
 func layoutPage(t *testing.T) string {
 	t.Helper()
 	var cards []notebookui.Displayable
@@ -104,7 +108,29 @@ func layoutPage(t *testing.T) string {
 			t.Fatal(err)
 		}
 		cards = append(cards, notebookui.NewResultCard(a))
+		if c.x1 == 41 {
+			b, err := bayes.Analyze(cmp, bayes.WithEquivalence(-0.05, 0.05))
+			if err != nil {
+				t.Fatal(err)
+			}
+			cards = append(cards, notebookui.NewBayesCard(b))
+		}
 	}
+	// Sixteen trays of twenty seeds, with a long coating name.
+	var g1, g2 []clusters.Cluster
+	for i, x := range []int64{17, 15, 18, 12, 16, 19, 14, 17} {
+		g1 = append(g1, clusters.Cluster{Value: fmt.Sprintf("C%d", i+1), Events: x, Trials: 20})
+		g2 = append(g2, clusters.Cluster{Value: fmt.Sprintf("B%d", i+1), Events: x - int64(i%4), Trials: 20})
+	}
+	d, err := clusters.New("tray", proportions.Labels{First: longLabel, Second: "bare", Event: "germinated"}, g1, g2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ca, err := clusters.Analyze(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cards = append(cards, notebookui.NewClusterCard(ca))
 	page := filepath.Join(outDir, "card-layout.html")
 	if err := notebookui.WriteHTMLFile(page, "result cards at the edges of the layout", cards...); err != nil {
 		t.Fatal(err)
@@ -128,11 +154,11 @@ func TestCardLayout(t *testing.T) {
 		if err := json.Unmarshal([]byte(eval[string](t, ctx, layoutBoxes)), &cards); err != nil {
 			t.Fatal(err)
 		}
-		if len(cards) != 3 {
-			t.Fatalf("%d cards on the page, want 3", len(cards))
+		if len(cards) != 5 {
+			t.Fatalf("%d cards on the page, want 5 (three result cards, a Bayesian card, a cluster card)", len(cards))
 		}
 		for i, c := range cards {
-			where := fmt.Sprintf("at %d px, card %d", width, i+1)
+			where := fmt.Sprintf("at %d px, card %d (%s)", width, i+1, c.Kind)
 			if c.CardRight > c.Viewport+1 {
 				t.Errorf("%s is wider than the page (%v > %v)", where, c.CardRight, c.Viewport)
 			}
@@ -145,7 +171,9 @@ func TestCardLayout(t *testing.T) {
 			if width == 1100 && len(c.TableDisplay) > 0 && c.TableDisplay[0] != "table" {
 				t.Errorf("%s: tables reflow at a desktop width (%v)", where, c.TableDisplay)
 			}
-			checkStrip(t, where, c)
+			if c.Kind == "result-card" {
+				checkStrip(t, where, c)
+			}
 			for _, l := range c.RowLabels {
 				if len(l.Title) > 100 && (l.Title != longLabel || l.Height > 3.5*l.LineHeight) {
 					t.Errorf("%s: the long label takes %.0f px (line %.0f px), hover text %d characters", where, l.Height, l.LineHeight, len(l.Title))
@@ -157,6 +185,7 @@ func TestCardLayout(t *testing.T) {
 		// label's card.
 		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-top", width), 0)
 		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-long-label", width), 2)
+		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-cluster-card", width), 4)
 	}
 	setWidth(t, ctx, 1100)
 }
@@ -191,7 +220,7 @@ func checkStrip(t *testing.T, where string, c cardBoxes) {
 // viewport shows (1400 px high) as a PNG.
 func viewportShot(t *testing.T, ctx context.Context, name string, n int) {
 	t.Helper()
-	eval[bool](t, ctx, fmt.Sprintf(`(() => { document.querySelectorAll('section[data-propscope="result-card"]')[%d].scrollIntoView(); return true; })()`, n))
+	eval[bool](t, ctx, fmt.Sprintf(`(() => { document.querySelectorAll('section.ps-card')[%d].scrollIntoView(); return true; })()`, n))
 	png, err := chromedp.Run(ctx, chromedp.CaptureScreenshot())
 	if err != nil {
 		t.Fatalf("screenshot %s: %v", name, err)

@@ -153,5 +153,6 @@ const cardCSS = `
 .ps-card table.ps-t td.ps-n{text-align:left;white-space:normal}
 .ps-card table.ps-t td[data-label]::before{content:attr(data-label) ": ";font-weight:600;opacity:.8}
 .ps-card .ps-clip{max-width:none}
+.ps-card table.ps-t td:empty{display:none}
 }
 `
