@@ -131,9 +131,11 @@ func hasStatistic(r proportions.TestResult) bool {
 // statistic column, one sentence per kind, in the order of the rows.
 func statisticNotes(tests []proportions.TestResult) []string {
 	var out []string
-	var noStat, unbounded []string
+	var noStat, unbounded, ordering []string
 	for _, t := range tests {
 		switch {
+		case hasStatistic(t) && strings.HasSuffix(t.StatisticName, " p"):
+			ordering = append(ordering, t.MethodName)
 		case t.StatisticName != "" && !hasStatistic(t) && !math.IsNaN(t.Statistic):
 			noStat = append(noStat, t.MethodName)
 		case hasStatistic(t) && math.IsInf(t.Statistic, 0):
@@ -142,6 +144,9 @@ func statisticNotes(tests []proportions.TestResult) []string {
 	}
 	if len(noStat) > 0 {
 		out = append(out, joinNames(noStat)+": no test statistic (—): these tests order the possible tables by their probability under the null hypothesis, and the p-value comes from the tables no more probable than the one observed.")
+	}
+	if len(ordering) > 0 {
+		out = append(out, joinNames(ordering)+": the statistic is Fisher's p-value, used only to order the possible tables; the test's own p-value is in the next column.")
 	}
 	if len(unbounded) > 0 {
 		out = append(out, joinNames(unbounded)+": the statistic has no finite value at these counts, because its estimate of the variance is zero (each group's observed rate is 0% or 100%); the p-value is still exact.")

@@ -195,3 +195,36 @@ func TestViewsSpeakTheNumberStyle(t *testing.T) {
 		}
 	}
 }
+
+// TestStatisticColumnSaysWhatItIs: on a zero-cell table with every method,
+// Fisher's rows show no statistic (never the probability of the observed
+// table beside the p-value), the unpooled Barnard statistic is not printed
+// as an infinity, and a note says why in words.
+func TestStatisticColumnSaysWhatItIs(t *testing.T) {
+	c, err := proportions.NewComparison(0, 20, 20, 20, proportions.Labels{First: "coated", Second: "bare", Event: "germinated"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := proportions.Analyze(c, proportions.WithScope(proportions.ScopeAll))
+	if err != nil {
+		t.Fatal(err)
+	}
+	card := NewResultCard(a)
+	text := card.Text()
+	if strings.Contains(text, "P(observed table)") {
+		t.Errorf("the card shows the probability of the observed table:\n%s", text)
+	}
+	for _, r := range card.view().Tests {
+		if strings.Contains(r.Statistic, "∞") {
+			t.Errorf("%s: statistic %q", r.Name, r.Statistic)
+		}
+		if strings.HasPrefix(r.Name, "Fisher") && r.Statistic != "—" {
+			t.Errorf("%s: statistic %q, want —", r.Name, r.Statistic)
+		}
+	}
+	for _, want := range []string{"no test statistic (—)", "has no finite value at these counts", "Fisher's p-value, used only to order"} {
+		if !strings.Contains(strings.Join(strings.Fields(text), " "), want) {
+			t.Errorf("the card does not say %q", want)
+		}
+	}
+}
