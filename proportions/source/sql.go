@@ -1,0 +1,370 @@
+package source
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/propscope/propscope/proportions"
+)
+
+// Queryer runs a query: a *sql.DB, *sql.Conn or *sql.Tx.
+type Queryer interface {
+	QueryContext(ctx context.Context, query string, args ...any) (*sql.Rows, error)
+}
+
+// Placeholders is how a database's driver marks bind parameters.
+type Placeholders int
+
+const (
+	// QuestionMarks: ?, ?, ? (SQLite, MySQL, most drivers); the default.
+	QuestionMarks Placeholders = iota
+	// DollarNumbers: $1, $2, $3 (PostgreSQL drivers).
+	DollarNumbers
+)
+
+// SQLSpec says which table to read and how: the table's name, the driver's
+// bind-parameter style, and the breakdown spec (layout, columns, outcome
+// values, first group, SkipNulls).
+type SQLSpec struct {
+	// Table names the table or view, as one identifier (a dot is part of
+	// the name, not a schema separator).
+	Table string
+	// Placeholders is the driver's bind-parameter style.
+	Placeholders Placeholders
+	proportions.BreakdownSpec
+}
+
+// QuerySQL reads a breakdown from a table of unit rows or cell rows with
+// one grouped query, so the database sends counts per breakdown value and
+// group, never the rows. It is QuerySQLContext without a deadline.
+func QuerySQL(db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
+	return QuerySQLContext(context.Background(), db, spec)
+}
+
+// QuerySQLContext reads a breakdown from a table with one grouped query.
+// Rows come in the database's order of the breakdown values (ORDER BY),
+// and the groups in the order of the first value's groups, so set
+// FirstGroup to fix which group is first.
+//
+// The columns are found as in a CSV header (proportions.FindColumns) among
+// the names the table reports, so a missing column's error lists them. Every
+// table and column name is quoted as an SQL identifier ("name", a quote
+// inside doubled), so a name is data whatever it holds; a name with a NUL
+// or invalid UTF-8 is refused. Outcome values go to the database as bind
+// parameters. The outcome is compared as text, trimmed of spaces and in
+// lower case (TRIM, LOWER, CAST AS VARCHAR), so integer 1/0 and boolean
+// outcomes match "1"/"0" or "true"/"false" as the database writes them.
+//
+// Nothing is dropped silently: an outcome that is neither the event nor a
+// non-event is an error listing up to five such values; a NULL in a column
+// the layout reads is an error naming the column and the breakdown value
+// and group where it occurs, unless spec.SkipNulls is set (then the rows
+// are counted in Breakdown.Skipped); a cell row with negative counts or
+// more events than trials is an error showing that row, even when the sums
+// would look valid. Errors wrap proportions.ErrSource (the database's own
+// error: no such table, a failed query), ErrMissingColumn, ErrColumnType,
+// ErrNullValue, ErrOutcomeValue, ErrNegativeCount, ErrEventsExceedTrials,
+// the errors of proportions.Tally, or the context's error.
+func QuerySQLContext(ctx context.Context, db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
+	q, err := newSQLQuery(ctx, db, spec)
+	if err != nil {
+		return proportions.Breakdown{}, err
+	}
+	tally, err := proportions.NewTally(spec.BreakdownSpec)
+	if err != nil {
+		return proportions.Breakdown{}, err
+	}
+	if spec.Layout == proportions.CellRows {
+		err = q.cells(ctx, tally)
+	} else {
+		err = q.units(ctx, tally)
+	}
+	if err != nil {
+		return proportions.Breakdown{}, err
+	}
+	return tally.Breakdown()
+}
+
+// QuoteIdentifier quotes name as an SQL identifier in the standard way
+// (double quotes, a double quote inside doubled), which SQLite, PostgreSQL,
+// SQL Server and MySQL in ANSI_QUOTES mode read as a name whatever it
+// holds. An empty name, a NUL or invalid UTF-8 is refused (ErrMissingColumn
+// or ErrColumnType), since some databases cut a name at a NUL.
+func QuoteIdentifier(name string) (string, error) {
+	switch {
+	case name == "":
+		return "", fmt.Errorf("an empty name: %w; give the table's or column's name", proportions.ErrMissingColumn)
+	case strings.ContainsRune(name, 0):
+		return "", fmt.Errorf("name %q: %w; a name may not hold a NUL character", name, proportions.ErrColumnType)
+	case !utf8.ValidString(name):
+		return "", fmt.Errorf("name %q: %w; a name must be valid UTF-8", name, proportions.ErrColumnType)
+	}
+	return `"` + strings.ReplaceAll(name, `"`, `""`) + `"`, nil
+}
+
+// sqlQuery holds a table's quoted name, the quoted columns of the layout
+// (in the order of BreakdownSpec.Columns), their names as the table spells
+// them, and the spec.
+type sqlQuery struct {
+	db     Queryer
+	spec   SQLSpec
+	table  string
+	cols   []string
+	names  []string
+	values [2][]string // event and non-event values, normalized
+}
+
+// newSQLQuery quotes the table, reads its column names with a query that
+// returns no rows, and finds the layout's columns among them.
+func newSQLQuery(ctx context.Context, db Queryer, spec SQLSpec) (*sqlQuery, error) {
+	if err := spec.Check(); err != nil {
+		return nil, err
+	}
+	table, err := QuoteIdentifier(spec.Table)
+	if err != nil {
+		return nil, fmt.Errorf("table: %w", err)
+	}
+	header, err := tableColumns(ctx, db, table, spec.Table)
+	if err != nil {
+		return nil, err
+	}
+	at, err := proportions.FindColumns(header, spec.Columns()...)
+	if err != nil {
+		return nil, fmt.Errorf("table %q: %w", spec.Table, err)
+	}
+	q := &sqlQuery{db: db, spec: spec, table: table}
+	for _, i := range at {
+		quoted, err := QuoteIdentifier(header[i])
+		if err != nil {
+			return nil, fmt.Errorf("table %q: column: %w", spec.Table, err)
+		}
+		q.cols = append(q.cols, quoted)
+		q.names = append(q.names, header[i])
+	}
+	if q.values[0], q.values[1], err = spec.OutcomeValues(); err != nil {
+		return nil, err
+	}
+	return q, nil
+}
+
+// tableColumns returns the column names the table reports.
+func tableColumns(ctx context.Context, db Queryer, quoted, name string) ([]string, error) {
+	rows, err := db.QueryContext(ctx, "SELECT * FROM "+quoted+" WHERE 1 = 0")
+	if err != nil {
+		return nil, fmt.Errorf("table %q: %w: %w", name, proportions.ErrSource, err)
+	}
+	defer rows.Close()
+	header, err := rows.Columns()
+	if err != nil {
+		return nil, fmt.Errorf("table %q: %w: %w", name, proportions.ErrSource, err)
+	}
+	return header, nil
+}
+
+// params returns n bind parameters from the (1-based) position first on.
+func (q *sqlQuery) params(first, n int) string {
+	p := make([]string, n)
+	for i := range p {
+		if q.spec.Placeholders == DollarNumbers {
+			p[i] = "$" + strconv.Itoa(first+i)
+		} else {
+			p[i] = "?"
+		}
+	}
+	return strings.Join(p, ", ")
+}
+
+// outcomeText is the outcome column compared as trimmed lower-case text.
+func (q *sqlQuery) outcomeText() string {
+	return "LOWER(TRIM(CAST(" + q.cols[2] + " AS VARCHAR(255))))"
+}
+
+// units runs the unit-rows query: per breakdown value and group, the units
+// with a NULL outcome, the events, the non-events and all units.
+func (q *sqlQuery) units(ctx context.Context, t *proportions.Tally) error {
+	by, group, o := q.cols[0], q.cols[1], q.outcomeText()
+	ev, non := q.values[0], q.values[1]
+	query := "SELECT " + by + ", " + group + ",\n" +
+		"  COUNT(*),\n" +
+		"  SUM(CASE WHEN " + q.cols[2] + " IS NULL THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + o + " IN (" + q.params(1, len(ev)) + ") THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + o + " IN (" + q.params(1+len(ev), len(non)) + ") THEN 1 ELSE 0 END)\n" +
+		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
+	args := make([]any, 0, len(ev)+len(non))
+	for _, v := range append(append([]string{}, ev...), non...) {
+		args = append(args, v)
+	}
+	return q.eachGroup(ctx, t, query, args, 4, func(g sqlGroup, n []int64) error {
+		units, nulls, events, nonEvents := n[0], n[1], n[2], n[3]
+		if events+nonEvents+nulls != units {
+			return q.badOutcomes(ctx, args)
+		}
+		if nulls > 0 {
+			if !q.spec.SkipNulls {
+				return q.nullError(2, nulls, g)
+			}
+			t.Skip(nulls)
+		}
+		if events+nonEvents == 0 {
+			return nil
+		}
+		return t.AddCell(g.value, g.group, events, events+nonEvents)
+	})
+}
+
+// cells runs the cell-rows query: per breakdown value and group, the rows,
+// the rows with a NULL in events, with a NULL in trials, with either, the
+// rows whose counts are impossible, and the sums of events and trials over
+// the rows with both. Impossible rows are found row by row, since sums can
+// hide them (−1 events in one row, +1 in another).
+func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
+	by, group, e, n := q.cols[0], q.cols[1], q.cols[2], q.cols[3]
+	either := e + " IS NULL OR " + n + " IS NULL"
+	query := "SELECT " + by + ", " + group + ",\n" +
+		"  COUNT(*),\n" +
+		"  SUM(CASE WHEN " + e + " IS NULL THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + n + " IS NULL THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + either + " THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + e + " < 0 OR " + n + " < 0 OR " + e + " > " + n + " THEN 1 ELSE 0 END),\n" +
+		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + e + " END),\n" +
+		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + n + " END)\n" +
+		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
+	return q.eachGroup(ctx, t, query, nil, 7, func(g sqlGroup, c []int64) error {
+		nullE, nullN, nullRows, bad, events, trials := c[1], c[2], c[3], c[4], c[5], c[6]
+		if bad > 0 {
+			return q.badCell(ctx)
+		}
+		if nullRows > 0 {
+			if !q.spec.SkipNulls {
+				if nullE > 0 {
+					return q.nullError(2, nullE, g)
+				}
+				return q.nullError(3, nullN, g)
+			}
+			t.Skip(nullRows)
+		}
+		if nullRows == c[0] {
+			return nil
+		}
+		return t.AddCell(g.value, g.group, events, trials)
+	})
+}
+
+// sqlGroup is one result row's breakdown value and group.
+type sqlGroup struct {
+	value, group string
+}
+
+// eachGroup runs query and calls fn with each result row's value, group
+// and its sums (the first being the rows of that value and group). A NULL
+// value or group is an error naming the column, or, with SkipNulls, its
+// rows are counted as skipped.
+func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query string, args []any, sums int, fn func(sqlGroup, []int64) error) error {
+	rows, err := q.db.QueryContext(ctx, query, args...)
+	if err != nil {
+		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
+	}
+	defer rows.Close()
+	var value, group sql.NullString
+	n := make([]int64, sums)
+	dest := []any{&value, &group}
+	for i := range n {
+		dest = append(dest, &n[i])
+	}
+	for rows.Next() {
+		if err := rows.Scan(dest...); err != nil {
+			return fmt.Errorf("table %q: %w; the breakdown and group columns must hold text or numbers, the counts whole numbers (%w)", q.spec.Table, proportions.ErrColumnType, err)
+		}
+		for k, c := range []sql.NullString{value, group} {
+			if c.Valid {
+				continue
+			}
+			if !q.spec.SkipNulls {
+				return q.nullError(k, n[0], sqlGroup{value.String, group.String})
+			}
+			t.Skip(n[0])
+		}
+		if !value.Valid || !group.Valid {
+			continue
+		}
+		g := sqlGroup{value.String, group.String}
+		if err := fn(g, n); err != nil {
+			return fmt.Errorf("table %q, %s %q, group %q: %w", q.spec.Table, q.names[0], g.value, g.group, err)
+		}
+	}
+	if err := rows.Err(); err != nil {
+		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
+	}
+	return nil
+}
+
+// nullError says that column k holds NULL in rows rows of group g.
+func (q *sqlQuery) nullError(k int, rows int64, g sqlGroup) error {
+	where := fmt.Sprintf("%s %q, group %q", q.names[0], g.value, g.group)
+	switch k {
+	case 0:
+		where = fmt.Sprintf("group %q", g.group)
+	case 1:
+		where = fmt.Sprintf("%s %q", q.names[0], g.value)
+	}
+	return fmt.Errorf("table %q: column %q is NULL in %d rows (%s): %w; fill it in, or set SkipNulls to leave such rows out and count them",
+		q.spec.Table, q.names[k], rows, where, proportions.ErrNullValue)
+}
+
+// maxShown is how many offending values an error lists.
+const maxShown = 5
+
+// badOutcomes lists up to five outcome values that are neither the event
+// nor a non-event, with a second query over the same parameters.
+func (q *sqlQuery) badOutcomes(ctx context.Context, args []any) error {
+	all := q.params(1, len(args))
+	query := "SELECT DISTINCT " + q.cols[2] + " FROM " + q.table +
+		"\nWHERE " + q.cols[2] + " IS NOT NULL AND " + q.outcomeText() + " NOT IN (" + all + ")"
+	rows, err := q.db.QueryContext(ctx, query, args...)
+	if err != nil {
+		return fmt.Errorf("%w: %w", proportions.ErrSource, err)
+	}
+	defer rows.Close()
+	var found []string
+	for len(found) < maxShown && rows.Next() {
+		var v sql.NullString
+		if err := rows.Scan(&v); err != nil {
+			return fmt.Errorf("%w: %w", proportions.ErrSource, err)
+		}
+		found = append(found, v.String)
+	}
+	return fmt.Errorf("column %q holds %q (up to %d shown): %w; allowed event values %q, non-event values %q",
+		q.names[2], found, maxShown, proportions.ErrOutcomeValue, q.values[0], q.values[1])
+}
+
+// badCell shows the first cell row with negative counts or more events
+// than trials, counted by a Tally so the error is the one every source
+// gives.
+func (q *sqlQuery) badCell(ctx context.Context) error {
+	e, n := q.cols[2], q.cols[3]
+	query := "SELECT " + e + ", " + n + " FROM " + q.table +
+		"\nWHERE " + e + " < 0 OR " + n + " < 0 OR " + e + " > " + n
+	rows, err := q.db.QueryContext(ctx, query)
+	if err != nil {
+		return fmt.Errorf("%w: %w", proportions.ErrSource, err)
+	}
+	defer rows.Close()
+	var events, trials int64
+	if rows.Next() {
+		if err := rows.Scan(&events, &trials); err != nil {
+			return fmt.Errorf("%w: %w", proportions.ErrColumnType, err)
+		}
+	}
+	t, err := proportions.NewTally(q.spec.BreakdownSpec)
+	if err != nil {
+		return err
+	}
+	if err := t.AddCell("row", "group", events, trials); err != nil {
+		return fmt.Errorf("a row has %q %d and %q %d: %w", q.names[2], events, q.names[3], trials, err)
+	}
+	return fmt.Errorf("%w: the database reported impossible counts that it then did not return", proportions.ErrSource)
+}
