@@ -69,18 +69,6 @@ func newOutcomeValues(spec RecordSpec) (outcomeValues, error) {
 	return o, nil
 }
 
-// OutcomeValues returns the event and non-event values as every reader
-// compares them (trimmed, lower case; the defaults when the spec gives
-// neither list), for a source that classifies outcomes elsewhere, such as
-// in a database query. Errors wrap ErrOutcomeValue as for the readers.
-func (s RecordSpec) OutcomeValues() (event, nonEvent []string, err error) {
-	o, err := newOutcomeValues(s)
-	if err != nil {
-		return nil, nil, err
-	}
-	return slices.Clone(o.event), slices.Clone(o.non), nil
-}
-
 // classify reports whether outcome is the event; a value in neither list is
 // an error naming it and the allowed values (the caller adds where it is).
 func (o outcomeValues) classify(outcome string) (bool, error) {

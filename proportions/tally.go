@@ -62,6 +62,25 @@ func (t *Tally) AddUnit(value, group, outcome string) error {
 	return t.add(value, group, events, 1)
 }
 
+// AddUnits counts units units of group, all with the given outcome, under
+// value: what AddUnit does units times, for a source that has already
+// counted equal rows (a database's GROUP BY). Errors are AddUnit's, and
+// ErrNegativeCount for a negative number of units.
+func (t *Tally) AddUnits(value, group, outcome string, units int64) error {
+	if units < 0 {
+		return fmt.Errorf("%d units: %w; counts must be 0 or more", units, ErrNegativeCount)
+	}
+	isEvent, err := t.values.classify(outcome)
+	if err != nil {
+		return err
+	}
+	var events int64
+	if isEvent {
+		events = units
+	}
+	return t.add(value, group, events, units)
+}
+
 // AddCell adds a cell of aggregated counts: events of trials units of group
 // under value. A value and group may come in several cells; their counts
 // add up. A cell of zero trials is allowed (it records the group and the

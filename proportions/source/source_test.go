@@ -182,7 +182,7 @@ func TestSQLErrors(t *testing.T) {
 	}{
 		{"null outcome", "nullout", proportions.BreakdownSpec{}, proportions.ErrNullValue, []string{`"outcome"`, "2 rows", `group "b"`}},
 		{"null breakdown", "nulls", proportions.BreakdownSpec{RecordSpec: proportions.RecordSpec{FirstGroup: "a"}}, proportions.ErrNullValue, []string{`"stratum"`}},
-		{"odd outcomes", "odd", proportions.BreakdownSpec{}, proportions.ErrOutcomeValue, []string{`"maybe"`, `"n/a"`}},
+		{"odd outcomes", "odd", proportions.BreakdownSpec{}, proportions.ErrOutcomeValue, []string{`"maybe"`, `"outcome"`, `group "b"`}},
 		{"three groups", "three", proportions.BreakdownSpec{}, proportions.ErrGroupCount, []string{`"a"`, `"b"`, `"c"`}},
 		{"events over trials hidden by the sum", "hidden", cells, proportions.ErrEventsExceedTrials, []string{"5", "4"}},
 		{"negative hidden by the sum", "negative", cells, proportions.ErrNegativeCount, []string{"-1"}},

@@ -4,7 +4,6 @@ import (
 	"context"
 	"database/sql"
 	"fmt"
-	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -16,25 +15,12 @@ type Queryer interface {
 	QueryContext(ctx context.Context, query string, args ...any) (*sql.Rows, error)
 }
 
-// Placeholders is how a database's driver marks bind parameters.
-type Placeholders int
-
-const (
-	// QuestionMarks: ?, ?, ? (SQLite, MySQL, most drivers); the default.
-	QuestionMarks Placeholders = iota
-	// DollarNumbers: $1, $2, $3 (PostgreSQL drivers).
-	DollarNumbers
-)
-
-// SQLSpec says which table to read and how: the table's name, the driver's
-// bind-parameter style, and the breakdown spec (layout, columns, outcome
-// values, first group, SkipNulls).
+// SQLSpec says which table to read and how: the table's name and the
+// breakdown spec (layout, columns, outcome values, first group, SkipNulls).
 type SQLSpec struct {
 	// Table names the table or view, as one identifier (a dot is part of
 	// the name, not a schema separator).
 	Table string
-	// Placeholders is the driver's bind-parameter style.
-	Placeholders Placeholders
 	proportions.BreakdownSpec
 }
 
@@ -54,13 +40,15 @@ func QuerySQL(db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
 // the names the table reports, so a missing column's error lists them. Every
 // table and column name is quoted as an SQL identifier ("name", a quote
 // inside doubled), so a name is data whatever it holds; a name with a NUL
-// or invalid UTF-8 is refused. Outcome values go to the database as bind
-// parameters. The outcome is compared as text, trimmed of spaces and in
-// lower case (TRIM, LOWER, CAST AS VARCHAR), so integer 1/0 and boolean
-// outcomes match "1"/"0" or "true"/"false" as the database writes them.
+// or invalid UTF-8 is refused. No other user text enters the query: for
+// unit rows the database counts the rows per breakdown value, group and
+// outcome value (GROUP BY all three), and the distinct outcome values are
+// classified here by the same rules as every other source (trimmed,
+// ignoring case; integers read as "1"/"0", booleans as the driver writes
+// them), so the event values never reach the SQL text or the database.
 //
 // Nothing is dropped silently: an outcome that is neither the event nor a
-// non-event is an error listing up to five such values; a NULL in a column
+// non-event is an error naming the value; a NULL in a column
 // the layout reads is an error naming the column and the breakdown value
 // and group where it occurs, unless spec.SkipNulls is set (then the rows
 // are counted in Breakdown.Skipped); a cell row with negative counts or
@@ -110,12 +98,11 @@ func QuoteIdentifier(name string) (string, error) {
 // (in the order of BreakdownSpec.Columns), their names as the table spells
 // them, and the spec.
 type sqlQuery struct {
-	db     Queryer
-	spec   SQLSpec
-	table  string
-	cols   []string
-	names  []string
-	values [2][]string // event and non-event values, normalized
+	db    Queryer
+	spec  SQLSpec
+	table string
+	cols  []string
+	names []string
 }
 
 // newSQLQuery quotes the table, reads its column names with a query that
@@ -145,9 +132,6 @@ func newSQLQuery(ctx context.Context, db Queryer, spec SQLSpec) (*sqlQuery, erro
 		q.cols = append(q.cols, quoted)
 		q.names = append(q.names, header[i])
 	}
-	if q.values[0], q.values[1], err = spec.OutcomeValues(); err != nil {
-		return nil, err
-	}
 	return q, nil
 }
 
@@ -165,54 +149,24 @@ func tableColumns(ctx context.Context, db Queryer, quoted, name string) ([]strin
 	return header, nil
 }
 
-// params returns n bind parameters from the (1-based) position first on.
-func (q *sqlQuery) params(first, n int) string {
-	p := make([]string, n)
-	for i := range p {
-		if q.spec.Placeholders == DollarNumbers {
-			p[i] = "$" + strconv.Itoa(first+i)
-		} else {
-			p[i] = "?"
-		}
-	}
-	return strings.Join(p, ", ")
-}
-
-// outcomeText is the outcome column compared as trimmed lower-case text.
-func (q *sqlQuery) outcomeText() string {
-	return "LOWER(TRIM(CAST(" + q.cols[2] + " AS VARCHAR(255))))"
-}
-
-// units runs the unit-rows query: per breakdown value and group, the units
-// with a NULL outcome, the events, the non-events and all units.
+// units runs the unit-rows query: the units per breakdown value, group
+// and outcome value.
 func (q *sqlQuery) units(ctx context.Context, t *proportions.Tally) error {
-	by, group, o := q.cols[0], q.cols[1], q.outcomeText()
-	ev, non := q.values[0], q.values[1]
-	query := "SELECT " + by + ", " + group + ",\n" +
-		"  COUNT(*),\n" +
-		"  SUM(CASE WHEN " + q.cols[2] + " IS NULL THEN 1 ELSE 0 END),\n" +
-		"  SUM(CASE WHEN " + o + " IN (" + q.params(1, len(ev)) + ") THEN 1 ELSE 0 END),\n" +
-		"  SUM(CASE WHEN " + o + " IN (" + q.params(1+len(ev), len(non)) + ") THEN 1 ELSE 0 END)\n" +
-		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
-	args := make([]any, 0, len(ev)+len(non))
-	for _, v := range append(append([]string{}, ev...), non...) {
-		args = append(args, v)
-	}
-	return q.eachGroup(ctx, t, query, args, 4, func(g sqlGroup, n []int64) error {
-		units, nulls, events, nonEvents := n[0], n[1], n[2], n[3]
-		if events+nonEvents+nulls != units {
-			return q.badOutcomes(ctx, args)
-		}
-		if nulls > 0 {
+	by, group, o := q.cols[0], q.cols[1], q.cols[2]
+	query := "SELECT " + by + ", " + group + ", " + o + ", COUNT(*)\nFROM " + q.table +
+		"\nGROUP BY " + by + ", " + group + ", " + o + "\nORDER BY " + by + ", " + group + ", " + o
+	return q.eachGroup(ctx, t, query, 1, func(g sqlGroup, n []int64) error {
+		if !g.outcome.Valid {
 			if !q.spec.SkipNulls {
-				return q.nullError(2, nulls, g)
+				return q.nullError(2, n[0], g)
 			}
-			t.Skip(nulls)
-		}
-		if events+nonEvents == 0 {
+			t.Skip(n[0])
 			return nil
 		}
-		return t.AddCell(g.value, g.group, events, events+nonEvents)
+		if err := t.AddUnits(g.value, g.group, g.outcome.String, n[0]); err != nil {
+			return fmt.Errorf("column %q: %w", q.names[2], err)
+		}
+		return nil
 	})
 }
 
@@ -233,7 +187,7 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + e + " END),\n" +
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + n + " END)\n" +
 		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
-	return q.eachGroup(ctx, t, query, nil, 7, func(g sqlGroup, c []int64) error {
+	return q.eachGroup(ctx, t, query, 7, func(g sqlGroup, c []int64) error {
 		nullE, nullN, nullRows, bad, events, trials := c[1], c[2], c[3], c[4], c[5], c[6]
 		if bad > 0 {
 			return q.badCell(ctx)
@@ -254,24 +208,29 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 	})
 }
 
-// sqlGroup is one result row's breakdown value and group.
+// sqlGroup is one result row's breakdown value, group and, for unit rows,
+// outcome value.
 type sqlGroup struct {
 	value, group string
+	outcome      sql.NullString
 }
 
-// eachGroup runs query and calls fn with each result row's value, group
-// and its sums (the first being the rows of that value and group). A NULL
-// value or group is an error naming the column, or, with SkipNulls, its
-// rows are counted as skipped.
-func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query string, args []any, sums int, fn func(sqlGroup, []int64) error) error {
-	rows, err := q.db.QueryContext(ctx, query, args...)
+// eachGroup runs query and calls fn with each result row's value, group,
+// outcome (unit rows) and its sums (the first being the rows it counts). A
+// NULL value or group is an error naming the column, or, with SkipNulls,
+// its rows are counted as skipped.
+func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query string, sums int, fn func(sqlGroup, []int64) error) error {
+	rows, err := q.db.QueryContext(ctx, query)
 	if err != nil {
 		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
 	}
 	defer rows.Close()
-	var value, group sql.NullString
+	var value, group, outcome sql.NullString
 	n := make([]int64, sums)
 	dest := []any{&value, &group}
+	if q.spec.Layout == proportions.UnitRows {
+		dest = append(dest, &outcome)
+	}
 	for i := range n {
 		dest = append(dest, &n[i])
 	}
@@ -279,19 +238,14 @@ func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query st
 		if err := rows.Scan(dest...); err != nil {
 			return fmt.Errorf("table %q: %w; the breakdown and group columns must hold text or numbers, the counts whole numbers (%w)", q.spec.Table, proportions.ErrColumnType, err)
 		}
-		for k, c := range []sql.NullString{value, group} {
-			if c.Valid {
-				continue
-			}
+		if k := nullAt(value, group); k >= 0 {
 			if !q.spec.SkipNulls {
-				return q.nullError(k, n[0], sqlGroup{value.String, group.String})
+				return q.nullError(k, n[0], sqlGroup{value: value.String, group: group.String})
 			}
 			t.Skip(n[0])
-		}
-		if !value.Valid || !group.Valid {
 			continue
 		}
-		g := sqlGroup{value.String, group.String}
+		g := sqlGroup{value.String, group.String, outcome}
 		if err := fn(g, n); err != nil {
 			return fmt.Errorf("table %q, %s %q, group %q: %w", q.spec.Table, q.names[0], g.value, g.group, err)
 		}
@@ -300,6 +254,16 @@ func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query st
 		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
 	}
 	return nil
+}
+
+// nullAt returns the index of the first NULL among the columns, or −1.
+func nullAt(cols ...sql.NullString) int {
+	for k, c := range cols {
+		if !c.Valid {
+			return k
+		}
+	}
+	return -1
 }
 
 // nullError says that column k holds NULL in rows rows of group g.
@@ -313,32 +277,6 @@ func (q *sqlQuery) nullError(k int, rows int64, g sqlGroup) error {
 	}
 	return fmt.Errorf("table %q: column %q is NULL in %d rows (%s): %w; fill it in, or set SkipNulls to leave such rows out and count them",
 		q.spec.Table, q.names[k], rows, where, proportions.ErrNullValue)
-}
-
-// maxShown is how many offending values an error lists.
-const maxShown = 5
-
-// badOutcomes lists up to five outcome values that are neither the event
-// nor a non-event, with a second query over the same parameters.
-func (q *sqlQuery) badOutcomes(ctx context.Context, args []any) error {
-	all := q.params(1, len(args))
-	query := "SELECT DISTINCT " + q.cols[2] + " FROM " + q.table +
-		"\nWHERE " + q.cols[2] + " IS NOT NULL AND " + q.outcomeText() + " NOT IN (" + all + ")"
-	rows, err := q.db.QueryContext(ctx, query, args...)
-	if err != nil {
-		return fmt.Errorf("%w: %w", proportions.ErrSource, err)
-	}
-	defer rows.Close()
-	var found []string
-	for len(found) < maxShown && rows.Next() {
-		var v sql.NullString
-		if err := rows.Scan(&v); err != nil {
-			return fmt.Errorf("%w: %w", proportions.ErrSource, err)
-		}
-		found = append(found, v.String)
-	}
-	return fmt.Errorf("column %q holds %q (up to %d shown): %w; allowed event values %q, non-event values %q",
-		q.names[2], found, maxShown, proportions.ErrOutcomeValue, q.values[0], q.values[1])
 }
 
 // badCell shows the first cell row with negative counts or more events
