@@ -3,6 +3,7 @@ package source
 import (
 	"context"
 	"database/sql"
+	"errors"
 	"fmt"
 	"strings"
 	"unicode/utf8"
@@ -158,7 +159,7 @@ func (q *sqlQuery) units(ctx context.Context, t *proportions.Tally) error {
 	return q.eachGroup(ctx, t, query, 1, func(g sqlGroup, n []int64) error {
 		if !g.outcome.Valid {
 			if !q.spec.SkipNulls {
-				return q.nullError(2, n[0], g)
+				return q.nullError(2, n[0])
 			}
 			t.Skip(n[0])
 			return nil
@@ -187,17 +188,17 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + e + " END),\n" +
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + n + " END)\n" +
 		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
-	return q.eachGroup(ctx, t, query, 7, func(g sqlGroup, c []int64) error {
+	err := q.eachGroup(ctx, t, query, 7, func(g sqlGroup, c []int64) error {
 		nullE, nullN, nullRows, bad, events, trials := c[1], c[2], c[3], c[4], c[5], c[6]
 		if bad > 0 {
-			return q.badCell(ctx)
+			return errImpossible
 		}
 		if nullRows > 0 {
 			if !q.spec.SkipNulls {
 				if nullE > 0 {
-					return q.nullError(2, nullE, g)
+					return q.nullError(2, nullE)
 				}
-				return q.nullError(3, nullN, g)
+				return q.nullError(3, nullN)
 			}
 			t.Skip(nullRows)
 		}
@@ -206,7 +207,15 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 		}
 		return t.AddCell(g.value, g.group, events, trials)
 	})
+	if errors.Is(err, errImpossible) {
+		return q.badCell(ctx)
+	}
+	return err
 }
+
+// errImpossible stops the grouped query when a group holds a cell row with
+// impossible counts; badCell then finds and shows the row.
+var errImpossible = errors.New("a cell row has impossible counts")
 
 // sqlGroup is one result row's breakdown value, group and, for unit rows,
 // outcome value.
@@ -240,13 +249,19 @@ func (q *sqlQuery) eachGroup(ctx context.Context, t *proportions.Tally, query st
 		}
 		if k := nullAt(value, group); k >= 0 {
 			if !q.spec.SkipNulls {
-				return q.nullError(k, n[0], sqlGroup{value: value.String, group: group.String})
+				where := fmt.Sprintf("group %q", group.String)
+				if k == 1 {
+					where = fmt.Sprintf("%s %q", q.names[0], value.String)
+				}
+				return fmt.Errorf("table %q, %s: %w", q.spec.Table, where, q.nullError(k, n[0]))
 			}
 			t.Skip(n[0])
 			continue
 		}
 		g := sqlGroup{value.String, group.String, outcome}
-		if err := fn(g, n); err != nil {
+		if err := fn(g, n); errors.Is(err, errImpossible) {
+			return err
+		} else if err != nil {
 			return fmt.Errorf("table %q, %s %q, group %q: %w", q.spec.Table, q.names[0], g.value, g.group, err)
 		}
 	}
@@ -266,35 +281,30 @@ func nullAt(cols ...sql.NullString) int {
 	return -1
 }
 
-// nullError says that column k holds NULL in rows rows of group g.
-func (q *sqlQuery) nullError(k int, rows int64, g sqlGroup) error {
-	where := fmt.Sprintf("%s %q, group %q", q.names[0], g.value, g.group)
-	switch k {
-	case 0:
-		where = fmt.Sprintf("group %q", g.group)
-	case 1:
-		where = fmt.Sprintf("%s %q", q.names[0], g.value)
-	}
-	return fmt.Errorf("table %q: column %q is NULL in %d rows (%s): %w; fill it in, or set SkipNulls to leave such rows out and count them",
-		q.spec.Table, q.names[k], rows, where, proportions.ErrNullValue)
+// nullError says that column k holds NULL in rows rows; the caller adds
+// the table and where.
+func (q *sqlQuery) nullError(k int, rows int64) error {
+	return fmt.Errorf("column %q is NULL in %d rows: %w; fill it in, or set SkipNulls to leave such rows out and count them",
+		q.names[k], rows, proportions.ErrNullValue)
 }
 
 // badCell shows the first cell row with negative counts or more events
-// than trials, counted by a Tally so the error is the one every source
-// gives.
+// than trials, with its breakdown value and group, checked by a Tally so
+// the error is the one every source gives.
 func (q *sqlQuery) badCell(ctx context.Context) error {
-	e, n := q.cols[2], q.cols[3]
-	query := "SELECT " + e + ", " + n + " FROM " + q.table +
+	by, group, e, n := q.cols[0], q.cols[1], q.cols[2], q.cols[3]
+	query := "SELECT " + by + ", " + group + ", " + e + ", " + n + " FROM " + q.table +
 		"\nWHERE " + e + " < 0 OR " + n + " < 0 OR " + e + " > " + n
 	rows, err := q.db.QueryContext(ctx, query)
 	if err != nil {
-		return fmt.Errorf("%w: %w", proportions.ErrSource, err)
+		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
 	}
 	defer rows.Close()
+	var value, grp sql.NullString
 	var events, trials int64
 	if rows.Next() {
-		if err := rows.Scan(&events, &trials); err != nil {
-			return fmt.Errorf("%w: %w", proportions.ErrColumnType, err)
+		if err := rows.Scan(&value, &grp, &events, &trials); err != nil {
+			return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrColumnType, err)
 		}
 	}
 	t, err := proportions.NewTally(q.spec.BreakdownSpec)
@@ -302,7 +312,8 @@ func (q *sqlQuery) badCell(ctx context.Context) error {
 		return err
 	}
 	if err := t.AddCell("row", "group", events, trials); err != nil {
-		return fmt.Errorf("a row has %q %d and %q %d: %w", q.names[2], events, q.names[3], trials, err)
+		return fmt.Errorf("table %q, %s %q, group %q: a row has %q %d and %q %d: %w",
+			q.spec.Table, q.names[0], value.String, grp.String, q.names[2], events, q.names[3], trials, err)
 	}
-	return fmt.Errorf("%w: the database reported impossible counts that it then did not return", proportions.ErrSource)
+	return fmt.Errorf("table %q: %w: the database reported impossible counts that it then did not return", q.spec.Table, proportions.ErrSource)
 }
