@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -61,7 +62,7 @@ type BreakdownSpec struct {
 	Comma rune
 	// SkipNulls, for SQL and Parquet sources, leaves out rows where a
 	// column the layout needs is NULL and counts them in
-	// [Breakdown.Skipped]; without it a NULL is an error naming the column.
+	// [Breakdown.SkippedRows]; without it a NULL is an error naming the column.
 	SkipNulls bool
 	RecordSpec
 }
@@ -142,7 +143,16 @@ func BreakdownFromCells(cells []BreakdownCell, spec BreakdownSpec) (Breakdown, e
 	return t.Breakdown()
 }
 
-// ReadBreakdownCSV streams a CSV file of unit rows or cell rows (see
+// ReadBreakdownCSV is ReadBreakdownCSVContext without a deadline.
+func ReadBreakdownCSV(r io.Reader, spec BreakdownSpec) (Breakdown, error) {
+	return ReadBreakdownCSVContext(context.Background(), r, spec)
+}
+
+// rowsPerContextCheck is how many rows a reader counts between looks at
+// its context: well under a millisecond of work.
+const rowsPerContextCheck = 1 << 14
+
+// ReadBreakdownCSVContext streams a CSV file of unit rows or cell rows (see
 // spec.Layout) into a breakdown; memory grows with the number of breakdown
 // values, not rows. Line ends, the byte-order mark and the delimiter are
 // handled as by [ReadCSV]; other columns are ignored. Errors wrap
@@ -150,8 +160,8 @@ func BreakdownFromCells(cells []BreakdownCell, spec BreakdownSpec) (Breakdown, e
 // (with the line number: a ragged row, a count that is not a whole number,
 // an empty value or group), ErrOutcomeValue, ErrNegativeCount,
 // ErrEventsExceedTrials, ErrGroupCount, ErrUnknownGroup or ErrTooLarge; a
-// row's error names its line.
-func ReadBreakdownCSV(r io.Reader, spec BreakdownSpec) (Breakdown, error) {
+// row's error names its line. A cancelled ctx stops the read with its error.
+func ReadBreakdownCSVContext(ctx context.Context, r io.Reader, spec BreakdownSpec) (Breakdown, error) {
 	if err := spec.Check(); err != nil {
 		return Breakdown{}, err
 	}
@@ -166,6 +176,11 @@ func ReadBreakdownCSV(r io.Reader, spec BreakdownSpec) (Breakdown, error) {
 	}
 	rows := 0
 	for ; ; rows++ {
+		if rows%rowsPerContextCheck == 0 {
+			if err := ctx.Err(); err != nil {
+				return Breakdown{}, err
+			}
+		}
 		row, where, err := table.next()
 		if errors.Is(err, io.EOF) {
 			break

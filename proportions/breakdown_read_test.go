@@ -2,6 +2,7 @@ package proportions
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -228,5 +229,15 @@ func TestReadBreakdownCSVKeepsEmptyRows(t *testing.T) {
 	}
 	if b.Rows[0].Empty() || !b.Rows[1].Empty() {
 		t.Errorf("Empty flags: %v %v", b.Rows[0].Empty(), b.Rows[1].Empty())
+	}
+}
+
+// TestReadBreakdownCSVCancel: a cancelled context stops the read.
+func TestReadBreakdownCSVCancel(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err := ReadBreakdownCSVContext(ctx, strings.NewReader("stratum,group,outcome\ns,a,1\ns,b,0\n"), BreakdownSpec{})
+	if !errors.Is(err, context.Canceled) {
+		t.Errorf("got %v, want context.Canceled", err)
 	}
 }

@@ -144,7 +144,7 @@ func (t *Tally) groupIndex(g string) (int, error) {
 
 // Skip records n source rows left out because a column they need was NULL
 // (only on request: BreakdownSpec.SkipNulls). The count is reported in
-// [Breakdown.Skipped], so nothing is dropped silently.
+// [Breakdown.SkippedRows], so nothing is dropped silently.
 func (t *Tally) Skip(n int64) { t.skipped += n }
 
 // Breakdown returns the counts as a breakdown, one row per value in the
@@ -175,6 +175,6 @@ func (t *Tally) Breakdown() (Breakdown, error) {
 	if err != nil {
 		return Breakdown{}, err
 	}
-	bd.Skipped = t.skipped
+	bd.SkippedRows = t.skipped
 	return bd, nil
 }

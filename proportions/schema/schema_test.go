@@ -903,6 +903,7 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
+		{"a breakdown with negative skipped rows", mustBreakdown(t), schema.Breakdown, func(d obj) { d["skipped_rows"] = -3 }},
 	}
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)

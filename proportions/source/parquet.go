@@ -34,7 +34,7 @@ func ReadParquet(r io.ReaderAt, size int64, spec proportions.BreakdownSpec) (pro
 //
 // A NULL in a column the layout reads is an error naming the column and the
 // row (counted from 1 across row groups), unless spec.SkipNulls is set:
-// then the row is left out and counted in Breakdown.Skipped. Errors wrap
+// then the row is left out and counted in Breakdown.SkippedRows. Errors wrap
 // proportions.ErrSource (not a Parquet file), ErrMissingColumn,
 // ErrColumnType, ErrNullValue, the errors of proportions.Tally with the
 // row, or the context's error.

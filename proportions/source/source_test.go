@@ -205,12 +205,12 @@ func TestSQLErrors(t *testing.T) {
 	// Skipping NULLs counts the rows left out: 3 in "nulls" (two NULL
 	// outcomes, one NULL stratum), 1 in "nullcells".
 	b, err := QuerySQL(db, SQLSpec{Table: "nulls", BreakdownSpec: proportions.BreakdownSpec{SkipNulls: true}})
-	if err != nil || b.Skipped != 3 || b.Rows[0].Counts != (proportions.Counts{X1: 1, N1: 1, X2: 0, N2: 1}) {
+	if err != nil || b.SkippedRows != 3 || b.Rows[0].Counts != (proportions.Counts{X1: 1, N1: 1, X2: 0, N2: 1}) {
 		t.Errorf("skipping NULLs: %+v, %v; want 3 skipped, 1 of 1 and 0 of 1", b, err)
 	}
 	cells.SkipNulls = true
 	b, err = QuerySQL(db, SQLSpec{Table: "nullcells", BreakdownSpec: cells})
-	if err != nil || b.Skipped != 1 || b.Rows[0].Counts != (proportions.Counts{X1: 1, N1: 4, X2: 1, N2: 3}) {
+	if err != nil || b.SkippedRows != 1 || b.Rows[0].Counts != (proportions.Counts{X1: 1, N1: 4, X2: 1, N2: 3}) {
 		t.Errorf("skipping NULL cells: %+v, %v; want 1 skipped, 1 of 4 and 1 of 3", b, err)
 	}
 	canaryAlive(t, db)
@@ -234,7 +234,7 @@ func TestParquetNullsAndTypes(t *testing.T) {
 	spec.SkipNulls = true
 	b, err := readParquetFile(t, path, spec)
 	want := []proportions.BreakdownRow{{Value: "1", Counts: proportions.Counts{X1: 1, N1: 1, X2: 0, N2: 1}}, {Value: "2", Counts: proportions.Counts{X1: 0, N1: 0, X2: 1, N2: 2}}}
-	if err != nil || b.Skipped != 1 || !reflect.DeepEqual(b.Rows, want) || !b.Rows[1].Empty() {
+	if err != nil || b.SkippedRows != 1 || !reflect.DeepEqual(b.Rows, want) || !b.Rows[1].Empty() {
 		t.Errorf("skipping: %+v, %v; want 1 skipped and rows %+v (counted by hand)", b, err, want)
 	}
 	// A text column as a count column is refused before any row is read.

@@ -52,7 +52,7 @@ func QuerySQL(db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
 // non-event is an error naming the value; a NULL in a column
 // the layout reads is an error naming the column and the breakdown value
 // and group where it occurs, unless spec.SkipNulls is set (then the rows
-// are counted in Breakdown.Skipped); a cell row with negative counts or
+// are counted in Breakdown.SkippedRows); a cell row with negative counts or
 // more events than trials is an error showing that row, even when the sums
 // would look valid. Errors wrap proportions.ErrSource (the database's own
 // error: no such table, a failed query), ErrMissingColumn, ErrColumnType,
