@@ -241,3 +241,66 @@ func TestReadBreakdownCSVCancel(t *testing.T) {
 		t.Errorf("got %v, want context.Canceled", err)
 	}
 }
+
+// FuzzReadBreakdownCSV: the reader never panics, and whatever it accepts is
+// a valid breakdown whose trials add up to the data rows, in either layout
+// (for cell rows, to the sum of the trials column as a plain parse finds it).
+func FuzzReadBreakdownCSV(f *testing.F) {
+	f.Add("stratum,group,outcome\ns,a,1\nt,b,0\n", false)
+	f.Add("stratum;group;outcome\ns;a;yes\ns;b;no\n", false)
+	f.Add("stratum,group,events,trials\ns,a,1,3\ns,b,0,2\ns,a,2,2\n", true)
+	f.Add("stratum,group,events,trials\ns,a,-1,3\n", true)
+	f.Add("\ufeff\"stratum\"\t\"group\"\t\"outcome\"\r\"a\nb\"\tx\t1\ry\tz\t0\r", false)
+	f.Fuzz(func(t *testing.T, data string, cells bool) {
+		spec := BreakdownSpec{}
+		if cells {
+			spec.Layout = CellRows
+		}
+		b, err := ReadBreakdownCSV(strings.NewReader(data), spec)
+		if err != nil {
+			return
+		}
+		var total int64
+		for _, r := range b.Rows {
+			if err := validateRow(r.Counts); err != nil || r.Value == "" {
+				t.Fatalf("accepted an invalid row %+v: %v", r, err)
+			}
+			total += r.Counts.N1 + r.Counts.N2
+		}
+		want := plainTotal(t, data, cells)
+		if total != want {
+			t.Errorf("trials add up to %d, the rows hold %d", total, want)
+		}
+	})
+}
+
+// plainTotal re-reads accepted data with encoding/csv and counts the rows
+// (unit rows) or sums the last named column (cell rows).
+func plainTotal(t *testing.T, data string, cells bool) int64 {
+	ends := newLineEnds(strings.NewReader(data))
+	comma, _ := detectComma(ends.peekLine())
+	r := csv.NewReader(ends)
+	r.Comma = comma
+	rows, err := r.ReadAll()
+	if err != nil {
+		t.Fatalf("accepted data encoding/csv refuses: %v", err)
+	}
+	header := rows[0]
+	trials := -1
+	for i, h := range header {
+		if strings.EqualFold(strings.TrimSpace(h), "trials") {
+			trials = i
+		}
+	}
+	var total int64
+	for _, row := range rows[1:] {
+		if !cells {
+			total++
+			continue
+		}
+		var n int64
+		fmt.Sscan(strings.TrimSpace(row[trials]), &n)
+		total += n
+	}
+	return total
+}
