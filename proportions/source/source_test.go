@@ -246,6 +246,20 @@ func TestParquetNullsAndTypes(t *testing.T) {
 	if !errors.Is(err, proportions.ErrMissingColumn) || !strings.Contains(err.Error(), `["plant" "supplier" "defective"]`) && !strings.Contains(err.Error(), `"defective" "plant" "supplier"`) {
 		t.Errorf("missing column: %v, want the header listed", err)
 	}
+	// An integer outcome column: 1 is the event, 0 a non-event, 2 neither.
+	ints := []column{
+		{name: "lot", node: parquet.String(), data: []any{"L1", "L1", "L1", "L2"}},
+		{name: "group", node: parquet.String(), data: []any{"a", "b", "a", "b"}},
+		{name: "outcome", node: parquet.Int(64), data: []any{int64(1), int64(0), int64(1), int64(1)}},
+	}
+	b, err = readParquetFile(t, writeParquet(t, t.TempDir(), 10, ints), proportions.BreakdownSpec{ByColumn: "lot"})
+	if err != nil || b.Rows[0].Counts != (proportions.Counts{X1: 2, N1: 2, X2: 0, N2: 1}) || b.Rows[1].Counts != (proportions.Counts{X2: 1, N2: 1}) {
+		t.Errorf("integer outcomes: %+v, %v; want 2 of 2 vs 0 of 1, then 0 of 0 vs 1 of 1 (counted by hand)", b, err)
+	}
+	ints[2].data[3] = int64(2)
+	if _, err = readParquetFile(t, writeParquet(t, t.TempDir(), 10, ints), proportions.BreakdownSpec{ByColumn: "lot"}); !errors.Is(err, proportions.ErrOutcomeValue) || !strings.Contains(err.Error(), "row 4") {
+		t.Errorf("outcome 2: %v, want ErrOutcomeValue on row 4", err)
+	}
 	_, err = ReadParquet(strings.NewReader("not parquet"), 11, spec)
 	if !errors.Is(err, proportions.ErrSource) {
 		t.Errorf("not a Parquet file: %v, want ErrSource", err)
