@@ -22,6 +22,8 @@ var glossaryPackages = map[string]string{
 	"bayes":       "bayes",
 	"clusters":    "clusters",
 	"source":      "source",
+	"simulate":    "clusters/simulate",
+	"strata":      "strata",
 	"notebookui":  "../notebookui",
 }
 
