@@ -37,6 +37,10 @@ type Breakdown struct {
 	Second string         `json:"second"`
 	Event  string         `json:"event"`
 	Rows   []BreakdownRow `json:"rows"`
+	// SkippedRows counts the source rows left out because a column they need
+	// was NULL, only when the reader was asked to (BreakdownSpec.SkipNulls);
+	// otherwise a NULL is an error and SkippedRows is 0.
+	SkippedRows int64 `json:"skipped_rows"`
 }
 
 // DefaultBreakdownColumn names the breakdown column when the caller gives

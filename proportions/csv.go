@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 )
 
@@ -22,18 +23,21 @@ const (
 type CSVSpec struct {
 	GroupColumn   string
 	OutcomeColumn string
-	// Comma is the field delimiter (',' by default; ';' and '\t' are common).
+	// Comma is the field delimiter. Zero detects it from the header: ','
+	// unless the header has no comma outside quotes but has ';' or '\t',
+	// which is then the delimiter (a header with both is an error: set it).
 	Comma rune
 	RecordSpec
 }
 
 // ReadCSV reads one row per unit from r and counts it into a comparison.
 // Other columns are ignored. Lines may end in LF, CRLF or CR alone (old Mac
-// files), and a UTF-8 byte-order mark before the header is skipped. Errors
-// wrap ErrEmptyInput (no header or no rows), ErrMissingColumn,
-// ErrMalformedRow (with the line number; also for a header that names the
-// group or outcome column twice), ErrOutcomeValue (with the line number),
-// ErrGroupCount or ErrUnknownGroup.
+// files), and a UTF-8 byte-order mark before the header is skipped. With no
+// Comma set, a header with no comma but with semicolons or tabs sets the
+// delimiter (see [CSVSpec]). Errors wrap ErrEmptyInput (no header or no
+// rows), ErrMissingColumn, ErrMalformedRow (with the line number; also for a
+// header that names the group or outcome column twice), ErrOutcomeValue
+// (with the line number), ErrGroupCount or ErrUnknownGroup.
 func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 	groupCol := defaultString(spec.GroupColumn, DefaultGroupColumn)
 	outcomeCol := defaultString(spec.OutcomeColumn, DefaultOutcomeColumn)
@@ -41,32 +45,20 @@ func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 	if err != nil {
 		return Comparison{}, err
 	}
-	cr := csv.NewReader(newLineEnds(r))
-	if spec.Comma != 0 {
-		cr.Comma = spec.Comma
-	}
-	cr.ReuseRecord = true
-	header, err := cr.Read()
-	if errors.Is(err, io.EOF) {
-		return Comparison{}, fmt.Errorf("%w: the CSV has no header row and no data", ErrEmptyInput)
-	}
-	if err != nil {
-		return Comparison{}, csvError(err)
-	}
-	gi, oi, err := findColumns(header, groupCol, outcomeCol)
+	table, err := openCSV(r, spec.Comma, groupCol, outcomeCol)
 	if err != nil {
 		return Comparison{}, err
 	}
+	gi, oi := table.cols[0], table.cols[1]
 	for {
-		row, err := cr.Read()
+		row, where, err := table.next()
 		if errors.Is(err, io.EOF) {
 			break
 		}
 		if err != nil {
-			return Comparison{}, csvError(err)
+			return Comparison{}, err
 		}
-		line, _ := cr.FieldPos(0)
-		if err := counter.add(row[gi], row[oi], fmt.Sprintf("line %d", line)); err != nil {
+		if err := counter.add(row[gi], row[oi], where); err != nil {
 			return Comparison{}, err
 		}
 	}
@@ -76,6 +68,88 @@ func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 	return counter.comparison(outcomeCol)
 }
 
+// csvTable reads the rows of a CSV file after its header, where the named
+// columns were found at cols. Readers of every layout share it, so they
+// handle line ends, the byte-order mark, the delimiter and the header alike.
+type csvTable struct {
+	cr   *csv.Reader
+	cols []int
+}
+
+// openCSV reads the header of r and finds the columns named in want (see
+// [FindColumns]). comma 0 detects the delimiter from the header.
+func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
+	ends := newLineEnds(r)
+	if comma == 0 {
+		var err error
+		if comma, err = detectComma(ends.peekLine()); err != nil {
+			return nil, err
+		}
+	}
+	cr := csv.NewReader(ends)
+	cr.Comma = comma
+	cr.ReuseRecord = true
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, fmt.Errorf("%w: the CSV has no header row and no data", ErrEmptyInput)
+	}
+	if err != nil {
+		return nil, csvError(err)
+	}
+	cols, err := FindColumns(header, want...)
+	if err != nil {
+		return nil, err
+	}
+	return &csvTable{cr: cr, cols: cols}, nil
+}
+
+// next returns the next row and its place ("line 7") for error messages;
+// io.EOF after the last row. The row is reused by the following call.
+func (t *csvTable) next() (row []string, where string, err error) {
+	row, err = t.cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, "", io.EOF
+	}
+	if err != nil {
+		return nil, "", csvError(err)
+	}
+	line, _ := t.cr.FieldPos(0)
+	return row, "line " + strconv.Itoa(line), nil
+}
+
+// detectComma picks the delimiter from the header line: a comma outside
+// quotes means ',' (the default, also for a one-column header); a header
+// with no comma but semicolons (spreadsheets in locales with decimal
+// commas) or tabs uses that. A header with both, and no comma, cannot be
+// told apart and is an error asking for the delimiter.
+func detectComma(header []byte) (rune, error) {
+	var commas, semicolons, tabs int
+	quoted := false
+	for _, c := range header {
+		switch {
+		case c == '"':
+			quoted = !quoted
+		case quoted:
+		case c == ',':
+			commas++
+		case c == ';':
+			semicolons++
+		case c == '\t':
+			tabs++
+		}
+	}
+	switch {
+	case commas > 0 || semicolons+tabs == 0:
+		return ',', nil
+	case semicolons > 0 && tabs > 0:
+		return 0, fmt.Errorf("line 1: %w: the header has %d semicolons and %d tabs and no comma, so the delimiter is unclear; set the delimiter (Comma) to ';' or '\\t'",
+			ErrMalformedRow, semicolons, tabs)
+	case semicolons > 0:
+		return ';', nil
+	}
+	return '\t', nil
+}
+
 func defaultString(v, def string) string {
 	if strings.TrimSpace(v) == "" {
 		return def
@@ -83,23 +157,34 @@ func defaultString(v, def string) string {
 	return strings.TrimSpace(v)
 }
 
-// findColumns locates the two named columns, exactly after trimming spaces
-// (and a UTF-8 byte-order mark), or else ignoring case when that is unique.
-func findColumns(header []string, groupCol, outcomeCol string) (gi, oi int, err error) {
+// FindColumns returns the index in header of each column named in want,
+// found exactly after trimming spaces (and a UTF-8 byte-order mark), or else
+// ignoring case when that is unique. A wanted name missing from the header
+// is an error wrapping ErrMissingColumn that lists the header; a wanted
+// name the header holds twice, or two wanted names that find the same
+// column, wrap ErrMalformedRow and ErrMissingColumn respectively and name
+// the column. Columns nobody asked for may repeat. Every source that reads
+// named columns (CSV, Parquet, SQL) finds them here, so names match alike.
+func FindColumns(header []string, want ...string) ([]int, error) {
 	names := make([]string, len(header))
 	for i, h := range header {
 		names[i] = strings.TrimSpace(strings.TrimPrefix(h, "\ufeff"))
 	}
-	if gi, err = findColumn(names, groupCol); err != nil {
-		return 0, 0, err
+	cols := make([]int, len(want))
+	for k, w := range want {
+		i, err := findColumn(names, w)
+		if err != nil {
+			return nil, err
+		}
+		for j := range k {
+			if cols[j] == i {
+				return nil, fmt.Errorf("columns %q and %q: %w; both name column %d (%q), and each role needs a column of its own",
+					want[j], w, ErrMissingColumn, i+1, names[i])
+			}
+		}
+		cols[k] = i
 	}
-	if oi, err = findColumn(names, outcomeCol); err != nil {
-		return 0, 0, err
-	}
-	if gi == oi {
-		return 0, 0, fmt.Errorf("column %q: %w; the group and outcome columns must differ", groupCol, ErrMissingColumn)
-	}
-	return gi, oi, nil
+	return cols, nil
 }
 
 // findColumn returns the one column named want: exactly, or else ignoring

@@ -25,8 +25,12 @@ type lineEnds struct {
 	cr bool
 }
 
+// headerPeek is how far ahead the delimiter detection looks for the end of
+// the header line; a longer header is judged on its first 64 KiB.
+const headerPeek = 64 << 10
+
 func newLineEnds(r io.Reader) *lineEnds {
-	br := bufio.NewReader(r)
+	br := bufio.NewReaderSize(r, headerPeek)
 	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
 		_, _ = br.Discard(len(utf8BOM))
 	}
@@ -55,4 +59,14 @@ func (l *lineEnds) Read(p []byte) (int, error) {
 			return out, err
 		}
 	}
+}
+
+// peekLine returns the first line still to be read (the header), without
+// consuming it; at most headerPeek bytes.
+func (l *lineEnds) peekLine() []byte {
+	b, _ := l.r.Peek(headerPeek)
+	if i := bytes.IndexAny(b, "\r\n"); i >= 0 {
+		b = b[:i]
+	}
+	return b
 }

@@ -25,6 +25,18 @@ var (
 	// ErrDuplicateValue: a value of a breakdown column (a stratum, a
 	// segment, a cluster) appears in more than one row.
 	ErrDuplicateValue = errors.New("value appears more than once")
+	// ErrLayout: an unknown layout of a source's rows (see Layout).
+	ErrLayout = errors.New("unknown layout")
+	// ErrNullValue: a column a source needs holds NULL (SQL, Parquet); the
+	// message names the column and the row or value.
+	ErrNullValue = errors.New("missing value (NULL)")
+	// ErrColumnType: a source column cannot hold what the layout reads (a
+	// count column that holds text, a nested or repeated Parquet column).
+	ErrColumnType = errors.New("column type not usable")
+	// ErrSource: a source cannot be read at all (a file that is not
+	// Parquet, a table the database lacks, a failed query); the message
+	// holds the reader's or the database's own error.
+	ErrSource = errors.New("source cannot be read")
 	// ErrMalformedRow: a CSV row cannot be read (its line number is in the message).
 	ErrMalformedRow = errors.New("malformed row")
 	// ErrLevel: a confidence level is outside [MinLevel, MaxLevel], a

@@ -21,6 +21,7 @@ var glossaryPackages = map[string]string{
 	"operating":   "operating",
 	"bayes":       "bayes",
 	"clusters":    "clusters",
+	"source":      "source",
 	"simulate":    "clusters/simulate",
 	"strata":      "strata",
 	"notebookui":  "../notebookui",

@@ -39,38 +39,67 @@ type RecordSpec struct {
 	EventName string
 }
 
+// outcomeValues classifies outcome values as the event or a non-event,
+// after trimming spaces and ignoring case. Every reader shares it (records,
+// CSV, breakdown sources), so a value means the same in every source.
+type outcomeValues struct {
+	event []string
+	non   []string
+}
+
+func newOutcomeValues(spec RecordSpec) (outcomeValues, error) {
+	ev, non := spec.EventValues, spec.NonEventValues
+	if len(ev) == 0 && len(non) == 0 {
+		ev, non = defaultEventValues, defaultNonEventValues
+	}
+	if len(ev) == 0 || len(non) == 0 {
+		return outcomeValues{}, fmt.Errorf("outcome values: %w; give both EventValues and NonEventValues (or neither, for the defaults %v and %v)",
+			ErrOutcomeValue, defaultEventValues, defaultNonEventValues)
+	}
+	var o outcomeValues
+	for _, v := range ev {
+		o.event = append(o.event, normalizeValue(v))
+	}
+	for _, v := range non {
+		n := normalizeValue(v)
+		if slices.Contains(o.event, n) {
+			return outcomeValues{}, fmt.Errorf("outcome value %q: %w; it is listed both as the event and as a non-event", v, ErrOutcomeValue)
+		}
+		o.non = append(o.non, n)
+	}
+	return o, nil
+}
+
+// classify reports whether outcome is the event; a value in neither list is
+// an error naming it and the allowed values (the caller adds where it is).
+func (o outcomeValues) classify(outcome string) (bool, error) {
+	n := normalizeValue(outcome)
+	switch {
+	case slices.Contains(o.event, n):
+		return true, nil
+	case slices.Contains(o.non, n):
+		return false, nil
+	}
+	return false, fmt.Errorf("outcome %q: %w; allowed event values %q, non-event values %q",
+		outcome, ErrOutcomeValue, o.event, o.non)
+}
+
 // outcomeReader classifies outcome values and counts them per group,
 // keeping the order in which groups first appear.
 type outcomeReader struct {
 	spec   RecordSpec
-	event  []string
-	non    []string
+	values outcomeValues
 	order  []string
 	events map[string]int64
 	trials map[string]int64
 }
 
 func newOutcomeReader(spec RecordSpec) (*outcomeReader, error) {
-	ev, non := spec.EventValues, spec.NonEventValues
-	if len(ev) == 0 && len(non) == 0 {
-		ev, non = defaultEventValues, defaultNonEventValues
+	values, err := newOutcomeValues(spec)
+	if err != nil {
+		return nil, err
 	}
-	if len(ev) == 0 || len(non) == 0 {
-		return nil, fmt.Errorf("outcome values: %w; give both EventValues and NonEventValues (or neither, for the defaults %v and %v)",
-			ErrOutcomeValue, defaultEventValues, defaultNonEventValues)
-	}
-	r := &outcomeReader{spec: spec, events: map[string]int64{}, trials: map[string]int64{}}
-	for _, v := range ev {
-		r.event = append(r.event, normalizeValue(v))
-	}
-	for _, v := range non {
-		n := normalizeValue(v)
-		if slices.Contains(r.event, n) {
-			return nil, fmt.Errorf("outcome value %q: %w; it is listed both as the event and as a non-event", v, ErrOutcomeValue)
-		}
-		r.non = append(r.non, n)
-	}
-	return r, nil
+	return &outcomeReader{spec: spec, values: values, events: map[string]int64{}, trials: map[string]int64{}}, nil
 }
 
 func normalizeValue(v string) string { return strings.ToLower(strings.TrimSpace(v)) }
@@ -81,15 +110,9 @@ func (r *outcomeReader) add(group, outcome, where string) error {
 	if g == "" {
 		return fmt.Errorf("%s: %w; the group is empty", where, ErrMalformedRow)
 	}
-	o := normalizeValue(outcome)
-	var isEvent bool
-	switch {
-	case slices.Contains(r.event, o):
-		isEvent = true
-	case slices.Contains(r.non, o):
-	default:
-		return fmt.Errorf("%s: outcome %q: %w; allowed event values %q, non-event values %q",
-			where, outcome, ErrOutcomeValue, r.event, r.non)
+	isEvent, err := r.values.classify(outcome)
+	if err != nil {
+		return fmt.Errorf("%s: %w", where, err)
 	}
 	if _, seen := r.trials[g]; !seen {
 		r.order = append(r.order, g)
@@ -109,15 +132,9 @@ func (r *outcomeReader) comparison(defaultEvent string) (Comparison, error) {
 	if len(r.order) != 2 {
 		return Comparison{}, groupCountError(r.order)
 	}
-	first, second := r.order[0], r.order[1]
-	if want := strings.TrimSpace(r.spec.FirstGroup); want != "" {
-		switch want {
-		case first:
-		case second:
-			first, second = second, first
-		default:
-			return Comparison{}, fmt.Errorf("first group %q: %w; the groups in the data are %q and %q", want, ErrUnknownGroup, first, second)
-		}
+	first, second, _, err := orderGroups(r.order[0], r.order[1], r.spec.FirstGroup)
+	if err != nil {
+		return Comparison{}, err
 	}
 	event := r.spec.EventName
 	if strings.TrimSpace(event) == "" {
@@ -125,6 +142,20 @@ func (r *outcomeReader) comparison(defaultEvent string) (Comparison, error) {
 	}
 	return NewComparison(r.events[first], r.trials[first], r.events[second], r.trials[second],
 		Labels{First: first, Second: second, Event: event})
+}
+
+// orderGroups puts the groups a and b (in the order met) in reporting
+// order: as met, or with the named first group first (swap reports the
+// exchange). A first group that is neither is an error listing both.
+func orderGroups(a, b, firstGroup string) (first, second string, swap bool, err error) {
+	switch want := strings.TrimSpace(firstGroup); want {
+	case "", a:
+		return a, b, false, nil
+	case b:
+		return b, a, true, nil
+	default:
+		return "", "", false, fmt.Errorf("first group %q: %w; the groups in the data are %q and %q", want, ErrUnknownGroup, a, b)
+	}
 }
 
 // FromRecords counts records into a comparison following spec (see

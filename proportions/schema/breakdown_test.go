@@ -21,6 +21,22 @@ func checkBreakdowns(t *testing.T, c *corpus) {
 		}
 		c.check(schema.Breakdown, b)
 	}
+	// A breakdown counted by a Tally that left rows out for NULLs.
+	tally, err := proportions.NewTally(proportions.BreakdownSpec{ByColumn: "segment"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, u := range [][3]string{{"s1", "a", "1"}, {"s1", "b", "0"}, {"s2", "b", "1"}} {
+		if err := tally.AddUnit(u[0], u[1], u[2]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	tally.Skip(2)
+	b, err := tally.Breakdown()
+	if err != nil || b.SkippedRows != 2 {
+		t.Fatalf("tally: %+v, %v", b, err)
+	}
+	c.check(schema.Breakdown, b)
 }
 
 func mustBreakdown(t *testing.T) proportions.Breakdown {

@@ -923,6 +923,7 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
+		{"a breakdown with negative skipped rows", mustBreakdown(t), schema.Breakdown, func(d obj) { d["skipped_rows"] = -3 }},
 		{"null homogeneity", mustStratified(t), schema.Stratified, func(d obj) { d["homogeneity"] = nil }},
 		{"an unknown stratified warning", mustStratified(t), schema.Stratified, func(d obj) { first(d["warnings"])["code"] = "simpson" }},
 		{"a stratum weight above 1", mustStratified(t), schema.Stratified, func(d obj) { first(d["strata"])["weight"] = 1.5 }},
