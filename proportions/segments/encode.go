@@ -1,0 +1,254 @@
+package segments
+
+import (
+	"encoding/json"
+	"math"
+	"strconv"
+	"unicode/utf8"
+
+	"github.com/propscope/propscope/internal/jsonlist"
+	"github.com/propscope/propscope/proportions"
+)
+
+// The records are encoded by hand, not with encoding/json's reflection:
+// at a million segments the encoder is most of the stream's time. The
+// same functions write Result's JSON and the streams' lines, so the two
+// are equal byte for byte.
+
+// segmentColumns and adjustedColumns are the CSV headers: the JSON field
+// names, with the counts spread over four columns.
+var (
+	segmentColumns = []string{"number", "value", "x1", "n1", "x2", "n2", "empty", "sparse", "smallest_expected",
+		"rate1", "rate2", "difference", "lower", "upper", "statistic", "p_value", "reject"}
+	adjustedColumns = []string{"number", "value", "adjusted_p_value", "simultaneous_lower", "simultaneous_upper", "reject"}
+)
+
+// appendJSON appends the segment as one JSON object.
+func (s Segment) appendJSON(b []byte) []byte {
+	b = append(b, `{"number":`...)
+	b = strconv.AppendInt(b, int64(s.Number), 10)
+	b = append(b, `,"value":`...)
+	b = appendJSONString(b, s.Value)
+	b = append(b, `,"counts":{"x1":`...)
+	b = strconv.AppendInt(b, s.Counts.X1, 10)
+	b = append(b, `,"n1":`...)
+	b = strconv.AppendInt(b, s.Counts.N1, 10)
+	b = append(b, `,"x2":`...)
+	b = strconv.AppendInt(b, s.Counts.X2, 10)
+	b = append(b, `,"n2":`...)
+	b = strconv.AppendInt(b, s.Counts.N2, 10)
+	b = append(b, `},"empty":`...)
+	b = strconv.AppendBool(b, s.Empty)
+	b = append(b, `,"sparse":`...)
+	b = strconv.AppendBool(b, s.Sparse)
+	for _, f := range [...]struct {
+		key string
+		v   float64
+	}{{`,"smallest_expected":`, s.SmallestExpected}, {`,"rate1":`, s.Rate1}, {`,"rate2":`, s.Rate2},
+		{`,"difference":`, s.Difference}, {`,"lower":`, s.Lower}, {`,"upper":`, s.Upper},
+		{`,"statistic":`, s.Statistic}, {`,"p_value":`, s.PValue}} {
+		b = append(b, f.key...)
+		b = appendJSONFloat(b, f.v)
+	}
+	b = append(b, `,"reject":`...)
+	b = strconv.AppendBool(b, s.Reject)
+	return append(b, '}')
+}
+
+// appendCSV appends the segment as one CSV record with its line end.
+func (s Segment) appendCSV(b []byte) []byte {
+	b = strconv.AppendInt(b, int64(s.Number), 10)
+	b = append(b, ',')
+	b = appendCSVText(b, s.Value)
+	for _, n := range [...]int64{s.Counts.X1, s.Counts.N1, s.Counts.X2, s.Counts.N2} {
+		b = append(b, ',')
+		b = strconv.AppendInt(b, n, 10)
+	}
+	b = append(b, ',')
+	b = strconv.AppendBool(b, s.Empty)
+	b = append(b, ',')
+	b = strconv.AppendBool(b, s.Sparse)
+	for _, v := range [...]float64{s.SmallestExpected, s.Rate1, s.Rate2, s.Difference, s.Lower, s.Upper, s.Statistic, s.PValue} {
+		b = append(b, ',')
+		b = appendCSVFloat(b, v)
+	}
+	b = append(b, ',')
+	b = strconv.AppendBool(b, s.Reject)
+	return append(b, '\n')
+}
+
+// appendJSON appends the adjusted record as one JSON object.
+func (a Adjusted) appendJSON(b []byte) []byte {
+	b = append(b, `{"number":`...)
+	b = strconv.AppendInt(b, int64(a.Number), 10)
+	b = append(b, `,"value":`...)
+	b = appendJSONString(b, a.Value)
+	b = append(b, `,"adjusted_p_value":`...)
+	b = appendJSONFloat(b, a.AdjustedPValue)
+	b = append(b, `,"simultaneous_lower":`...)
+	b = appendJSONFloat(b, a.SimultaneousLower)
+	b = append(b, `,"simultaneous_upper":`...)
+	b = appendJSONFloat(b, a.SimultaneousUpper)
+	b = append(b, `,"reject":`...)
+	b = strconv.AppendBool(b, a.Reject)
+	return append(b, '}')
+}
+
+// appendCSV appends the adjusted record as one CSV record with its line end.
+func (a Adjusted) appendCSV(b []byte) []byte {
+	b = strconv.AppendInt(b, int64(a.Number), 10)
+	b = append(b, ',')
+	b = appendCSVText(b, a.Value)
+	for _, v := range [...]float64{a.AdjustedPValue, a.SimultaneousLower, a.SimultaneousUpper} {
+		b = append(b, ',')
+		b = appendCSVFloat(b, v)
+	}
+	b = append(b, ',')
+	b = strconv.AppendBool(b, a.Reject)
+	return append(b, '\n')
+}
+
+// MarshalJSON writes the segment; numbers it does not have are null.
+func (s Segment) MarshalJSON() ([]byte, error) { return s.appendJSON(nil), nil }
+
+// MarshalJSON writes the adjusted record; numbers it does not have are null.
+func (a Adjusted) MarshalJSON() ([]byte, error) { return a.appendJSON(nil), nil }
+
+// MarshalJSON writes the summary with notes as a list, never null, and a
+// simultaneous level that does not exist as null.
+func (s Summary) MarshalJSON() ([]byte, error) {
+	type plain Summary // without this method
+	p := struct {
+		plain
+		SimultaneousLevel proportions.JSONFloat `json:"simultaneous_level"`
+	}{plain: plain(s), SimultaneousLevel: proportions.JSONFloat(s.SimultaneousLevel)}
+	p.Notes = jsonlist.NonNil(p.Notes)
+	return json.Marshal(p)
+}
+
+// MarshalJSON writes the summary's fields, then "segments" and "adjusted",
+// each record as the streams write it.
+func (r Result) MarshalJSON() ([]byte, error) {
+	head, err := r.Summary.MarshalJSON()
+	if err != nil {
+		return nil, err
+	}
+	b := append(head[:len(head)-1], `,"segments":[`...)
+	for i, s := range r.Segments {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		b = s.appendJSON(b)
+	}
+	b = append(b, `],"adjusted":[`...)
+	for i, a := range r.Adjusted {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		b = a.appendJSON(b)
+	}
+	return append(b, "]}"...), nil
+}
+
+// appendJSONFloat writes NaN as null and infinities as the strings
+// "Infinity" and "-Infinity", as proportions.JSONFloat does.
+func appendJSONFloat(b []byte, v float64) []byte {
+	switch {
+	case math.IsNaN(v):
+		return append(b, "null"...)
+	case math.IsInf(v, 1):
+		return append(b, `"Infinity"`...)
+	case math.IsInf(v, -1):
+		return append(b, `"-Infinity"`...)
+	}
+	return strconv.AppendFloat(b, v, 'g', -1, 64)
+}
+
+// appendCSVFloat writes NaN as an empty cell.
+func appendCSVFloat(b []byte, v float64) []byte {
+	if math.IsNaN(v) {
+		return b
+	}
+	return strconv.AppendFloat(b, v, 'g', -1, 64)
+}
+
+const hexDigits = "0123456789abcdef"
+
+// appendJSONString appends s as a JSON string. Like encoding/json it
+// escapes <, > and & (so a line pasted into HTML cannot open a tag), the
+// line separators U+2028 and U+2029, and replaces invalid UTF-8 with
+// U+FFFD.
+func appendJSONString(b []byte, s string) []byte {
+	b = append(b, '"')
+	for i := 0; i < len(s); {
+		c := s[i]
+		if c < utf8.RuneSelf {
+			switch {
+			case c == '"' || c == '\\':
+				b = append(b, '\\', c)
+			case c == '\n':
+				b = append(b, `\n`...)
+			case c == '\r':
+				b = append(b, `\r`...)
+			case c == '\t':
+				b = append(b, `\t`...)
+			case c < 0x20 || c == '<' || c == '>' || c == '&' || c == 0x7f:
+				b = append(b, '\\', 'u', '0', '0', hexDigits[c>>4], hexDigits[c&0xf])
+			default:
+				b = append(b, c)
+			}
+			i++
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			b = append(b, `\ufffd`...)
+		case r == '\u2028' || r == '\u2029':
+			b = append(b, `\u202`...)
+			b = append(b, hexDigits[r&0xf])
+		default:
+			b = append(b, s[i:i+size]...)
+		}
+		i += size
+	}
+	return append(b, '"')
+}
+
+// appendCSVText appends user text as one CSV field. A spreadsheet would
+// run a cell that starts with =, +, -, @, a tab or a carriage return as a
+// formula, so such text gets a leading apostrophe (which spreadsheets
+// hide and treat as "this is text"); a field holding a comma, a quote or
+// a line break, or starting or ending with a space, is quoted with its
+// quotes doubled (RFC 4180).
+func appendCSVText(b []byte, s string) []byte {
+	if s != "" && (s[0] == '=' || s[0] == '+' || s[0] == '-' || s[0] == '@' || s[0] == '\t' || s[0] == '\r') {
+		s = "'" + s
+	}
+	quote := s != "" && (s[0] == ' ' || s[len(s)-1] == ' ')
+	for i := 0; i < len(s) && !quote; i++ {
+		quote = s[i] == ',' || s[i] == '"' || s[i] == '\n' || s[i] == '\r'
+	}
+	if !quote {
+		return append(b, s...)
+	}
+	b = append(b, '"')
+	for i := 0; i < len(s); i++ {
+		if s[i] == '"' {
+			b = append(b, '"')
+		}
+		b = append(b, s[i])
+	}
+	return append(b, '"')
+}
+
+// appendCSVHeader appends a header record.
+func appendCSVHeader(b []byte, columns []string) []byte {
+	for i, c := range columns {
+		if i > 0 {
+			b = append(b, ',')
+		}
+		b = append(b, c...)
+	}
+	return append(b, '\n')
+}
