@@ -192,7 +192,11 @@ func appendJSONString(b []byte, s string) []byte {
 				b = append(b, `\r`...)
 			case c == '\t':
 				b = append(b, `\t`...)
-			case c < 0x20 || c == '<' || c == '>' || c == '&' || c == 0x7f:
+			case c == '\b':
+				b = append(b, `\b`...)
+			case c == '\f':
+				b = append(b, `\f`...)
+			case c < 0x20 || c == '<' || c == '>' || c == '&':
 				b = append(b, '\\', 'u', '0', '0', hexDigits[c>>4], hexDigits[c&0xf])
 			default:
 				b = append(b, c)

@@ -297,6 +297,9 @@ func (p pass) feed(ctx context.Context, rows iter.Seq2[proportions.BreakdownRow,
 	seq, read := 0, 0
 	var b *batch
 	take := func() bool {
+		if ctx.Err() != nil { // select below picks at random when both are ready
+			return false
+		}
 		select {
 		case b = <-free:
 			b.reset(seq, read+1)
