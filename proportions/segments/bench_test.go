@@ -178,4 +178,3 @@ func log2(m int) float64 {
 	}
 	return n
 }
-

@@ -154,7 +154,7 @@ func (a *analyzer) summary(by string, labels proportions.Labels, s settings) Sum
 // numbers of the empty and sparse ones for the notes (bounded, so a
 // stream stays flat).
 type tally struct {
-	total, empty, sparse int
+	total, empty, sparse  int
 	emptyNums, sparseNums []int
 }
 
