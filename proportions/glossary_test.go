@@ -21,6 +21,7 @@ var glossaryPackages = map[string]string{
 	"operating":   "operating",
 	"bayes":       "bayes",
 	"clusters":    "clusters",
+	"segments":    "segments",
 	"notebookui":  "../notebookui",
 }
 

@@ -21,6 +21,7 @@ import (
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
+	"github.com/propscope/propscope/proportions/segments"
 )
 
 // The schemas are written by hand from the documented meaning of each
@@ -42,6 +43,7 @@ var allNames = []string{
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
+	schema.Segments, schema.SegmentsSummary, schema.Segment, schema.AdjustedSegment,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -740,6 +742,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkRegistry(t, c)
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
+	checkSegments(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -904,6 +907,7 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
 	}
+	cases = append(cases, brokenSegments(t)...)
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)
 		if err != nil {
@@ -934,6 +938,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
+		segments.Result{}, segments.Summary{}, segments.Segment{}, segments.Adjusted{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
