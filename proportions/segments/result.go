@@ -211,16 +211,24 @@ func (s *Summary) finish(t tally, pairs []pValue, total int, alpha float64) ([]f
 func notes(t tally, by string, minTrials int64) []string {
 	out := make([]string, 0, 2)
 	if t.empty > 0 {
-		out = append(out, fmt.Sprintf("%d of %d segments have a group with no trials (%s %s): they are kept and flagged, "+
+		out = append(out, fmt.Sprintf("%d of %d segments %s a group with no trials (%s %s): kept and flagged, "+
 			"not analysed, and left out of the adjustment, which counts m = %d segments.",
-			t.empty, t.total, by, listNumbers(t.emptyNums, t.empty), t.total-t.empty))
+			t.empty, t.total, plural(t.empty, "has", "have"), by, listNumbers(t.emptyNums, t.empty), t.total-t.empty))
 	}
 	if t.sparse > 0 {
-		out = append(out, fmt.Sprintf("%d segments are sparse (%s %s): a smallest expected count below 5 or fewer than %d "+
-			"trials in a group, where the score interval and test may mislead; read them with care.",
-			t.sparse, by, listNumbers(t.sparseNums, t.sparse), minTrials))
+		out = append(out, fmt.Sprintf("%d %s sparse (%s %s): a smallest expected count below 5 or fewer than %d "+
+			"trials in a group, where the score interval and test may mislead; read %s with care.",
+			t.sparse, plural(t.sparse, "segment is", "segments are"), by, listNumbers(t.sparseNums, t.sparse), minTrials,
+			plural(t.sparse, "it", "them")))
 	}
 	return out
+}
+
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return one
+	}
+	return many
 }
 
 func listNumbers(nums []int, count int) string {
