@@ -6,6 +6,7 @@ import (
 	"iter"
 	"math/rand/v2"
 	"runtime"
+	"runtime/metrics"
 	"strconv"
 	"sync"
 	"sync/atomic"
@@ -53,7 +54,10 @@ func generated(n int) Source {
 		}}
 }
 
-// heapPeak samples the live heap every few milliseconds until stopped.
+// heapPeak samples the heap every few milliseconds until stopped: the
+// bytes of heap objects, reachable or not yet swept, so an upper bound of
+// the live heap. It reads runtime/metrics, which does not stop the world
+// (runtime.ReadMemStats would, and slow what it measures).
 type heapPeak struct {
 	peak atomic.Uint64
 	stop chan struct{}
@@ -66,11 +70,11 @@ func watchHeap() *heapPeak {
 	h.wg.Add(1)
 	go func() {
 		defer h.wg.Done()
-		var ms runtime.MemStats
+		sample := []metrics.Sample{{Name: "/memory/classes/heap/objects:bytes"}}
 		for {
-			runtime.ReadMemStats(&ms)
-			if ms.HeapAlloc > h.peak.Load() {
-				h.peak.Store(ms.HeapAlloc)
+			metrics.Read(sample)
+			if v := sample[0].Value.Uint64(); v > h.peak.Load() {
+				h.peak.Store(v)
 			}
 			select {
 			case <-h.stop:

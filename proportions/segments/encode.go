@@ -23,8 +23,90 @@ var (
 	adjustedColumns = []string{"number", "value", "adjusted_p_value", "simultaneous_lower", "simultaneous_upper", "reject"}
 )
 
-// appendJSON appends the segment as one JSON object.
-func (s Segment) appendJSON(b []byte) []byte {
+// numberTexts holds the numbers of one record formatted once (shortest
+// decimal form, exact on reading back), for its JSON line and its CSV
+// record alike: formatting is most of the encoders' time.
+type numberTexts struct {
+	buf  []byte
+	ends [8]int
+	kind [8]uint8 // a number, or one of the values below
+	n    int
+}
+
+const (
+	finite uint8 = iota
+	notANumber
+	plusInf
+	minusInf
+)
+
+func (t *numberTexts) reset() { t.buf, t.n = t.buf[:0], 0 }
+
+func (t *numberTexts) add(v float64) {
+	switch {
+	case math.IsNaN(v):
+		t.kind[t.n] = notANumber
+	case math.IsInf(v, 1):
+		t.kind[t.n] = plusInf
+	case math.IsInf(v, -1):
+		t.kind[t.n] = minusInf
+	default:
+		t.kind[t.n] = finite
+		t.buf = strconv.AppendFloat(t.buf, v, 'g', -1, 64)
+	}
+	t.ends[t.n] = len(t.buf)
+	t.n++
+}
+
+func (t *numberTexts) text(i int) []byte {
+	start := 0
+	if i > 0 {
+		start = t.ends[i-1]
+	}
+	return t.buf[start:t.ends[i]]
+}
+
+// appendJSON writes number i, NaN as null and infinities as the strings
+// "Infinity" and "-Infinity", as proportions.JSONFloat does.
+func (t *numberTexts) appendJSON(b []byte, i int) []byte {
+	switch t.kind[i] {
+	case notANumber:
+		return append(b, "null"...)
+	case plusInf:
+		return append(b, `"Infinity"`...)
+	case minusInf:
+		return append(b, `"-Infinity"`...)
+	}
+	return append(b, t.text(i)...)
+}
+
+// appendCSV writes number i, NaN as an empty cell.
+func (t *numberTexts) appendCSV(b []byte, i int) []byte {
+	switch t.kind[i] {
+	case notANumber:
+		return b
+	case plusInf:
+		return append(b, "Infinity"...)
+	case minusInf:
+		return append(b, "-Infinity"...)
+	}
+	return append(b, t.text(i)...)
+}
+
+// numbers formats the segment's numbers in the order of both outputs.
+func (s Segment) numbers(t *numberTexts) {
+	t.reset()
+	for _, v := range [...]float64{s.SmallestExpected, s.Rate1, s.Rate2, s.Difference, s.Lower, s.Upper, s.Statistic, s.PValue} {
+		t.add(v)
+	}
+}
+
+var segmentNumberKeys = [...]string{`,"smallest_expected":`, `,"rate1":`, `,"rate2":`, `,"difference":`, `,"lower":`, `,"upper":`,
+	`,"statistic":`, `,"p_value":`}
+
+// appendJSON appends the segment as one JSON object, its numbers from t
+// (filled by numbers).
+func (s Segment) appendJSON(b []byte, t *numberTexts) []byte {
 	b = append(b, `{"number":`...)
 	b = strconv.AppendInt(b, int64(s.Number), 10)
 	b = append(b, `,"value":`...)
@@ -41,22 +123,18 @@ func (s Segment) appendJSON(b []byte) []byte {
 	b = strconv.AppendBool(b, s.Empty)
 	b = append(b, `,"sparse":`...)
 	b = strconv.AppendBool(b, s.Sparse)
-	for _, f := range [...]struct {
-		key string
-		v   float64
-	}{{`,"smallest_expected":`, s.SmallestExpected}, {`,"rate1":`, s.Rate1}, {`,"rate2":`, s.Rate2},
-		{`,"difference":`, s.Difference}, {`,"lower":`, s.Lower}, {`,"upper":`, s.Upper},
-		{`,"statistic":`, s.Statistic}, {`,"p_value":`, s.PValue}} {
-		b = append(b, f.key...)
-		b = appendJSONFloat(b, f.v)
+	for i, key := range segmentNumberKeys {
+		b = append(b, key...)
+		b = t.appendJSON(b, i)
 	}
 	b = append(b, `,"reject":`...)
 	b = strconv.AppendBool(b, s.Reject)
 	return append(b, '}')
 }
 
-// appendCSV appends the segment as one CSV record with its line end.
-func (s Segment) appendCSV(b []byte) []byte {
+// appendCSV appends the segment as one CSV record with its line end, its
+// numbers from t.
+func (s Segment) appendCSV(b []byte, t *numberTexts) []byte {
 	b = strconv.AppendInt(b, int64(s.Number), 10)
 	b = append(b, ',')
 	b = appendCSVText(b, s.Value)
@@ -68,40 +146,51 @@ func (s Segment) appendCSV(b []byte) []byte {
 	b = strconv.AppendBool(b, s.Empty)
 	b = append(b, ',')
 	b = strconv.AppendBool(b, s.Sparse)
-	for _, v := range [...]float64{s.SmallestExpected, s.Rate1, s.Rate2, s.Difference, s.Lower, s.Upper, s.Statistic, s.PValue} {
+	for i := range segmentNumberKeys {
 		b = append(b, ',')
-		b = appendCSVFloat(b, v)
+		b = t.appendCSV(b, i)
 	}
 	b = append(b, ',')
 	b = strconv.AppendBool(b, s.Reject)
 	return append(b, '\n')
 }
 
-// appendJSON appends the adjusted record as one JSON object.
-func (a Adjusted) appendJSON(b []byte) []byte {
+// numbers formats the adjusted record's numbers in the order of both
+// outputs.
+func (a Adjusted) numbers(t *numberTexts) {
+	t.reset()
+	for _, v := range [...]float64{a.AdjustedPValue, a.SimultaneousLower, a.SimultaneousUpper} {
+		t.add(v)
+	}
+}
+
+var adjustedNumberKeys = [...]string{`,"adjusted_p_value":`, `,"simultaneous_lower":`, `,"simultaneous_upper":`}
+
+// appendJSON appends the adjusted record as one JSON object, its numbers
+// from t.
+func (a Adjusted) appendJSON(b []byte, t *numberTexts) []byte {
 	b = append(b, `{"number":`...)
 	b = strconv.AppendInt(b, int64(a.Number), 10)
 	b = append(b, `,"value":`...)
 	b = appendJSONString(b, a.Value)
-	b = append(b, `,"adjusted_p_value":`...)
-	b = appendJSONFloat(b, a.AdjustedPValue)
-	b = append(b, `,"simultaneous_lower":`...)
-	b = appendJSONFloat(b, a.SimultaneousLower)
-	b = append(b, `,"simultaneous_upper":`...)
-	b = appendJSONFloat(b, a.SimultaneousUpper)
+	for i, key := range adjustedNumberKeys {
+		b = append(b, key...)
+		b = t.appendJSON(b, i)
+	}
 	b = append(b, `,"reject":`...)
 	b = strconv.AppendBool(b, a.Reject)
 	return append(b, '}')
 }
 
-// appendCSV appends the adjusted record as one CSV record with its line end.
-func (a Adjusted) appendCSV(b []byte) []byte {
+// appendCSV appends the adjusted record as one CSV record with its line
+// end, its numbers from t.
+func (a Adjusted) appendCSV(b []byte, t *numberTexts) []byte {
 	b = strconv.AppendInt(b, int64(a.Number), 10)
 	b = append(b, ',')
 	b = appendCSVText(b, a.Value)
-	for _, v := range [...]float64{a.AdjustedPValue, a.SimultaneousLower, a.SimultaneousUpper} {
+	for i := range adjustedNumberKeys {
 		b = append(b, ',')
-		b = appendCSVFloat(b, v)
+		b = t.appendCSV(b, i)
 	}
 	b = append(b, ',')
 	b = strconv.AppendBool(b, a.Reject)
@@ -109,10 +198,18 @@ func (a Adjusted) appendCSV(b []byte) []byte {
 }
 
 // MarshalJSON writes the segment; numbers it does not have are null.
-func (s Segment) MarshalJSON() ([]byte, error) { return s.appendJSON(nil), nil }
+func (s Segment) MarshalJSON() ([]byte, error) {
+	var t numberTexts
+	s.numbers(&t)
+	return s.appendJSON(nil, &t), nil
+}
 
 // MarshalJSON writes the adjusted record; numbers it does not have are null.
-func (a Adjusted) MarshalJSON() ([]byte, error) { return a.appendJSON(nil), nil }
+func (a Adjusted) MarshalJSON() ([]byte, error) {
+	var t numberTexts
+	a.numbers(&t)
+	return a.appendJSON(nil, &t), nil
+}
 
 // MarshalJSON writes the summary with notes as a list, never null, and a
 // simultaneous level that does not exist as null.
@@ -133,43 +230,24 @@ func (r Result) MarshalJSON() ([]byte, error) {
 	if err != nil {
 		return nil, err
 	}
+	var t numberTexts
 	b := append(head[:len(head)-1], `,"segments":[`...)
 	for i, s := range r.Segments {
 		if i > 0 {
 			b = append(b, ',')
 		}
-		b = s.appendJSON(b)
+		s.numbers(&t)
+		b = s.appendJSON(b, &t)
 	}
 	b = append(b, `],"adjusted":[`...)
 	for i, a := range r.Adjusted {
 		if i > 0 {
 			b = append(b, ',')
 		}
-		b = a.appendJSON(b)
+		a.numbers(&t)
+		b = a.appendJSON(b, &t)
 	}
 	return append(b, "]}"...), nil
-}
-
-// appendJSONFloat writes NaN as null and infinities as the strings
-// "Infinity" and "-Infinity", as proportions.JSONFloat does.
-func appendJSONFloat(b []byte, v float64) []byte {
-	switch {
-	case math.IsNaN(v):
-		return append(b, "null"...)
-	case math.IsInf(v, 1):
-		return append(b, `"Infinity"`...)
-	case math.IsInf(v, -1):
-		return append(b, `"-Infinity"`...)
-	}
-	return strconv.AppendFloat(b, v, 'g', -1, 64)
-}
-
-// appendCSVFloat writes NaN as an empty cell.
-func appendCSVFloat(b []byte, v float64) []byte {
-	if math.IsNaN(v) {
-		return b
-	}
-	return strconv.AppendFloat(b, v, 'g', -1, 64)
 }
 
 const hexDigits = "0123456789abcdef"

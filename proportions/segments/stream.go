@@ -128,6 +128,7 @@ type batch struct {
 	json, csv  []byte
 	wantJSON   bool
 	wantCSV    bool
+	texts      numberTexts // scratch for one record's numbers
 	pvals      []pValue
 	tally      tally
 	hash       uint64
@@ -153,11 +154,14 @@ func (a *analyzer) firstPass(b *batch) {
 		if !s.Empty {
 			b.pvals = append(b.pvals, pValue{s.PValue, n - 1})
 		}
+		if b.wantJSON || b.wantCSV {
+			s.numbers(&b.texts)
+		}
 		if b.wantJSON {
-			b.json = append(s.appendJSON(b.json), '\n')
+			b.json = append(s.appendJSON(b.json, &b.texts), '\n')
 		}
 		if b.wantCSV {
-			b.csv = s.appendCSV(b.csv)
+			b.csv = s.appendCSV(b.csv, &b.texts)
 		}
 	}
 }
@@ -175,11 +179,14 @@ func (a *analyzer) secondPass(b *batch, adjusted []float64, conf proportions.Con
 		}
 		b.hash += rowHash(n, r)
 		ad := a.adjusted(n, r, adjusted[n-1], conf)
+		if b.wantJSON || b.wantCSV {
+			ad.numbers(&b.texts)
+		}
 		if b.wantJSON {
-			b.json = append(ad.appendJSON(b.json), '\n')
+			b.json = append(ad.appendJSON(b.json, &b.texts), '\n')
 		}
 		if b.wantCSV {
-			b.csv = ad.appendCSV(b.csv)
+			b.csv = ad.appendCSV(b.csv, &b.texts)
 		}
 	}
 }
