@@ -20,7 +20,7 @@ import (
 var (
 	segmentColumns = []string{"number", "value", "x1", "n1", "x2", "n2", "empty", "sparse", "smallest_expected",
 		"rate1", "rate2", "difference", "lower", "upper", "statistic", "p_value", "reject"}
-	adjustedColumns = []string{"number", "value", "adjusted_p_value", "simultaneous_lower", "simultaneous_upper", "reject"}
+	adjustedColumns = []string{"number", "value", "adjustment", "tested", "adjusted_p_value", "simultaneous_lower", "simultaneous_upper", "reject"}
 )
 
 // numberTexts holds the numbers of one record formatted once (shortest
@@ -173,6 +173,10 @@ func (a Adjusted) appendJSON(b []byte, t *numberTexts) []byte {
 	b = strconv.AppendInt(b, int64(a.Number), 10)
 	b = append(b, `,"value":`...)
 	b = appendJSONString(b, a.Value)
+	b = append(b, `,"adjustment":"`...)
+	b = append(b, a.Adjustment.String()...)
+	b = append(b, `","tested":`...)
+	b = strconv.AppendInt(b, int64(a.Tested), 10)
 	for i, key := range adjustedNumberKeys {
 		b = append(b, key...)
 		b = t.appendJSON(b, i)
@@ -188,6 +192,10 @@ func (a Adjusted) appendCSV(b []byte, t *numberTexts) []byte {
 	b = strconv.AppendInt(b, int64(a.Number), 10)
 	b = append(b, ',')
 	b = appendCSVText(b, a.Value)
+	b = append(b, ',')
+	b = append(b, a.Adjustment.String()...)
+	b = append(b, ',')
+	b = strconv.AppendInt(b, int64(a.Tested), 10)
 	for i := range adjustedNumberKeys {
 		b = append(b, ',')
 		b = t.appendCSV(b, i)

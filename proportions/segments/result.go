@@ -109,7 +109,7 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...Option
 	res.Adjusted = make([]Adjusted, len(b.Rows))
 	err = parallelChunks(ctx, len(b.Rows), func(lo, hi int) {
 		for i := lo; i < hi; i++ {
-			res.Adjusted[i] = a.adjusted(i+1, b.Rows[i], adjusted[i], simConf)
+			res.Adjusted[i] = a.adjusted(i+1, b.Rows[i], adjusted[i], simConf, res.Summary)
 		}
 	})
 	if err != nil {
@@ -120,9 +120,9 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...Option
 
 // adjusted builds a segment's adjusted record from its adjusted p-value
 // (NaN when empty).
-func (a *analyzer) adjusted(number int, r proportions.BreakdownRow, p float64, conf proportions.Confidence) Adjusted {
+func (a *analyzer) adjusted(number int, r proportions.BreakdownRow, p float64, conf proportions.Confidence, s Summary) Adjusted {
 	lo, hi := a.simultaneous(r, conf)
-	return Adjusted{Number: number, Value: strings.TrimSpace(r.Value), AdjustedPValue: p,
+	return Adjusted{Number: number, Value: strings.TrimSpace(r.Value), Adjustment: s.Adjustment, Tested: s.Tested, AdjustedPValue: p,
 		SimultaneousLower: lo, SimultaneousUpper: hi, Reject: p <= a.alpha}
 }
 

@@ -52,6 +52,11 @@ type Segment struct {
 type Adjusted struct {
 	Number int    `json:"number"`
 	Value  string `json:"value"`
+	// Adjustment and Tested say how the p-value was adjusted and over how
+	// many segments (m): an adjusted p-value means nothing without them,
+	// so every record carries them.
+	Adjustment Adjustment `json:"adjustment"`
+	Tested     int        `json:"tested"`
 	// AdjustedPValue is the segment's p-value after the summary's
 	// adjustment over the m tested segments.
 	AdjustedPValue float64 `json:"adjusted_p_value"`

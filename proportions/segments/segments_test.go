@@ -130,6 +130,9 @@ func TestEmptySegmentsAndAdjustment(t *testing.T) {
 				continue
 			}
 			a := res.Adjusted[i]
+			if a.Tested != len(ps) || a.Adjustment != adj {
+				t.Fatalf("segment %d: the record says m = %d by %s; want %d by %s", s.Number, a.Tested, a.Adjustment, len(ps), adj)
+			}
 			if a.AdjustedPValue != want[k] || a.Reject != (want[k] <= 0.05) {
 				t.Fatalf("segment %d: adjusted %v, Adjust gives %v", s.Number, a.AdjustedPValue, want[k])
 			}

@@ -2,6 +2,7 @@ package segments
 
 import (
 	"context"
+	"encoding/json"
 	"fmt"
 	"io"
 	"iter"
@@ -48,12 +49,17 @@ type Outputs struct {
 	AdjustedJSON io.Writer
 	// AdjustedCSV gets one CSV record per segment.
 	AdjustedCSV io.Writer
+	// SummaryJSON gets the summary as one JSON object at the end, as
+	// segments-summary.schema.json describes: the labels, the number of
+	// segments, m, the adjustment and the notes.
+	SummaryJSON io.Writer
 }
 
 // Stream analyses the segments of src and writes the results as they are
 // computed. It returns the summary, which states the number of segments,
-// m and the adjustment (write it beside the files: the lines do not repeat
-// it).
+// m and the adjustment, and writes it to Outputs.SummaryJSON; every
+// adjusted record carries m and the adjustment too (the per-segment
+// records of the first pass are written before m is known).
 //
 // Design. The first pass reads the rows once, in batches of a few
 // thousand that every core analyses while the next batch is read, and
@@ -109,7 +115,7 @@ func Stream(ctx context.Context, src Source, out Outputs, opts ...Option) (Summa
 		return Summary{}, err
 	}
 	second := pass{json: out.AdjustedJSON, csv: out.AdjustedCSV, columns: adjustedColumns,
-		process: func(b *batch) { a.secondPass(b, adjusted, conf) }}
+		process: func(b *batch) { a.secondPass(b, adjusted, conf, sum) }}
 	count2, hash2, err := second.run(ctx, src.Rows())
 	if err != nil {
 		return Summary{}, err
@@ -117,6 +123,15 @@ func Stream(ctx context.Context, src Source, out Outputs, opts ...Option) (Summa
 	if count2 != count || hash2 != hash {
 		return Summary{}, fmt.Errorf("segment source: %w; the first pass read %d rows, the second %d, and their values or counts differ; "+
 			"give a source that reads the same rows each time", proportions.ErrRowsChanged, count, count2)
+	}
+	if out.SummaryJSON != nil {
+		b, err := json.Marshal(sum)
+		if err != nil {
+			return Summary{}, err
+		}
+		if _, err := out.SummaryJSON.Write(append(b, '\n')); err != nil {
+			return Summary{}, fmt.Errorf("writing the summary: %w", err)
+		}
 	}
 	return sum, nil
 }
@@ -167,7 +182,7 @@ func (a *analyzer) firstPass(b *batch) {
 }
 
 // secondPass writes a batch's adjusted records.
-func (a *analyzer) secondPass(b *batch, adjusted []float64, conf proportions.Confidence) {
+func (a *analyzer) secondPass(b *batch, adjusted []float64, conf proportions.Confidence, sum Summary) {
 	for i, r := range b.rows {
 		n := b.first + i
 		if b.err = checkRow(n, r); b.err != nil {
@@ -178,7 +193,7 @@ func (a *analyzer) secondPass(b *batch, adjusted []float64, conf proportions.Con
 			return
 		}
 		b.hash += rowHash(n, r)
-		ad := a.adjusted(n, r, adjusted[n-1], conf)
+		ad := a.adjusted(n, r, adjusted[n-1], conf, sum)
 		if b.wantJSON || b.wantCSV {
 			ad.numbers(&b.texts)
 		}

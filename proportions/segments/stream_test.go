@@ -52,14 +52,17 @@ func TestStreamEqualsInMemory(t *testing.T) {
 			t.Fatal(err)
 		}
 		var out buffers
-		sum, err := Stream(context.Background(), BreakdownSource(b), out.outputs(), opts...)
+		var summaryLine bytes.Buffer
+		o := out.outputs()
+		o.SummaryJSON = &summaryLine
+		sum, err := Stream(context.Background(), BreakdownSource(b), o, opts...)
 		if err != nil {
 			t.Fatal(err)
 		}
 		gotSum, _ := json.Marshal(sum)
 		wantSum, _ := json.Marshal(want.Summary)
-		if !bytes.Equal(gotSum, wantSum) {
-			t.Fatalf("summaries differ:\nstream %s\nmemory %s", gotSum, wantSum)
+		if !bytes.Equal(gotSum, wantSum) || summaryLine.String() != string(wantSum)+"\n" {
+			t.Fatalf("summaries differ:\nstream %s\nwritten %s\nmemory %s", gotSum, summaryLine.String(), wantSum)
 		}
 		segLines, adjLines := lines(t, &out.segJSON), lines(t, &out.adjJSON)
 		if len(segLines) != len(b.Rows) || len(adjLines) != len(b.Rows) {
@@ -85,7 +88,7 @@ func TestStreamEqualsInMemory(t *testing.T) {
 		})
 		checkCSV(t, &out.adjCSV, adjustedColumns, want, func(i int, rec []string) error {
 			a := want.Adjusted[i]
-			return sameCells(rec, []string{strconv.Itoa(a.Number), cellText(a.Value)}, nil, nil,
+			return sameCells(rec, []string{strconv.Itoa(a.Number), cellText(a.Value), adj.String(), strconv.Itoa(want.Tested)}, nil, nil,
 				[]float64{a.AdjustedPValue, a.SimultaneousLower, a.SimultaneousUpper}, a.Reject)
 		})
 	}
