@@ -80,6 +80,9 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...Option
 	if err != nil {
 		return Result{}, err
 	}
+	if len(b.Rows) == 0 {
+		return Result{}, fmt.Errorf("segments: %w; the breakdown has no rows", proportions.ErrEmptyInput)
+	}
 	for i, r := range b.Rows { // a breakdown built by hand skipped NewBreakdown's checks
 		if err := checkRow(i+1, r); err != nil {
 			return Result{}, err

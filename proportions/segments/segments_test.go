@@ -220,6 +220,9 @@ func TestAnalyzeRejectsBadInput(t *testing.T) {
 			t.Errorf("want %v, got %v", k.want, err)
 		}
 	}
+	if _, err := Analyze(proportions.Breakdown{By: "plot"}); !errors.Is(err, proportions.ErrEmptyInput) {
+		t.Errorf("no rows: %v", err)
+	}
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()
 	if _, err := AnalyzeContext(ctx, good); !errors.Is(err, context.Canceled) {
