@@ -26,16 +26,19 @@ func (s Summary) Lines() []string {
 			s.Event, s.First, s.Second, s.By, s.SegmentCount, s.Tested, s.EmptyCount, s.SparseCount),
 		fmt.Sprintf("Each segment: Mee's %s score interval and the Farrington–Manning score test (%s, null difference %s), at %s.",
 			percent(s.IntervalLevel), s.Alternative, proportions.FormatValue(s.Null), strconv.FormatFloat(100*(1-s.Level), 'g', 6, 64)+"% significance"),
-		fmt.Sprintf("Adjusted for multiplicity by %s (controls the %s) over m = %d segments: %d reject at %s after adjustment.",
-			s.Adjustment.Name(), s.Adjustment.Controls(), s.Tested, s.Rejected, strconv.FormatFloat(100*(1-s.Level), 'g', 6, 64)+"%"),
+		fmt.Sprintf("Adjusted for multiplicity by %s (controls the %s) over m = %d segments: %d %s at %s after adjustment.",
+			s.Adjustment.Name(), s.Adjustment.Controls(), s.Tested, s.Rejected, plural(s.Rejected, "rejects", "reject"),
+			strconv.FormatFloat(100*(1-s.Level), 'g', 6, 64)+"%"),
 	}
 	if !math.IsNaN(s.SimultaneousLevel) {
 		out = append(out, fmt.Sprintf("Simultaneous intervals at %s (Bonferroni: 1 − %s/%d), so that all %d hold together with at least %s.",
 			percent(s.SimultaneousLevel), strconv.FormatFloat(1-s.IntervalLevel, 'g', 6, 64), s.Tested, s.Tested, percent(s.IntervalLevel)))
 	}
 	out = append(out, s.Notes...)
-	return append(out, "Before acting on this: "+s.Caution)
+	return append(out, s.cautionLine())
 }
+
+func (s Summary) cautionLine() string { return "Before acting on this: " + s.Caution }
 
 // String prints the summary's lines.
 func (s Summary) String() string { return strings.Join(s.Lines(), "\n") }
@@ -48,7 +51,8 @@ const shownSegments = 20
 // adjusted p-value and simultaneous interval.
 func (r Result) String() string {
 	var b strings.Builder
-	b.WriteString(r.Summary.String())
+	lines := r.Summary.Lines()
+	b.WriteString(strings.Join(lines[:len(lines)-1], "\n")) // the caution goes last
 	order := r.ByAdjustedP()
 	if len(order) > shownSegments {
 		fmt.Fprintf(&b, "\nThe %d segments with the smallest adjusted p-values of %d:", shownSegments, len(order))
@@ -60,6 +64,7 @@ func (r Result) String() string {
 		s, a := r.Segments[i], r.Adjusted[i]
 		fmt.Fprintf(&b, "\n  %d %s: %s", s.Number, s.Value, segmentLine(s, a))
 	}
+	b.WriteString("\n" + r.Summary.cautionLine())
 	return b.String()
 }
 
