@@ -23,7 +23,8 @@ const DefaultSegmentsShown = 20
 // the segments in three orders (by adjusted p-value, by the size of the
 // difference, by the number of units), the empty and sparse segments
 // flagged, the notes and the standing caution. The orders are rendered in
-// advance and linked, so the card needs no script. It renders what the
+// advance, each in a fold, and linked: the link's target is inside the
+// fold, so a browser opens the fold to show it; the card needs no script. It renders what the
 // result holds and recomputes nothing.
 type SegmentsCard struct {
 	Result segments.Result
@@ -176,9 +177,9 @@ var segmentsTemplate = template.Must(template.New("segments").Parse(`<section cl
 <li>{{.}}</li>{{end}}
 </ul>{{end}}
 <p class="ps-small">Order: {{range $i, $o := .Orders}}{{if $i}} · {{end}}<a href="#{{$o.ID}}">{{$o.Name}}</a>{{end}}</p>
-{{range .Orders}}<details class="ps-more" id="{{.ID}}"{{if .Open}} open{{end}}>
+{{range .Orders}}<details class="ps-more"{{if .Open}} open{{end}}>
 <summary>{{.Heading}}</summary>
-<div class="ps-scroll"><table class="ps-t">
+<div class="ps-scroll" id="{{.ID}}"><table class="ps-t">
 <thead><tr>{{range $.Head}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Rows}}
 <tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 8}}<td>{{if $c}}<span class="ps-tag">{{$c}}</span>{{end}}</td>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
