@@ -342,3 +342,78 @@ func appendCSVHeader(b []byte, columns []string) []byte {
 	}
 	return append(b, '\n')
 }
+
+// segmentJSON is Segment with the numbers that may be null or infinite
+// read through proportions.JSONFloat.
+type segmentJSON struct {
+	Number           int                   `json:"number"`
+	Value            string                `json:"value"`
+	Counts           proportions.Counts    `json:"counts"`
+	Empty            bool                  `json:"empty"`
+	Sparse           bool                  `json:"sparse"`
+	SmallestExpected proportions.JSONFloat `json:"smallest_expected"`
+	Rate1            proportions.JSONFloat `json:"rate1"`
+	Rate2            proportions.JSONFloat `json:"rate2"`
+	Difference       proportions.JSONFloat `json:"difference"`
+	Lower            proportions.JSONFloat `json:"lower"`
+	Upper            proportions.JSONFloat `json:"upper"`
+	Statistic        proportions.JSONFloat `json:"statistic"`
+	PValue           proportions.JSONFloat `json:"p_value"`
+	Reject           bool                  `json:"reject"`
+}
+
+// UnmarshalJSON reads what MarshalJSON writes (a line of the segment
+// stream): null is NaN, "Infinity" and "-Infinity" are infinite.
+func (s *Segment) UnmarshalJSON(b []byte) error {
+	v := segmentJSON{SmallestExpected: nan(), Rate1: nan(), Rate2: nan(), Difference: nan(), Lower: nan(), Upper: nan(),
+		Statistic: nan(), PValue: nan()}
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*s = Segment{Number: v.Number, Value: v.Value, Counts: v.Counts, Empty: v.Empty, Sparse: v.Sparse,
+		SmallestExpected: float64(v.SmallestExpected), Rate1: float64(v.Rate1), Rate2: float64(v.Rate2),
+		Difference: float64(v.Difference), Lower: float64(v.Lower), Upper: float64(v.Upper),
+		Statistic: float64(v.Statistic), PValue: float64(v.PValue), Reject: v.Reject}
+	return nil
+}
+
+type adjustedJSON struct {
+	Number            int                   `json:"number"`
+	Value             string                `json:"value"`
+	Adjustment        Adjustment            `json:"adjustment"`
+	Tested            int                   `json:"tested"`
+	AdjustedPValue    proportions.JSONFloat `json:"adjusted_p_value"`
+	SimultaneousLower proportions.JSONFloat `json:"simultaneous_lower"`
+	SimultaneousUpper proportions.JSONFloat `json:"simultaneous_upper"`
+	Reject            bool                  `json:"reject"`
+}
+
+// UnmarshalJSON reads what MarshalJSON writes (a line of the adjusted
+// stream): null is NaN.
+func (a *Adjusted) UnmarshalJSON(b []byte) error {
+	v := adjustedJSON{AdjustedPValue: nan(), SimultaneousLower: nan(), SimultaneousUpper: nan()}
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	*a = Adjusted{Number: v.Number, Value: v.Value, Adjustment: v.Adjustment, Tested: v.Tested,
+		AdjustedPValue: float64(v.AdjustedPValue), SimultaneousLower: float64(v.SimultaneousLower),
+		SimultaneousUpper: float64(v.SimultaneousUpper), Reject: v.Reject}
+	return nil
+}
+
+func nan() proportions.JSONFloat { return proportions.JSONFloat(math.NaN()) }
+
+// UnmarshalJSON reads what MarshalJSON writes: a null simultaneous level
+// is NaN.
+func (s *Summary) UnmarshalJSON(b []byte) error {
+	type plain Summary // without this method
+	v := struct {
+		*plain
+		SimultaneousLevel proportions.JSONFloat `json:"simultaneous_level"`
+	}{plain: (*plain)(s), SimultaneousLevel: nan()}
+	if err := json.Unmarshal(b, &v); err != nil {
+		return err
+	}
+	s.SimultaneousLevel = float64(v.SimultaneousLevel)
+	return nil
+}

@@ -246,6 +246,10 @@ func TestAllSegmentsEmpty(t *testing.T) {
 	if err != nil || !strings.Contains(string(raw), `"simultaneous_level":null`) {
 		t.Errorf("%s %v", raw, err)
 	}
+	var back Summary
+	if err := json.Unmarshal(raw, &back); err != nil || !math.IsNaN(back.SimultaneousLevel) || back.EmptyCount != 2 || len(back.Notes) != 2 {
+		t.Errorf("the summary reads back as %+v (%v)", back, err)
+	}
 }
 
 func TestAdjustmentNames(t *testing.T) {

@@ -64,6 +64,13 @@ func TestStreamEqualsInMemory(t *testing.T) {
 		if !bytes.Equal(gotSum, wantSum) || summaryLine.String() != string(wantSum)+"\n" {
 			t.Fatalf("summaries differ:\nstream %s\nwritten %s\nmemory %s", gotSum, summaryLine.String(), wantSum)
 		}
+		var back Summary
+		if err := json.Unmarshal(summaryLine.Bytes(), &back); err != nil {
+			t.Fatal(err)
+		}
+		if again, _ := json.Marshal(back); !bytes.Equal(again, wantSum) {
+			t.Fatalf("the summary reads back as %s", again)
+		}
 		segLines, adjLines := lines(t, &out.segJSON), lines(t, &out.adjJSON)
 		if len(segLines) != len(b.Rows) || len(adjLines) != len(b.Rows) {
 			t.Fatalf("%d and %d lines for %d rows", len(segLines), len(adjLines), len(b.Rows))
@@ -75,8 +82,12 @@ func TestStreamEqualsInMemory(t *testing.T) {
 				t.Fatalf("row %d:\nstream %s\n       %s\nmemory %s\n       %s", i+1, segLines[i], adjLines[i], ws, wa)
 			}
 			var back Segment
-			if err := json.Unmarshal([]byte(segLines[i]), &back); err != nil || back.Value != b.Rows[i].Value || back.Counts != b.Rows[i].Counts {
-				t.Fatalf("row %d reads back as %+v (%v)", i+1, back, err)
+			if err := json.Unmarshal([]byte(segLines[i]), &back); err != nil || !sameSegment(back, want.Segments[i]) {
+				t.Fatalf("row %d reads back as %+v (%v), want %+v", i+1, back, err, want.Segments[i])
+			}
+			var backAdj Adjusted
+			if err := json.Unmarshal([]byte(adjLines[i]), &backAdj); err != nil || !sameAdjusted(backAdj, want.Adjusted[i]) {
+				t.Fatalf("row %d's adjusted line reads back as %+v (%v), want %+v", i+1, backAdj, err, want.Adjusted[i])
 			}
 		}
 		checkCSV(t, &out.segCSV, segmentColumns, want, func(i int, rec []string) error {
@@ -92,6 +103,22 @@ func TestStreamEqualsInMemory(t *testing.T) {
 				[]float64{a.AdjustedPValue, a.SimultaneousLower, a.SimultaneousUpper}, a.Reject)
 		})
 	}
+}
+
+// same reports whether two numbers are equal, NaN equal to NaN.
+func same(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
+
+func sameSegment(a, b Segment) bool {
+	return a.Number == b.Number && a.Value == b.Value && a.Counts == b.Counts && a.Empty == b.Empty && a.Sparse == b.Sparse &&
+		same(a.SmallestExpected, b.SmallestExpected) && same(a.Rate1, b.Rate1) && same(a.Rate2, b.Rate2) &&
+		same(a.Difference, b.Difference) && same(a.Lower, b.Lower) && same(a.Upper, b.Upper) &&
+		same(a.Statistic, b.Statistic) && same(a.PValue, b.PValue) && a.Reject == b.Reject
+}
+
+func sameAdjusted(a, b Adjusted) bool {
+	return a.Number == b.Number && a.Value == b.Value && a.Adjustment == b.Adjustment && a.Tested == b.Tested &&
+		same(a.AdjustedPValue, b.AdjustedPValue) && same(a.SimultaneousLower, b.SimultaneousLower) &&
+		same(a.SimultaneousUpper, b.SimultaneousUpper) && a.Reject == b.Reject
 }
 
 // cellText is what a CSV cell must hold for a value: the value, with an
