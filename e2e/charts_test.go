@@ -20,6 +20,7 @@ import (
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 )
@@ -305,7 +306,27 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff}}
+	sp := simulate.NewPlan(8, 20, 0.8, 0.7, 0)
+	sp.Studies, sp.By = 500, "tray"
+	sweep, err := simulate.Sweep(ctx, sp, []float64{0, 0.05, 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	simulated, err := notebookui.SimulatedCoverageChart(sweep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid, err := planning.ClusteredPowerByClusters(planning.NewPlan(planning.Equality, 0.8, 0.65), 0.05, 0.3,
+		[]float64{5, 20, 60}, []int64{4, 6, 8, 10, 12, 16, 20, 24, 32, 40, 48})
+	if err != nil {
+		t.Fatal(err)
+	}
+	clustered, err := notebookui.ClusteredPowerChart(grid)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff},
+		{"simulated-coverage", simulated}, {"clustered-power", clustered}}
 }
 
 // TestChartsDrawOffline writes each chart as a standalone page, opens it in

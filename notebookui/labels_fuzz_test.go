@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/planning"
 )
 
@@ -77,6 +78,24 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
 	add("segments card", segmentsCardFor(t, first, second, event), nil)
+	sim, err := SimulatedCoverageChart(handCurve(event, first, second))
+	add("simulated coverage chart", sim, err)
+	// the cluster column named by the event label, so that a label reaches
+	// the card's headings and sentences too
+	cd, err := clusters.New(event, proportions.Labels{First: first, Second: second, Event: event},
+		[]clusters.Cluster{{Value: "t1", Events: 3, Trials: 8}, {Value: "t2", Events: 6, Trials: 9}},
+		[]clusters.Cluster{{Value: "t3", Events: 1, Trials: 7}, {Value: "t4", Events: 4, Trials: 10}})
+	if err != nil {
+		t.Fatalf("clustered data: %v", err)
+	}
+	ca, err := clusters.Analyze(cd)
+	add("cluster card", NewClusterCard(ca), err)
+	grid, err := planning.ClusteredPowerByClusters(d, 0.05, 0, []float64{5, 20}, []int64{4, 8})
+	if err != nil {
+		t.Fatalf("clustered power: %v", err)
+	}
+	cp, err := ClusteredPowerChart(grid)
+	add("clustered power chart", cp, err)
 	return names, ds
 }
 

@@ -22,6 +22,7 @@ var glossaryPackages = map[string]string{
 	"bayes":       "bayes",
 	"clusters":    "clusters",
 	"segments":    "segments",
+	"simulate":    "clusters/simulate",
 	"notebookui":  "../notebookui",
 }
 

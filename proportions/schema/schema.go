@@ -80,6 +80,21 @@ const (
 	// AdjustedSegment describes one segments.Adjusted: a line of the
 	// adjusted JSON Lines that segments.Stream writes in its second pass.
 	AdjustedSegment = "adjusted-segment"
+	// Simulation describes simulate.Result, from simulate.Run: simulated
+	// coverage and rejection rates of clustered studies.
+	Simulation = "simulation"
+	// SimulationCurve describes simulate.Curve, from simulate.Sweep: a
+	// simulation at several values of the intracluster correlation.
+	SimulationCurve = "simulation-curve"
+	// Clusters describes clusters.Analysis, from clusters.Analyze: a
+	// clustered comparison with its unit-level analysis beside it.
+	Clusters = "clusters"
+	// ClusteredSampleSize describes planning.ClusteredSizeResult, from
+	// ClusteredSampleSize.
+	ClusteredSampleSize = "clustered-sample-size"
+	// ClusteredPower describes planning.ClusteredPowerGrid, from
+	// ClusteredPowerByClusters.
+	ClusteredPower = "clustered-power"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
