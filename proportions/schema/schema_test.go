@@ -44,10 +44,9 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
-	schema.Segments, schema.SegmentsSummary, schema.Segment, schema.AdjustedSegment,
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
 	schema.Simulation, schema.SimulationCurve,
+	schema.Segments, schema.SegmentsSummary, schema.Segment, schema.AdjustedSegment,
 	schema.ClusteredSampleSize, schema.ClusteredPower,
 }
 
@@ -956,7 +955,6 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
-		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
 		segments.Result{}, segments.Summary{}, segments.Segment{}, segments.Adjusted{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
 		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
