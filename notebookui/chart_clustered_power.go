@@ -3,6 +3,7 @@ package notebookui
 import (
 	"fmt"
 	"strconv"
+	"strings"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
@@ -70,6 +71,6 @@ func ClusteredPowerChart(g planning.ClusteredPowerGrid, options ...ChartOption) 
 	option["series"] = series
 	option["legend"] = legendAt(legend)
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(clusteredPowerTooltip)}
-	notes := []string{g.Caution, "Power by the normal approximation at the effective sizes clusters × size ÷ design effect (" + g.Citation + ")."}
+	notes := []string{g.Caution, "Power by the normal approximation at the effective sizes clusters × size ÷ design effect (" + strings.TrimSuffix(g.Citation, ".") + ")."}
 	return newChart("clustered-power", title, subtitle, s.heightOr(defaultHeight), option, table, notes)
 }

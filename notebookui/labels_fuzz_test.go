@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"strings"
 	"sync"
 	"testing"
@@ -11,6 +12,7 @@ import (
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/planning"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // The script-injection payload of issue 20: a group label wrapped in the
@@ -96,6 +98,15 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 	}
 	cp, err := ClusteredPowerChart(grid)
 	add("clustered power chart", cp, err)
+	forest, err := ForestChart(Forest{Title: "by " + event, Subtitle: first + " − " + second, Effect: event, Scale: proportions.Difference, Level: 0.95,
+		Rows: []ForestRow{{Label: first, Estimate: 0.1, Lower: -0.05, Upper: 0.25, Weight: 0.6, Note: second},
+			{Label: second, Estimate: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), Note: event}},
+		Summary: &ForestRow{Label: event, Estimate: 0.08, Lower: 0.01, Upper: 0.15}, Notes: []string{first}})
+	add("forest chart", forest, err)
+	sa := strataAnalysis(t, first, second, event)
+	add("stratified card", NewStrataCard(sa), nil)
+	sf, err := StrataForestChart(sa)
+	add("stratified forest chart", sf, err)
 	return names, ds
 }
 
@@ -107,6 +118,27 @@ func segmentsCardFor(t *testing.T, first, second, event string) SegmentsCard {
 	c.Result.Segments[0].Value = first
 	c.Result.Segments[3].Value = event // the empty segment, in the flagged table
 	return c
+}
+
+// strataAnalysis is a small stratified analysis whose group labels,
+// event, breakdown column and block values are the given labels (a block
+// value cannot be empty or repeated, so the labels are prefixed).
+func strataAnalysis(t *testing.T, first, second, event string) strata.Analysis {
+	t.Helper()
+	rows := []proportions.BreakdownRow{
+		{Value: "1 " + first, Counts: proportions.Counts{X1: 9, N1: 10, X2: 30, N2: 40}},
+		{Value: "2 " + second, Counts: proportions.Counts{X1: 20, N1: 40, X2: 3, N2: 10}},
+		{Value: "3 " + event, Counts: proportions.Counts{X1: 4, N1: 6}},
+	}
+	b, err := proportions.NewBreakdown(event, proportions.Labels{First: first, Second: second, Event: event}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := strata.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return a
 }
 
 // renders is labelViews as HTML with their JSON forms, and Page.

@@ -23,6 +23,7 @@ var glossaryPackages = map[string]string{
 	"clusters":    "clusters",
 	"segments":    "segments",
 	"simulate":    "clusters/simulate",
+	"strata":      "strata",
 	"notebookui":  "../notebookui",
 }
 

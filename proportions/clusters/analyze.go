@@ -200,15 +200,18 @@ func (a Analysis) warnings() []proportions.Warning {
 // of clustered data with a warning (code WarnClustersIgnored) that it
 // treats the units as independent, saying what they are worth: the path
 // by which a single-table result card tells its reader that the data carry
-// a cluster column. The analysis is otherwise unchanged; a Data without at
-// least two clusters per group gets the warning without the estimate.
+// a cluster column. The analysis is otherwise unchanged. Data without at
+// least two clusters per group, or whose intracluster correlation cannot
+// be estimated, get the warning without the estimate of their worth.
 func FlagIgnoredClusters(a proportions.Analysis, d Data) proportions.Analysis {
 	msg := fmt.Sprintf("These units come in %d %s and are analysed here as if independent; ", len(d.Group1)+len(d.Group2), plural(d.By, 2))
 	s := Summarize(d)
 	if s.Check() == nil {
-		rho := usableRho(ANOVACorrelation(s, 0.95).Estimate)
-		e := GroupDesignEffect(s.Group1, rho).EffectiveSize + GroupDesignEffect(s.Group2, rho).EffectiveSize
-		msg += EffectiveSentence(d, e) + ". "
+		if r := ANOVACorrelation(s, 0.95); r.Defined {
+			rho := usableRho(r.Estimate)
+			e := GroupDesignEffect(s.Group1, rho).EffectiveSize + GroupDesignEffect(s.Group2, rho).EffectiveSize
+			msg += EffectiveSentence(d, e) + ". "
+		}
 	}
 	msg += "Use the clustered analysis (clusters.Analyze) for intervals and tests that account for them."
 	a.Warnings = append(append([]proportions.Warning(nil), a.Warnings...), proportions.Warning{Code: WarnClustersIgnored, Message: msg})

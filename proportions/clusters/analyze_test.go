@@ -91,3 +91,16 @@ func hasCode(ws []proportions.Warning, code string) bool {
 	}
 	return false
 }
+
+// The ignored-clusters warning gives the worth of the units only when the
+// correlation can be estimated: trays of one seed give none.
+func TestFlagIgnoredClustersWithoutEstimate(t *testing.T) {
+	d := mustData(t, unitClusters("a", 3, 5), unitClusters("b", 1, 4))
+	c, _ := proportions.NewComparison(3, 5, 1, 4, proportions.Labels{})
+	a, _ := proportions.Analyze(c)
+	f := FlagIgnoredClusters(a, d)
+	w := f.Warnings[len(f.Warnings)-1]
+	if w.Code != WarnClustersIgnored || strings.Contains(w.Message, "behave like") || len(a.Warnings)+1 != len(f.Warnings) {
+		t.Errorf("warning %+v; original warnings %d, flagged %d", w, len(a.Warnings), len(f.Warnings))
+	}
+}

@@ -141,8 +141,23 @@ func TestSumsAgainstDefinitions(t *testing.T) {
 		rho := usableRho(ANOVACorrelation(s, 0.95).Estimate)
 		for i, cl := range [][]Cluster{d.Group1, d.Group2} {
 			g := []GroupSummary{s.Group1, s.Group2}[i]
-			if got, want := GroupDesignEffect(g, rho).Value, bruteDesignEffect(cl, rho); !near(got, want, 1e-12) {
+			de := GroupDesignEffect(g, rho)
+			if got, want := de.Value, bruteDesignEffect(cl, rho); !near(got, want, 1e-12) {
 				t.Errorf("%s group %d: design effect %.15g, from its definition %.15g", c.Name, i+1, got, want)
+			}
+			// The coefficient-of-variation form (Eldridge, Ashby & Kerry
+			// 2006) with the sizes' population standard deviation.
+			var sum, sq float64
+			for _, k := range cl {
+				sum += float64(k.Trials)
+			}
+			mean := sum / float64(len(cl))
+			for _, k := range cl {
+				sq += (float64(k.Trials) - mean) * (float64(k.Trials) - mean)
+			}
+			cv := math.Sqrt(sq/float64(len(cl))) / mean
+			if want := 1 + ((cv*cv+1)*mean-1)*rho; !near(de.Value, want, 1e-12) || !near(de.SizeVariation, cv, 1e-12) {
+				t.Errorf("%s group %d: design effect %.15g (CV %.15g), CV form %.15g (CV %.15g)", c.Name, i+1, de.Value, de.SizeVariation, want, cv)
 			}
 			if got, want := raoScottDesignEffect(g), bruteRaoScott(cl); !near(got, want, 1e-10) {
 				t.Errorf("%s group %d: Rao–Scott d = %.15g, from its definition %.15g", c.Name, i+1, got, want)
@@ -153,6 +168,15 @@ func TestSumsAgainstDefinitions(t *testing.T) {
 		want := pearsonX2(float64(tot.X1)/d1, float64(tot.N1)/d1, float64(tot.X2)/d2, float64(tot.N2)/d2)
 		if res, _ := RaoScottTest.Test(d); !near(res.Statistic, want, 1e-10) {
 			t.Errorf("%s: Rao–Scott X² = %.15g, Pearson on effective counts %.15g", c.Name, res.Statistic, want)
+		}
+		// Donner's X² from its definition with the design effects computed
+		// cluster by cluster.
+		c1, c2 := bruteDesignEffect(d.Group1, rho), bruteDesignEffect(d.Group2, rho)
+		p1, p2 := float64(tot.X1)/float64(tot.N1), float64(tot.X2)/float64(tot.N2)
+		p := float64(tot.X1+tot.X2) / float64(tot.N1+tot.N2)
+		wantD := (float64(tot.N1)*(p1-p)*(p1-p)/c1 + float64(tot.N2)*(p2-p)*(p2-p)/c2) / (p * (1 - p))
+		if res, _ := DonnerTest.Test(d); !near(res.Statistic, wantD, 1e-10) {
+			t.Errorf("%s: Donner X² = %.15g, from its definition %.15g", c.Name, res.Statistic, wantD)
 		}
 		if got, want := FleissCuzickCorrelation(s).Estimate, bruteFleissCuzick(d.Group1, d.Group2); !near(got, want, 1e-12) {
 			t.Errorf("%s: Fleiss–Cuzick %.15g, from its definition %.15g", c.Name, got, want)

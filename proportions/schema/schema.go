@@ -95,6 +95,9 @@ const (
 	// ClusteredPower describes planning.ClusteredPowerGrid, from
 	// ClusteredPowerByClusters.
 	ClusteredPower = "clustered-power"
+	// Stratified describes strata.Analysis, from strata.Analyze: the
+	// stratified analysis of a breakdown.
+	Stratified = "stratified"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
@@ -103,7 +106,7 @@ const (
 const suffix = ".schema.json"
 
 // FileName returns the file name of a schema, name + ".schema.json": the
-// name under which the others reference it (only Common is referenced).
+// name under which the others reference it (Common is referenced by every schema, Analysis by Clusters).
 func FileName(name string) string { return name + suffix }
 
 // Names returns the names of every schema, Common included, sorted.

@@ -24,6 +24,7 @@ import (
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
 	"github.com/propscope/propscope/proportions/segments"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // The schemas are written by hand from the documented meaning of each
@@ -47,7 +48,7 @@ var allNames = []string{
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
 	schema.Simulation, schema.SimulationCurve,
 	schema.Segments, schema.SegmentsSummary, schema.Segment, schema.AdjustedSegment,
-	schema.ClusteredSampleSize, schema.ClusteredPower,
+	schema.ClusteredSampleSize, schema.ClusteredPower, schema.Stratified,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -749,6 +750,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkSegments(t, c)
 	checkSimulations(t, c)
 	checkClusters(t, c)
+	checkStratified(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -924,6 +926,10 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
+		{"null homogeneity", mustStratified(t), schema.Stratified, func(d obj) { d["homogeneity"] = nil }},
+		{"an unknown stratified warning", mustStratified(t), schema.Stratified, func(d obj) { first(d["warnings"])["code"] = "simpson" }},
+		{"a stratum weight above 1", mustStratified(t), schema.Stratified, func(d obj) { first(d["strata"])["weight"] = 1.5 }},
+		{"an estimate without its key", mustStratified(t), schema.Stratified, func(d obj) { delete(d["interval"].(obj), "key") }},
 	}
 	cases = append(cases, brokenSegments(t)...)
 	for _, k := range cases {
@@ -958,7 +964,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		segments.Result{}, segments.Summary{}, segments.Segment{}, segments.Adjusted{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
 		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
-		planning.ClusteredSizeResult{}, planning.ClusteredPowerGrid{},
+		planning.ClusteredSizeResult{}, planning.ClusteredPowerGrid{}, strata.Analysis{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
