@@ -24,7 +24,8 @@ const DefaultSegmentsShown = 20
 // difference, by the number of units), the empty and sparse segments
 // flagged, the notes and the standing caution. The orders are rendered in
 // advance, each in a fold, and linked: the link's target is inside the
-// fold, so a browser opens the fold to show it; the card needs no script. It renders what the
+// fold, so a browser opens the fold to show it; the card needs no script.
+// Draw the top segments with [SegmentsForestChart]. It renders what the
 // result holds and recomputes nothing.
 type SegmentsCard struct {
 	Result segments.Result

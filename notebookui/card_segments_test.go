@@ -152,3 +152,36 @@ func TestSegmentsCardEscapesHostileText(t *testing.T) {
 		t.Error("text form does not show the value literally")
 	}
 }
+
+// The forest chart draws the segments with the smallest adjusted p-values,
+// in that order, each with its simultaneous interval, and says what it
+// left out.
+func TestSegmentsForestChart(t *testing.T) {
+	r := segmentsFixture(t).Result
+	ch, err := SegmentsForestChart(r, 3)
+	if err != nil {
+		t.Fatal(err)
+	}
+	order := r.ByAdjustedP()
+	text := ch.Text()
+	for k, i := range order[:3] {
+		s, a := r.Segments[i], r.Adjusted[i]
+		if !strings.Contains(text, s.Value) {
+			t.Errorf("row %d: %s not drawn", k+1, s.Value)
+		}
+		// The limits as the chart's table prints them, in points.
+		for _, lim := range []float64{a.SimultaneousLower, a.SimultaneousUpper} {
+			if !strings.Contains(text, points(lim, 2)) {
+				t.Errorf("%s: simultaneous limit %s not in the chart's table:\n%s", s.Value, points(lim, 2), text)
+			}
+		}
+	}
+	if strings.Contains(text, r.Segments[order[3]].Value) {
+		t.Errorf("a fourth segment is drawn")
+	}
+	for _, want := range []string{"8 segments", "m = 7", "Holm", "3 of 7 tested segments", "1 segment with a group without trials is not drawn"} {
+		if !strings.Contains(text, want) && !strings.Contains(ch.HTML(), want) {
+			t.Errorf("the chart does not say %q", want)
+		}
+	}
+}

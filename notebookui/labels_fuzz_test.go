@@ -80,6 +80,8 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
 	add("segments card", segmentsCardFor(t, first, second, event), nil)
+	segForest, err := SegmentsForestChart(segmentsCardFor(t, first, second, event).Result, 4)
+	add("segments forest chart", segForest, err)
 	sim, err := SimulatedCoverageChart(handCurve(event, first, second))
 	add("simulated coverage chart", sim, err)
 	// the cluster column named by the event label, so that a label reaches
