@@ -161,8 +161,46 @@ func (b *offlineBrowser) tooltip(t *testing.T, chart, series, item int) string {
 	return text
 }
 
-// screenshot writes a PNG of chart i's figure (the i-th on the page).
+// tooltipVisibleJS reports whether any chart on the page shows a tooltip.
+const tooltipVisibleJS = `[...document.querySelectorAll('[data-propscope-chart] div')].some(function (d) {
+  return d.style && d.style.zIndex && d.style.display !== 'none' && d.style.opacity !== '0' && d.style.visibility !== 'hidden' && d.innerText;
+})`
+
+// hideTips hides every chart's tooltip and waits until none shows, so a
+// screenshot shows the plot as a reader first sees it.
+func (b *offlineBrowser) hideTips(t *testing.T) {
+	t.Helper()
+	hide := `document.querySelectorAll('[data-propscope-chart]').forEach(function (el) {
+  var c = echarts.getInstanceByDom(el);
+  if (c) { c.dispatchAction({type: 'hideTip'}); }
+}); true`
+	if _, err := chromedp.Run(b.ctx, chromedp.Evaluate[bool](hide)); err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithTimeout(b.ctx, 5*time.Second)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool]("!("+tooltipVisibleJS+")", chromedp.WithPollingTimeout(4*time.Second))); err != nil {
+		t.Errorf("a tooltip still covers the plot: %v", err)
+	}
+}
+
+// screenshot writes a PNG of chart i's figure (the i-th on the page),
+// with no tooltip over it (tooltipShot keeps the tooltip).
 func (b *offlineBrowser) screenshot(t *testing.T, chart int, path string) {
+	t.Helper()
+	b.hideTips(t)
+	b.shoot(t, chart, path)
+}
+
+// tooltipShot writes a PNG of chart i's figure with the tooltip of its
+// middle data item showing.
+func (b *offlineBrowser) tooltipShot(t *testing.T, chart int, path string) {
+	t.Helper()
+	b.tooltip(t, chart, 0, -1)
+	b.shoot(t, chart, path)
+}
+
+func (b *offlineBrowser) shoot(t *testing.T, chart int, path string) {
 	t.Helper()
 	mark := fmt.Sprintf(`(function () {
   var f = document.querySelectorAll('figure.propscope-chart')[%d];
@@ -406,9 +444,19 @@ func TestChartsDrawOffline(t *testing.T) {
 		if tip := b.tooltip(t, 0, 0, -1); !strings.ContainsAny(tip, "0123456789") || !strings.ContainsAny(tip, "%p") {
 			t.Errorf("%s: tooltip %q shows no numbers", nc.name, tip)
 		}
+		// The caption under the chart starts where the chart's title does
+		// (12 px in), not at the figure's edge.
+		inset, err := chromedp.Run(b.ctx, chromedp.Evaluate[float64](`(() => { const f = document.querySelector('figure.propscope-chart');
+  const p = f.querySelector('figcaption p, figcaption summary'); return p.getBoundingClientRect().left - f.getBoundingClientRect().left; })()`))
+		if err != nil || inset < 11 || inset > 13 {
+			t.Errorf("%s: the caption starts %v px into the figure, want the title's 12 (%v)", nc.name, inset, err)
+		}
 		shot := filepath.Join(dir, nc.name+".png")
 		b.screenshot(t, 0, shot)
 		t.Logf("screenshot: %s", shot)
+		tip := filepath.Join(dir, nc.name+"-tooltip.png")
+		b.tooltipShot(t, 0, tip)
+		t.Logf("screenshot with a tooltip: %s", tip)
 	}
 	b.offline(t)
 }

@@ -86,7 +86,7 @@ func (c ClusterCard) view() clusterView {
 	)
 	tests := clusterTable{Heading: "Tests of no difference", Head: []string{"", "Test", "Statistic", "p"}}
 	testRow := func(what string, t proportions.TestResult) bayesRow {
-		return bayesRow{[]string{what, t.MethodName, t.StatisticName + " = " + signless(t.Statistic, 3), proportions.FormatP(t.PValue, t.LogPValue)}}
+		return bayesRow{[]string{what, t.MethodName, statistic(t), pValue(t.PValue)}}
 	}
 	for _, t := range a.Tests {
 		if t.Method != a.ClusterLevelTest.Method {
@@ -121,11 +121,11 @@ var clusterTemplate = template.Must(template.New("clusters").Parse(`<section cla
 <h3 class="ps-title">{{.Title}}</h3>
 {{if .Clustered}}<ul class="ps-warnings"><li data-role="worth" data-code="clustered-units">{{.Lead}}</li></ul>{{else}}<p class="ps-lead" data-role="worth">{{.Lead}}</p>{{end}}
 <p class="ps-lead">{{.Conclusion}}</p>
-{{range .Tables}}<h4 class="ps-h">{{.Heading}}</h4>
+{{range .Tables}}{{$head := .Head}}<h4 class="ps-h">{{.Heading}}</h4>
 <div class="ps-scroll"><table class="ps-t">
 <thead><tr>{{range .Head}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Rows}}
-<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n" data-label="{{index $head $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 {{end}}{{if .Warnings}}<h4 class="ps-h">Warnings</h4>
 <ul class="ps-warnings">{{range .Warnings}}

@@ -226,10 +226,12 @@ func (a Analysis) conclusion() string {
 	if t.Reject {
 		verdict = "the rates differ"
 	}
-	return fmt.Sprintf("Accounting for the %s, %s minus %s in the rate of %s is %s (%s%% interval %s to %s, %s); %s p = %s: %s at the %s%% level.",
+	// Numbers as the cards print them (proportions/reader_numbers.go):
+	// signed percentage points, the typographic minus, p at four decimals.
+	return fmt.Sprintf("Accounting for the %s, %s minus %s in the rate of %s is %s percentage points (%s%% interval %s to %s, %s); %s %s: %s at the %s%% level.",
 		plural(a.Data.By, 2), a.Data.First, a.Data.Second, a.Data.Event,
-		proportions.FormatValue(iv.Estimate), percent(iv.Level), proportions.FormatValue(iv.Lower), proportions.FormatValue(iv.Upper), iv.MethodName,
-		t.MethodName, proportions.FormatP(t.PValue, t.LogPValue), verdict, percent(1-a.Level))
+		proportions.FormatPoints(iv.Estimate, 1), percent(iv.Level), proportions.FormatPoints(iv.Lower, 1), proportions.FormatPoints(iv.Upper, 1), iv.MethodName,
+		t.MethodName, proportions.PValueClause(t.PValue), verdict, percent(1-a.Level))
 }
 
 func percent(v float64) string { return fmt.Sprintf("%g", math.Round(1000*v)/10) }
