@@ -83,7 +83,7 @@ func (c SegmentsCard) view() segmentsView {
 	}
 	if !math.IsNaN(s.SimultaneousLevel) {
 		v.Simultaneous = fmt.Sprintf("Simultaneous intervals at %s (Bonferroni over %d segments): all of them hold together with at least %s.",
-			strconv.FormatFloat(100*s.SimultaneousLevel, 'g', 8, 64)+"%", s.Tested, levelText(s.IntervalLevel))
+			simultaneousLevelText(s.SimultaneousLevel), s.Tested, levelText(s.IntervalLevel))
 	}
 	id := c.anchor()
 	for k, o := range []struct {
@@ -134,8 +134,7 @@ func (c SegmentsCard) segmentRows(order []int) [][]string {
 			flag = "sparse"
 		}
 		rows = append(rows, []string{strconv.Itoa(s.Number), s.Value, countsText(s.Counts), points(s.Difference, 1),
-			points(s.Lower, 1) + " to " + points(s.Upper, 1), proportions.FormatP(s.PValue, math.Log(s.PValue)),
-			proportions.FormatP(a.AdjustedPValue, math.Log(a.AdjustedPValue)),
+			points(s.Lower, 1) + " to " + points(s.Upper, 1), pValue(s.PValue), pValue(a.AdjustedPValue),
 			points(a.SimultaneousLower, 1) + " to " + points(a.SimultaneousUpper, 1), flag})
 	}
 	return rows
@@ -156,10 +155,21 @@ func (c SegmentsCard) flaggedRows() [][]string {
 				"empty: no trials in " + group + "; not tested"})
 		case sg.Sparse && len(sparse) < c.shown():
 			sparse = append(sparse, []string{strconv.Itoa(sg.Number), sg.Value, countsText(sg.Counts),
-				fmt.Sprintf("sparse: smallest expected count %.2g", sg.SmallestExpected)})
+				"sparse: smallest expected count " + signless(sg.SmallestExpected, 1)})
 		}
 	}
 	return append(empty, sparse...)
+}
+
+// simultaneousLevelText prints a level close to 1 with the decimals it
+// needs not to round to 100% ("99.29%", "99.999995%"): levelText's four
+// digits would call a Bonferroni level over a thousand segments 100%.
+func simultaneousLevelText(level float64) string {
+	decimals := 1
+	if miss := 100 * (1 - level); miss > 0 {
+		decimals = max(decimals, int(math.Ceil(-math.Log10(miss)))+1)
+	}
+	return strings.TrimRight(strings.TrimRight(strconv.FormatFloat(100*level, 'f', decimals, 64), "0"), ".") + "%"
 }
 
 func countsText(c proportions.Counts) string {
@@ -183,14 +193,14 @@ var segmentsTemplate = template.Must(template.New("segments").Parse(`<section cl
 <div class="ps-scroll" id="{{.ID}}"><table class="ps-t">
 <thead><tr>{{range $.Head}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Rows}}
-<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 8}}<td>{{if $c}}<span class="ps-tag">{{$c}}</span>{{end}}</td>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 8}}<td data-label="{{index $.Head $i}}">{{if $c}}<span class="ps-tag">{{$c}}</span>{{end}}</td>{{else}}<td class="ps-n" data-label="{{index $.Head $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 </details>
 {{end}}{{if .Flagged}}<h4 class="ps-h">Flagged segments</h4>
 <div class="ps-scroll"><table class="ps-t">
 <thead><tr>{{range .FlagHead}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Flagged}}
-<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 3}}<td>{{$c}}</td>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 3}}<td data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{else}}<td class="ps-n" data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 {{end}}<p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
 </section>`))

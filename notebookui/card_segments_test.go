@@ -72,7 +72,11 @@ func TestSegmentsCardShowsTheAnalysis(t *testing.T) {
 		for _, want := range []string{
 			"8 segments", "7 tested (m)", "1 empty", // Glasshouse 2 has no untreated seed
 			"adjusted for 7 segments by Holm", "family-wise error rate",
-			"+15.0",        // Hillside: 0.86 − 0.71 in points
+			"+15.0", // Hillside: 0.86 − 0.71 in points
+			// Hillside's Holm-adjusted p: the third smallest of 7, so
+			// 5 × 0.009829 (the fixture's SciPy score p-value) = 0.0491.
+			"0.0491",
+			"1.0000",       // Riverbank's, capped at 1
 			"30/40 vs 0/0", // the empty segment's counts
 			"no trials in untreated",
 			"sparse",         // Orchard, Seed bank
@@ -182,6 +186,20 @@ func TestSegmentsForestChart(t *testing.T) {
 	for _, want := range []string{"8 segments", "m = 7", "Holm", "3 of 7 tested segments", "1 segment with a group without trials is not drawn"} {
 		if !strings.Contains(text, want) && !strings.Contains(ch.HTML(), want) {
 			t.Errorf("the chart does not say %q", want)
+		}
+	}
+}
+
+// A Bonferroni level over many segments keeps the digits that tell it
+// from 100% (worked by hand: 1 − 0.05/7 = 0.992857…, 1 − 0.05/10⁶ =
+// 0.99999995).
+func TestSimultaneousLevelText(t *testing.T) {
+	for _, k := range []struct {
+		level float64
+		want  string
+	}{{1 - 0.05/7, "99.29%"}, {1 - 0.05/1e6, "99.999995%"}, {1 - 0.05/1000, "99.995%"}, {0.95, "95%"}} {
+		if got := simultaneousLevelText(k.level); got != k.want {
+			t.Errorf("level %v: %q, want %q", k.level, got, k.want)
 		}
 	}
 }

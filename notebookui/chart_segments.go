@@ -2,8 +2,6 @@ package notebookui
 
 import (
 	"fmt"
-	"math"
-	"strconv"
 
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/segments"
@@ -28,16 +26,16 @@ func SegmentsForestChart(r segments.Result, top int, options ...ChartOption) (*C
 	f := Forest{
 		Title: fmt.Sprintf("Difference in share %s by %s: the smallest adjusted p-values", s.Event, s.By),
 		Subtitle: fmt.Sprintf("%s − %s; %d segments, m = %d tested, adjusted by %s; simultaneous %s intervals (Bonferroni)",
-			s.First, s.Second, s.SegmentCount, s.Tested, s.Adjustment.Name(), strconv.FormatFloat(100*s.SimultaneousLevel, 'g', 6, 64)+"%"),
+			s.First, s.Second, s.SegmentCount, s.Tested, s.Adjustment.Name(), simultaneousLevelText(s.SimultaneousLevel)),
 		Effect: fmt.Sprintf("difference in share %s, %s − %s", s.Event, s.First, s.Second),
-		Scale:  proportions.Difference, Level: s.SimultaneousLevel,
+		Scale:  proportions.Difference, // the level is in the subtitle: ForestChart's caption would round it to 100%
 	}
 	for _, i := range r.ByAdjustedP() {
 		sg, a := r.Segments[i], r.Adjusted[i]
 		if len(f.Rows) == top || sg.Empty { // the empty segments come last: nothing to draw
 			break
 		}
-		note := "adjusted p = " + proportions.FormatP(a.AdjustedPValue, math.Log(a.AdjustedPValue))
+		note := "adjusted " + pClause(a.AdjustedPValue)
 		if sg.Sparse {
 			note += "; sparse: read with care"
 		}

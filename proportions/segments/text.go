@@ -14,7 +14,11 @@ import (
 // percent prints a level as "95%" or, for a simultaneous level, with the
 // digits it needs ("99.99996%").
 func percent(level float64) string {
-	return strconv.FormatFloat(100*level, 'g', 8, 64) + "%"
+	decimals := 1
+	if miss := 100 * (1 - level); miss > 0 {
+		decimals = max(decimals, int(math.Ceil(-math.Log10(miss)))+1)
+	}
+	return strings.TrimRight(strings.TrimRight(strconv.FormatFloat(100*level, 'f', decimals, 64), "0"), ".") + "%"
 }
 
 // Lines returns the summary as plain sentences: what was compared, the
@@ -73,9 +77,10 @@ func segmentLine(s Segment, a Adjusted) string {
 	if s.Empty {
 		return counts + ", empty: a group has no trials (not tested)"
 	}
-	line := fmt.Sprintf("%s, difference %s (%s to %s), p = %.4g, adjusted p = %.4g, simultaneous %s to %s",
+	line := fmt.Sprintf("%s, difference %s (%s to %s), %s, adjusted %s, simultaneous %s to %s",
 		counts, proportions.FormatValue(s.Difference), proportions.FormatValue(s.Lower), proportions.FormatValue(s.Upper),
-		s.PValue, a.AdjustedPValue, proportions.FormatValue(a.SimultaneousLower), proportions.FormatValue(a.SimultaneousUpper))
+		proportions.PValueClause(s.PValue), proportions.PValueClause(a.AdjustedPValue),
+		proportions.FormatValue(a.SimultaneousLower), proportions.FormatValue(a.SimultaneousUpper))
 	if s.Sparse {
 		line += ", sparse"
 	}
