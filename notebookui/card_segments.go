@@ -193,14 +193,14 @@ var segmentsTemplate = template.Must(template.New("segments").Parse(`<section cl
 <div class="ps-scroll" id="{{.ID}}"><table class="ps-t">
 <thead><tr>{{range $.Head}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Rows}}
-<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 8}}<td data-label="{{index $.Head $i}}">{{if $c}}<span class="ps-tag">{{$c}}</span>{{end}}</td>{{else}}<td class="ps-n" data-label="{{index $.Head $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row"><span class="ps-clip" title="{{$c}}">{{$c}}</span></th>{{else if eq $i 8}}<td data-label="{{index $.Head $i}}">{{if $c}}<span class="ps-tag">{{$c}}</span>{{end}}</td>{{else}}<td class="ps-n" data-label="{{index $.Head $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 </details>
 {{end}}{{if .Flagged}}<h4 class="ps-h">Flagged segments</h4>
 <div class="ps-scroll"><table class="ps-t">
 <thead><tr>{{range .FlagHead}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Flagged}}
-<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row">{{$c}}</th>{{else if eq $i 3}}<td data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{else}}<td class="ps-n" data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .}}{{if eq $i 1}}<th scope="row"><span class="ps-clip" title="{{$c}}">{{$c}}</span></th>{{else if eq $i 3}}<td data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{else}}<td class="ps-n" data-label="{{index $.FlagHead $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 {{end}}<p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>
 </section>`))
