@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"html/template"
 	"math"
-	"strconv"
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
@@ -72,11 +71,11 @@ func testLine(t strata.Test) string {
 	if t.Reject {
 		d = "rejects no difference"
 	}
-	return fmt.Sprintf("%s %s, p = %s: %s at %s", t.Name, statText(t), proportions.FormatP(t.PValue, t.LogPValue), d, levelText(1-t.Level))
+	return fmt.Sprintf("%s %s, p = %s: %s at %s", t.Name, statText(t), pValue(t.PValue), d, levelText(1-t.Level))
 }
 
 func statText(t strata.Test) string {
-	s := t.StatisticName + " = " + strings.Replace(strconv.FormatFloat(t.Statistic, 'g', 4, 64), "-", minus, 1)
+	s := t.StatisticName + " = " + signless(t.Statistic, 3)
 	if t.DF > 0 {
 		s += fmt.Sprintf(" (%d df)", t.DF)
 	}
@@ -114,9 +113,9 @@ func (c StrataCard) crudeRows() strataTable {
 	cr := a.Crude
 	t.Rows = append(t.Rows,
 		[]string{"pooled, ignoring the " + by, points(cr.Difference, 1), points(cr.Interval.Lower, 1) + " to " + points(cr.Interval.Upper, 1),
-			cr.Test.MethodName, proportions.FormatP(cr.Test.PValue, cr.Test.LogPValue)},
+			cr.Test.MethodName, pValue(cr.Test.PValue)},
 		[]string{"within each " + by + " (common)", points(a.Interval.Estimate, 1), points(a.Interval.Lower, 1) + " to " + points(a.Interval.Upper, 1),
-			a.Test.Name, proportions.FormatP(a.Test.PValue, a.Test.LogPValue)})
+			a.Test.Name, pValue(a.Test.PValue)})
 	return t
 }
 
@@ -127,7 +126,7 @@ func homogeneityRows(a strata.Analysis) strataTable {
 		if h.Reject {
 			r = "the effect differs between " + a.Breakdown.By + " values"
 		}
-		t.Rows = append(t.Rows, []string{h.Name, statText(h), proportions.FormatP(h.PValue, h.LogPValue), r})
+		t.Rows = append(t.Rows, []string{h.Name, statText(h), pValue(h.PValue), r})
 	}
 	return t
 }
@@ -139,7 +138,7 @@ func testRows(ts []strata.Test, caption string) strataTable {
 		if x.Reject {
 			d = "rejects no difference"
 		}
-		t.Rows = append(t.Rows, []string{x.Name, statText(x), proportions.FormatP(x.PValue, x.LogPValue) + " (" + x.Alternative.String() + ")", d})
+		t.Rows = append(t.Rows, []string{x.Name, statText(x), pValue(x.PValue) + " (" + x.Alternative.String() + ")", d})
 	}
 	return t
 }

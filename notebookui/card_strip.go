@@ -14,7 +14,7 @@ import (
 // says (its aria-label spells it out), so nothing rests on the picture or
 // its colour.
 type strip struct {
-	Label                          string // accessible description
+	Label string // accessible description
 	// X1, X2, XEst and XNull are positions in percent of the strip's
 	// width: the strip spans the card, and its text keeps its size in
 	// pixels at any width (no viewBox scales it down on a phone).

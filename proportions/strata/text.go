@@ -24,15 +24,15 @@ func conclusion(a Analysis) string {
 	default:
 		fmt.Fprintf(&w, "Within each %s, %s and %s have on average the same rate (%s)", b.By, b.First, b.Second, b.Event)
 	}
-	fmt.Fprintf(&w, " (%s%% interval %s to %s; %d of %d values of %s used). ", lvl, points(a.Interval.Lower), points(a.Interval.Upper), a.Used(), len(a.Strata), b.By)
-	p := proportions.FormatP(a.Test.PValue, a.Test.LogPValue)
+	fmt.Fprintf(&w, " (%s%% interval %s to %s; %d of %d values of %s used). ", lvl, signedPoints(a.Interval.Lower), signedPoints(a.Interval.Upper), a.Used(), len(a.Strata), b.By)
+	p := proportions.PValueClause(a.Test.PValue)
 	if a.Test.Reject {
-		fmt.Fprintf(&w, "The Cochran–Mantel–Haenszel test rejects no difference at %s%% (p = %s, %s).", alpha, p, a.Test.Alternative)
+		fmt.Fprintf(&w, "The Cochran–Mantel–Haenszel test rejects no difference at %s%% (%s, %s).", alpha, p, a.Test.Alternative)
 	} else {
-		fmt.Fprintf(&w, "The Cochran–Mantel–Haenszel test does not reject no difference at %s%% (p = %s, %s): "+
+		fmt.Fprintf(&w, "The Cochran–Mantel–Haenszel test does not reject no difference at %s%% (%s, %s): "+
 			"the data do not show a difference, which is not evidence that the rates are equal.", alpha, p, a.Test.Alternative)
 	}
-	fmt.Fprintf(&w, " Pooled over every %s, ignoring it, the difference is %s.", b.By, points(a.Crude.Difference))
+	fmt.Fprintf(&w, " Pooled over every %s, ignoring it, the difference is %s.", b.By, signedPoints(a.Crude.Difference))
 	return w.String()
 }
 

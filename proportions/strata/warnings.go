@@ -35,9 +35,9 @@ func (a *Analysis) addWarnings(ts []table) {
 	for _, t := range a.Homogeneity {
 		if t.Reject {
 			a.Warnings = append(a.Warnings, proportions.Warning{Code: WarnNotHomogeneous, Message: fmt.Sprintf(
-				"%s rejects a common effect (p = %s): the effect differs between %s values, so one common estimate hides that. "+
+				"%s rejects a common effect (%s): the effect differs between %s values, so one common estimate hides that. "+
 					"Look at each %s's own estimate before reading the common one.",
-				t.Name, proportions.FormatP(t.PValue, t.LogPValue), by, by)})
+				t.Name, proportions.PValueClause(t.PValue), by, by)})
 			return
 		}
 	}
@@ -97,3 +97,7 @@ func leader(a *Analysis, d float64) string {
 func points(d float64) string {
 	return strings.Replace(strconv.FormatFloat(100*d, 'f', 1, 64), "-", "−", 1) + " points"
 }
+
+// signedPoints prints a difference in percentage points with its sign, as
+// every reader-facing difference is ("+3.4 points", "−14.5 points").
+func signedPoints(d float64) string { return proportions.FormatPoints(d, 1) + " points" }
