@@ -23,6 +23,7 @@ import (
 	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
+	"github.com/propscope/propscope/proportions/segments"
 	"github.com/propscope/propscope/proportions/strata"
 )
 
@@ -271,7 +272,36 @@ func analysisCharts(t *testing.T, a proportions.Analysis) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}, {"forest", strataForest(t, a.Comparison)}}
+	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}, {"forest", strataForest(t, a.Comparison)},
+		{"segments-forest", segmentsForest(t, a.Comparison)}}
+}
+
+// segmentsForest is the forest chart of a per-segment analysis of the
+// comparison split into three segments, one named after the first group
+// (so hostile labels reach the segment values too), plus a segment that
+// lost its second group.
+func segmentsForest(t *testing.T, c proportions.Comparison) *notebookui.Chart {
+	t.Helper()
+	x1, n1, x2, n2 := c.First.Events, c.First.Trials, c.Second.Events, c.Second.Trials
+	b, err := proportions.NewBreakdown("shop", proportions.Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event},
+		[]proportions.BreakdownRow{
+			{Value: "east", Counts: proportions.Counts{X1: x1 / 2, N1: n1 / 2, X2: x2 / 2, N2: n2 / 2}},
+			{Value: "west " + c.First.Label, Counts: proportions.Counts{X1: x1 - x1/2, N1: n1 - n1/2, X2: x2 - x2/2, N2: n2 - n2/2}},
+			{Value: "centre", Counts: proportions.Counts{X1: 30, N1: 40, X2: 12, N2: 40}},
+			{Value: "closed", Counts: proportions.Counts{X1: 3, N1: 8}},
+		})
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := segments.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := notebookui.SegmentsForestChart(r, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
 }
 
 // strataForest is the forest chart of the comparison split into two

@@ -10,6 +10,7 @@ import (
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/segments"
 )
 
 // Hostile labels: each would run script if it reached the page unescaped,
@@ -83,6 +84,33 @@ func TestHostileLabelsInBayesCard(t *testing.T) {
 	open(t, ctx, page)
 	assertInertCard(t, ctx, "bayes-card")
 	screenshot(t, ctx, "hostile-bayes-card")
+}
+
+// TestHostileLabelsInSegmentsCard opens a standalone page of the segments
+// card with hostile labels, breakdown column and segment values: no script
+// may run, and each string must show as literal text.
+func TestHostileLabelsInSegmentsCard(t *testing.T) {
+	rows := []proportions.BreakdownRow{
+		{Value: hostile.First, Counts: proportions.Counts{X1: 30, N1: 40, X2: 18, N2: 40}},
+		{Value: hostile.Second, Counts: proportions.Counts{X1: 3, N1: 10}},
+		{Value: hostile.Event, Counts: proportions.Counts{X1: 2, N1: 6, X2: 4, N2: 7}},
+	}
+	b, err := proportions.NewBreakdown(hostile.Second, hostile, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := segments.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	page := filepath.Join(outDir, "hostile-segments-card.html")
+	if err := notebookui.WriteHTMLFile(page, "hostile labels", notebookui.NewSegmentsCard(r)); err != nil {
+		t.Fatal(err)
+	}
+	ctx := browse(t)
+	open(t, ctx, page)
+	assertInertCard(t, ctx, "segments-card")
+	screenshot(t, ctx, "hostile-segments-card")
 }
 
 // TestHostileLabelsInNotebook runs the hostile labels through the whole

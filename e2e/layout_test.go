@@ -15,6 +15,7 @@ import (
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
 	"github.com/propscope/propscope/proportions/clusters"
+	"github.com/propscope/propscope/proportions/segments"
 )
 
 // longLabel is a group label no table can hold on one line: one word of
@@ -87,7 +88,8 @@ type cardBoxes struct {
 // layoutPage writes a page with the cards a reader meets at the edges of
 // the layout: result cards with every method (the widest tables), a
 // zero-cell table (the longest statistic notes) and a very long group
-// label, a Bayesian card, and a cluster card with the long label.
+// label, a Bayesian card, a cluster card with the long label, and a
+// segments card with the long label as a segment's value.
 func layoutPage(t *testing.T) string {
 	t.Helper()
 	var cards []notebookui.Displayable
@@ -131,6 +133,22 @@ func layoutPage(t *testing.T) string {
 		t.Fatal(err)
 	}
 	cards = append(cards, notebookui.NewClusterCard(ca))
+	// Segments, one named by the long label, one without untreated seed.
+	rows := []proportions.BreakdownRow{
+		{Value: longLabel, Counts: proportions.Counts{X1: 41, N1: 50, X2: 33, N2: 50}},
+		{Value: "north field", Counts: proportions.Counts{X1: 150, N1: 200, X2: 120, N2: 210}},
+		{Value: "orchard", Counts: proportions.Counts{X1: 4, N1: 6, X2: 3, N2: 7}},
+		{Value: "glasshouse", Counts: proportions.Counts{X1: 30, N1: 40}},
+	}
+	bd, err := proportions.NewBreakdown("nursery", proportions.Labels{First: "primed", Second: "untreated", Event: "germinated"}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sr, err := segments.Analyze(bd)
+	if err != nil {
+		t.Fatal(err)
+	}
+	cards = append(cards, notebookui.NewSegmentsCard(sr))
 	page := filepath.Join(outDir, "card-layout.html")
 	if err := notebookui.WriteHTMLFile(page, "result cards at the edges of the layout", cards...); err != nil {
 		t.Fatal(err)
@@ -154,8 +172,8 @@ func TestCardLayout(t *testing.T) {
 		if err := json.Unmarshal([]byte(eval[string](t, ctx, layoutBoxes)), &cards); err != nil {
 			t.Fatal(err)
 		}
-		if len(cards) != 5 {
-			t.Fatalf("%d cards on the page, want 5 (three result cards, a Bayesian card, a cluster card)", len(cards))
+		if len(cards) != 6 {
+			t.Fatalf("%d cards on the page, want 6 (three result cards, a Bayesian card, a cluster card, a segments card)", len(cards))
 		}
 		for i, c := range cards {
 			where := fmt.Sprintf("at %d px, card %d (%s)", width, i+1, c.Kind)
@@ -186,6 +204,7 @@ func TestCardLayout(t *testing.T) {
 		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-top", width), 0)
 		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-long-label", width), 2)
 		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-cluster-card", width), 4)
+		viewportShot(t, ctx, fmt.Sprintf("card-layout-%d-segments-card", width), 5)
 	}
 	setWidth(t, ctx, 1100)
 }

@@ -79,6 +79,9 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	add("segments card", segmentsCardFor(t, first, second, event), nil)
+	segForest, err := SegmentsForestChart(segmentsCardFor(t, first, second, event).Result, 4)
+	add("segments forest chart", segForest, err)
 	sim, err := SimulatedCoverageChart(handCurve(event, first, second))
 	add("simulated coverage chart", sim, err)
 	// the cluster column named by the event label, so that a label reaches
@@ -107,6 +110,16 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 	sf, err := StrataForestChart(sa)
 	add("stratified forest chart", sf, err)
 	return names, ds
+}
+
+// segmentsCardFor is the segments card of the fixture with the labels as
+// the groups, the event, the breakdown column and a segment's value.
+func segmentsCardFor(t *testing.T, first, second, event string) SegmentsCard {
+	c := segmentsFixture(t)
+	c.Result.First, c.Result.Second, c.Result.Event, c.Result.By = first, second, event, second
+	c.Result.Segments[0].Value = first
+	c.Result.Segments[3].Value = event // the empty segment, in the flagged table
+	return c
 }
 
 // strataAnalysis is a small stratified analysis whose group labels,

@@ -75,4 +75,10 @@ var (
 	// ErrUnreachable: no finite sample size reaches the requested power
 	// (for example equal anticipated rates in a superiority design).
 	ErrUnreachable = errors.New("target power cannot be reached")
+	// ErrAdjustment: an unknown multiplicity adjustment (see
+	// segments.Adjustment) or p-values it cannot adjust (outside [0, 1]).
+	ErrAdjustment = errors.New("unknown adjustment or p-values outside [0, 1]")
+	// ErrRowsChanged: a source of rows read twice (segments.Stream) gave
+	// other rows the second time.
+	ErrRowsChanged = errors.New("rows changed between the two passes")
 )

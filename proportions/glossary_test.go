@@ -22,6 +22,7 @@ var glossaryPackages = map[string]string{
 	"bayes":       "bayes",
 	"clusters":    "clusters",
 	"source":      "source",
+	"segments":    "segments",
 	"simulate":    "clusters/simulate",
 	"strata":      "strata",
 	"notebookui":  "../notebookui",

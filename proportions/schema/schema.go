@@ -68,6 +68,18 @@ const (
 	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
 	// comparison broken down by the values of one column.
 	Breakdown = "breakdown"
+	// Segments describes segments.Result, from segments.Analyze: a
+	// per-segment analysis with its adjusted p-values.
+	Segments = "segments"
+	// SegmentsSummary describes segments.Summary, from segments.Stream:
+	// what a per-segment analysis did (m and the adjustment included).
+	SegmentsSummary = "segments-summary"
+	// Segment describes one segments.Segment: a line of the per-segment
+	// JSON Lines that segments.Stream writes.
+	Segment = "segment"
+	// AdjustedSegment describes one segments.Adjusted: a line of the
+	// adjusted JSON Lines that segments.Stream writes in its second pass.
+	AdjustedSegment = "adjusted-segment"
 	// Simulation describes simulate.Result, from simulate.Run: simulated
 	// coverage and rejection rates of clustered studies.
 	Simulation = "simulation"

@@ -23,6 +23,7 @@ import (
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
+	"github.com/propscope/propscope/proportions/segments"
 	"github.com/propscope/propscope/proportions/strata"
 )
 
@@ -46,6 +47,7 @@ var allNames = []string{
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
 	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
 	schema.Simulation, schema.SimulationCurve,
+	schema.Segments, schema.SegmentsSummary, schema.Segment, schema.AdjustedSegment,
 	schema.ClusteredSampleSize, schema.ClusteredPower, schema.Stratified,
 }
 
@@ -745,6 +747,7 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkRegistry(t, c)
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
+	checkSegments(t, c)
 	checkSimulations(t, c)
 	checkClusters(t, c)
 	checkStratified(t, c)
@@ -929,6 +932,7 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"a stratum weight above 1", mustStratified(t), schema.Stratified, func(d obj) { first(d["strata"])["weight"] = 1.5 }},
 		{"an estimate without its key", mustStratified(t), schema.Stratified, func(d obj) { delete(d["interval"].(obj), "key") }},
 	}
+	cases = append(cases, brokenSegments(t)...)
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)
 		if err != nil {
@@ -958,6 +962,7 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
+		segments.Result{}, segments.Summary{}, segments.Segment{}, segments.Adjusted{},
 		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
 		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
 		planning.ClusteredSizeResult{}, planning.ClusteredPowerGrid{}, strata.Analysis{},
