@@ -272,6 +272,37 @@ func TestAdjustmentNames(t *testing.T) {
 	}
 }
 
+// Among segments whose adjusted p-values tie (Holm's reach 1 for most
+// segments), the order by adjusted p-value lists the smaller p-value before
+// adjustment first, not the earlier row. The rows are built so that row
+// order and p-value order disagree: the later rows differ more.
+func TestByAdjustedPBreaksTiesByPValue(t *testing.T) {
+	var rows []proportions.BreakdownRow
+	for k := range 6 {
+		rows = append(rows, proportions.BreakdownRow{Value: fmt.Sprintf("row %d", k+1),
+			Counts: proportions.Counts{X1: int64(20 + k), N1: 100, X2: 20, N2: 100}})
+	}
+	b, err := proportions.NewBreakdown("row", proportions.Labels{}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res, err := Analyze(b, WithAdjustment(Holm))
+	if err != nil {
+		t.Fatal(err)
+	}
+	order := res.ByAdjustedP()
+	for j := 1; j < len(order); j++ {
+		prev, cur := order[j-1], order[j]
+		if res.Adjusted[prev].AdjustedPValue == res.Adjusted[cur].AdjustedPValue && res.Segments[prev].PValue > res.Segments[cur].PValue {
+			t.Errorf("tied at adjusted p %v: %s (p %v) before %s (p %v)", res.Adjusted[cur].AdjustedPValue,
+				res.Segments[prev].Value, res.Segments[prev].PValue, res.Segments[cur].Value, res.Segments[cur].PValue)
+		}
+	}
+	if res.Adjusted[order[0]].AdjustedPValue != 1 || res.Adjusted[order[len(order)-1]].AdjustedPValue != 1 {
+		t.Fatalf("the rows were meant to tie at an adjusted p-value of 1: %v", res.Adjusted)
+	}
+}
+
 // The orders the card offers sort what they say.
 func TestOrders(t *testing.T) {
 	r := rand.New(rand.NewPCG(9, 9))

@@ -88,10 +88,16 @@ func segmentLine(s Segment, a Adjusted) string {
 }
 
 // ByAdjustedP returns the positions of the segments ordered by adjusted
-// p-value, smallest first, the empty segments last (in their order).
+// p-value, smallest first, ties by the p-value before adjustment, the
+// empty segments last (in their order). The tie-break matters: Holm's and
+// Hochberg's adjusted values reach 1 for most segments of a large
+// breakdown, and a list or chart of "the smallest adjusted p-values" would
+// otherwise show those segments in row order rather than the closest
+// calls first.
 func (r Result) ByAdjustedP() []int {
 	return r.order(func(i, j int) int {
-		return cmp.Compare(r.Adjusted[i].AdjustedPValue, r.Adjusted[j].AdjustedPValue) // NaN sorts first in cmp.Compare
+		return cmp.Or(cmp.Compare(r.Adjusted[i].AdjustedPValue, r.Adjusted[j].AdjustedPValue), // NaN sorts first in cmp.Compare
+			cmp.Compare(r.Segments[i].PValue, r.Segments[j].PValue))
 	})
 }
 
