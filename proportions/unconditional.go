@@ -295,25 +295,54 @@ func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d Uncondition
 // error wrapping ErrTooLarge when the log-space search would exceed the
 // guard.
 func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat, logBound float64, err error) {
-	var reg region
-	switch d.Statistic {
-	case FisherPValue:
-		var lf float64
-		reg, lf = fisherRegionContext(ctx, c, side)
-		stat = math.Exp(lf)
-	default:
-		reg, stat = zRegionContext(ctx, c, delta, d.Statistic == PooledScore, side)
-	}
-	if err := ctx.Err(); err != nil {
-		return 0, 0, 0, 0, err
+	obs := observedStatistic(c, delta, d.Statistic, side)
+	stat = obs
+	if d.Statistic == FisherPValue {
+		stat = math.Exp(obs)
 	}
 	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
-	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
+	logp, nuisance, logBound, err = sideSupremum(ctx, guard, c.N1, c.N2, obs, delta, d.Statistic, side, a, b, nil)
+	return logp, nuisance, stat, logBound, err
+}
+
+// observedStatistic is what a side's region depends on: the z statistic
+// for the z orderings, the log of the Fisher p-value for Boschloo's.
+func observedStatistic(c Counts, delta float64, stat OrderingStatistic, side regionSide) float64 {
+	if stat == FisherPValue {
+		return fisherObserved(c, side)
+	}
+	return zObserved(c, delta, stat == PooledScore)
+}
+
+// sideSupremum builds the region of the tables at least as extreme as the
+// observed statistic obs and returns the log of its largest tail over the
+// nuisance range [a, b], where it is attained, and the log of the proven
+// bound. It is the whole computation of one side of a test after the
+// observed statistic, so outcomes with equal statistics get equal results
+// (the window decisions rely on it). work, when not nil, is scratch reused
+// between calls of one design.
+func sideSupremum(ctx context.Context, guard Cost, n1, n2 int64, obs, delta float64, stat OrderingStatistic, side regionSide, a, b float64, work *tailWork) (logp, nuisance, logBound float64, err error) {
+	reg := regionAt(ctx, n1, n2, obs, delta, stat, side)
+	if err := ctx.Err(); err != nil {
+		return 0, 0, 0, err
+	}
+	if work == nil {
+		work = newTailWork(reg.n1, reg.n2)
+	}
+	s := nuisanceSearch{work: work, reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
 	logp, nuisance, logBound = s.provenSupremum()
 	if s.err != nil {
-		return 0, 0, 0, 0, s.err
+		return 0, 0, 0, s.err
 	}
-	return logp, nuisance, stat, logBound, nil
+	return logp, nuisance, logBound, nil
+}
+
+// regionAt builds a side's region for the observed statistic obs.
+func regionAt(ctx context.Context, n1, n2 int64, obs, delta float64, stat OrderingStatistic, side regionSide) region {
+	if stat == FisherPValue {
+		return fisherRegionAt(ctx, n1, n2, obs, side)
+	}
+	return zRegionAt(ctx, n1, n2, obs, delta, stat == PooledScore, side)
 }
 
 // nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0
