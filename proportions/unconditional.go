@@ -91,6 +91,7 @@ var BarnardTest = TestMethod{
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: PooledScore}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: PooledScore}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: PooledScore}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: PooledScore}),
 }
 
 // BarnardWaldTest is Barnard's unconditional exact test ordered by the unpooled
@@ -102,6 +103,7 @@ var BarnardWaldTest = TestMethod{
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: UnpooledWald}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: UnpooledWald}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: UnpooledWald}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: UnpooledWald}),
 }
 
 // BoschlooTest is Boschloo's unconditional exact test: tables are ordered by
@@ -117,6 +119,7 @@ var BoschlooTest = TestMethod{
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: FisherPValue}),
 }
 
 // BoschlooDoubledTest is Boschloo's test with the two-sided p-value taken as
@@ -127,6 +130,7 @@ var BoschlooDoubledTest = TestMethod{
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 }
 
 // NewUnconditionalTest builds an unconditional exact test as a TestMethod
@@ -150,6 +154,7 @@ func NewUnconditionalTest(d UnconditionalVariant) (TestMethod, error) {
 		Run:        unconditionalRunner(d),
 		RunContext: unconditionalContextRunner(d),
 		Cost:       unconditionalCoster(d),
+		Window:     unconditionalWindow(d),
 	}, nil
 }
 
@@ -326,10 +331,15 @@ func sideSupremum(ctx context.Context, guard Cost, n1, n2 int64, obs, delta floa
 	if err := ctx.Err(); err != nil {
 		return 0, 0, 0, err
 	}
+	return regionSupremum(ctx, guard, &reg, delta, a, b, work)
+}
+
+// regionSupremum is the nuisance search of sideSupremum on a built region.
+func regionSupremum(ctx context.Context, guard Cost, reg *region, delta, a, b float64, work *tailWork) (logp, nuisance, logBound float64, err error) {
 	if work == nil {
 		work = newTailWork(reg.n1, reg.n2)
 	}
-	s := nuisanceSearch{work: work, reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
+	s := nuisanceSearch{work: work, reg: reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
 	logp, nuisance, logBound = s.provenSupremum()
 	if s.err != nil {
 		return 0, 0, 0, s.err
