@@ -2,6 +2,7 @@ package planning
 
 import (
 	"context"
+	"github.com/propscope/propscope/proportions"
 	"testing"
 )
 
@@ -26,5 +27,28 @@ func BenchmarkExactPowerScore(b *testing.B) {
 		if _, err := ExactPower(context.Background(), d, scoreTest, 150, 150); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+func BenchmarkProbeSampleSizeBarnard(b *testing.B) {
+	d := NewPlan(Equality, 0.60, 0.75)
+	for range b.N {
+		res, err := ExactSampleSize(context.Background(), d, proportions.BarnardTest, Search{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportMetric(float64(res.First.N1), "n1")
+		b.ReportMetric(float64(res.Stable.N1), "stable")
+	}
+}
+func BenchmarkProbeSampleSizeBoschloo(b *testing.B) {
+	d := NewPlan(Equality, 0.60, 0.75)
+	for range b.N {
+		res, err := ExactSampleSize(context.Background(), d, proportions.BoschlooTest, Search{})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportMetric(float64(res.First.N1), "n1")
+		b.ReportMetric(float64(res.Stable.N1), "stable")
 	}
 }

@@ -171,6 +171,7 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
+	dc = dc.Remembering() // each size's critical value starts the next size's search
 	if err := guardScan(d, m, dc.Hypotheses, s, asym.N1); err != nil {
 		return ExactSampleSizeResult{}, err
 	}
@@ -288,6 +289,7 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 		return PowerCurve{}, err
 	}
 	grid.Basis = "exact power of " + m.Name
+	dc = dc.Remembering() // each size's critical value starts the next size's search
 	var cost proportions.Cost
 	costs := make([]float64, len(grid.Points))
 	for i, p := range grid.Points {
