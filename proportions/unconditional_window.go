@@ -173,15 +173,16 @@ func decideWindow(ctx context.Context, w OutcomeWindow, h Hypothesis, d Uncondit
 	sides, factor := windowSides(h, d)
 	out := make([]bool, w.Outcomes())
 	keys := make([]float64, len(out))
-	obs := make([]float64, len(out))
+	sorted := make([]float64, len(out))
 	a, b := nuisanceRange(c, h.Null, 0)
 	for _, side := range sides {
-		if err := windowStatistics(ctx, w, h.Null, d.Statistic, side, keys, obs); err != nil {
+		if err := windowStatistics(ctx, w, h.Null, d.Statistic, side, keys); err != nil {
 			return nil, err
 		}
 		p := sideProbe{ctx: ctx, guard: guard, n1: c.N1, n2: c.N2, delta: h.Null, stat: d.Statistic, side: side,
 			a: a, b: b, alpha: h.Alpha(), factor: factor, work: newTailWork(w.N1, w.N2), hintPi2: -1}
-		crit, ok, err := p.critical(keys, obs, memoryKey{side: side, null: h.Null, alpha: h.Alpha()}, m)
+		copy(sorted, keys)
+		crit, ok, err := p.critical(sorted, memoryKey{side: side, null: h.Null, alpha: h.Alpha()}, m)
 		if err != nil {
 			return nil, err
 		}
@@ -196,9 +197,8 @@ func decideWindow(ctx context.Context, w OutcomeWindow, h Hypothesis, d Uncondit
 }
 
 // windowStatistics fills, for every outcome of the window (row by row),
-// the observed statistic of a side and its key: larger keys are more
-// extreme (z, −z or |z| for the z orderings by side, −log p for Fisher's).
-func windowStatistics(ctx context.Context, w OutcomeWindow, delta float64, stat OrderingStatistic, side regionSide, keys, obs []float64) error {
+// the key of its observed statistic on a side (statisticKey).
+func windowStatistics(ctx context.Context, w OutcomeWindow, delta float64, stat OrderingStatistic, side regionSide, keys []float64) error {
 	i := 0
 	c := Counts{N1: int64(w.N1), N2: int64(w.N2)}
 	for x1 := w.X1From; x1 <= w.X1To; x1++ {
@@ -208,15 +208,17 @@ func windowStatistics(ctx context.Context, w OutcomeWindow, delta float64, stat 
 		c.X1 = int64(x1)
 		for x2 := w.X2From; x2 <= w.X2To; x2++ {
 			c.X2 = int64(x2)
-			o := observedStatistic(c, delta, stat, side)
-			obs[i], keys[i] = o, statisticKey(o, stat, side)
+			keys[i] = statisticKey(observedStatistic(c, delta, stat, side), stat, side)
 			i++
 		}
 	}
 	return nil
 }
 
-// statisticKey orders observed statistics: the larger, the more extreme.
+// statisticKey orders observed statistics: the larger, the more extreme
+// (z, −z or |z| for the z orderings by side, −log p for Fisher's). The
+// region of a side depends on the observed statistic only through its key
+// (through |z| on the two-sided side), and observedOf inverts it exactly.
 func statisticKey(obs float64, stat OrderingStatistic, side regionSide) float64 {
 	switch {
 	case stat == FisherPValue:
@@ -227,6 +229,14 @@ func statisticKey(obs float64, stat OrderingStatistic, side regionSide) float64 
 		return math.Abs(obs)
 	}
 	return obs
+}
+
+// observedOf returns an observed statistic with the given key.
+func observedOf(key float64, stat OrderingStatistic, side regionSide) float64 {
+	if stat == FisherPValue || side == sideLess {
+		return -key
+	}
+	return key
 }
 
 // sideProbe decides the outcomes of one statistic on one side.
@@ -314,85 +324,80 @@ func (p *sideProbe) exceedsOnGrid(reg *region) bool {
 }
 
 // critical returns the key of the least extreme statistic the test
-// rejects among keys (ok false when it rejects none), with obs the
-// observed statistic of each key.
-func (p *sideProbe) critical(keys, obs []float64, mk memoryKey, m *DecisionMemory) (float64, bool, error) {
-	cands := distinctByKey(keys, obs)
+// rejects among keys (ok false when it rejects none); it sorts keys.
+func (p *sideProbe) critical(keys []float64, mk memoryKey, m *DecisionMemory) (float64, bool, error) {
+	slices.Sort(keys)
+	cands := slices.Compact(keys) // ascending: the most extreme last
 	guess, ok := m.get(mk)
 	if ok {
 		p.hintPi2 = guess.pi2
 	} else {
 		guess.key = p.normalGuess()
 	}
-	// The first candidate no more extreme than the guess.
-	g, _ := slices.BinarySearchFunc(cands, guess.key, func(c candidate, k float64) int {
-		switch {
-		case c.key > k:
-			return -1
-		case c.key < k:
-			return 1
-		}
-		return 0
-	})
-	g = min(g, len(cands)-1)
-	last, err := p.boundary(cands, g)
+	// The most extreme candidate no more extreme than the guess.
+	g, found := slices.BinarySearch(cands, guess.key)
+	if !found {
+		g--
+	}
+	g = min(max(g, 0), len(cands)-1)
+	first, err := p.boundary(cands, g)
 	if err != nil {
 		return 0, false, err
 	}
-	e := memoryEntry{key: cands[max(last, 0)].key, pi2: p.hintPi2}
-	m.put(mk, e)
-	if last < 0 {
+	m.put(mk, memoryEntry{key: cands[min(first, len(cands)-1)], pi2: p.hintPi2})
+	if first == len(cands) {
 		return 0, false, nil
 	}
-	return cands[last].key, true, nil
+	return cands[first], true, nil
 }
 
-// boundary returns the last index of cands (most extreme first) the test
-// rejects, −1 for none: a galloping search away from the guess g, then
-// bisection.
-func (p *sideProbe) boundary(cands []candidate, g int) (int, error) {
-	lo, hi := -1, len(cands) // cands[lo] rejected, cands[hi] not (virtually at the ends)
-	r, err := p.rejects(cands[g].obs)
+// boundary returns the first index of cands (ascending keys, the most
+// extreme last) from which the test rejects, len(cands) for none: a
+// galloping search away from the guess g, then bisection.
+func (p *sideProbe) boundary(cands []float64, g int) (int, error) {
+	lo, hi := -1, len(cands) // cands[lo] not rejected, cands[hi] rejected (virtually at the ends)
+	at := func(i int) (bool, error) { return p.rejects(observedOf(cands[i], p.stat, p.side)) }
+	r, err := at(g)
 	if err != nil {
 		return 0, err
 	}
 	if r {
-		lo = g
-		for step := 1; lo+step < len(cands); step *= 2 {
-			if r, err = p.rejects(cands[lo+step].obs); err != nil {
+		hi = g
+		for step := 1; hi-step >= 0; step *= 2 {
+			if r, err = at(hi - step); err != nil {
 				return 0, err
 			}
 			if !r {
-				hi = lo + step
-				break
-			}
-			lo += step
-		}
-	} else {
-		hi = g
-		for step := 1; hi-step >= 0; step *= 2 {
-			if r, err = p.rejects(cands[hi-step].obs); err != nil {
-				return 0, err
-			}
-			if r {
 				lo = hi - step
 				break
 			}
 			hi -= step
 		}
+	} else {
+		lo = g
+		for step := 1; lo+step < len(cands); step *= 2 {
+			if r, err = at(lo + step); err != nil {
+				return 0, err
+			}
+			if r {
+				hi = lo + step
+				break
+			}
+			lo += step
+		}
 	}
 	for hi-lo > 1 {
 		mid := lo + (hi-lo)/2
-		if r, err = p.rejects(cands[mid].obs); err != nil {
+		if r, err = at(mid); err != nil {
 			return 0, err
 		}
 		if r {
-			lo = mid
-		} else {
 			hi = mid
+		} else {
+			lo = mid
 		}
 	}
-	return lo, nil
+	return hi, nil
 }
 
 // normalGuess is the key of the normal approximation's critical value.
@@ -405,29 +410,6 @@ func (p *sideProbe) normalGuess() float64 {
 		return -math.Log(p.alpha / p.factor)
 	}
 	return special.NormalQuantile(1 - a)
-}
-
-// candidate is one distinct key with the observed statistic of an
-// outcome that has it.
-type candidate struct{ key, obs float64 }
-
-// distinctByKey returns the distinct keys, most extreme first, each with
-// an observed statistic that has it.
-func distinctByKey(keys, obs []float64) []candidate {
-	c := make([]candidate, len(keys))
-	for i := range keys {
-		c[i] = candidate{keys[i], obs[i]}
-	}
-	slices.SortFunc(c, func(x, y candidate) int {
-		switch {
-		case x.key > y.key:
-			return -1
-		case x.key < y.key:
-			return 1
-		}
-		return 0
-	})
-	return slices.CompactFunc(c, func(x, y candidate) bool { return x.key == y.key })
 }
 
 // windowCost estimates decideWindow: the statistic of every outcome of
