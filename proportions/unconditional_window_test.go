@@ -41,7 +41,8 @@ func checkWindow(t *testing.T, m TestMethod, w OutcomeWindow, h Hypothesis, mem 
 	return i
 }
 
-// TestWindowMatchesRunSmall: on every design up to 9 per group, every
+// TestWindowMatchesRunSmall: on every design with n1 ≤ n2 ≤ 8 (the larger
+// test has the other orientation), every
 // test with a window decider, every alternative, two levels and the test's
 // nulls, the window's decisions equal Run's at every outcome (brute force:
 // one nuisance search per outcome).
@@ -53,8 +54,8 @@ func TestWindowMatchesRunSmall(t *testing.T) {
 				for _, level := range []float64{0.95, 0.9} {
 					h := Hypothesis{Null: null, Alternative: alt, Conf: Confidence{Level: level}}
 					mem := &DecisionMemory{} // shared across the designs, as a scan does
-					for n1 := 1; n1 <= 9; n1++ {
-						for n2 := 1; n2 <= 9; n2++ {
+					for n1 := 1; n1 <= 8; n1++ {
+						for n2 := n1; n2 <= 8; n2++ {
 							w := OutcomeWindow{N1: n1, N2: n2, X1To: n1, X2To: n2}
 							total += checkWindow(t, wt.m, w, h, mem)
 						}
@@ -72,9 +73,9 @@ func TestWindowMatchesRunLarger(t *testing.T) {
 	if testing.Short() {
 		t.Skip("brute force over larger designs")
 	}
-	designs := [][2]int{{20, 20}, {17, 31}, {40, 25}, {36, 36}}
+	designs := [][2]int{{17, 31}, {30, 24}}
 	for _, wt := range windowTests {
-		for _, null := range wt.nulls[:min(2, len(wt.nulls))] {
+		for _, null := range wt.nulls[len(wt.nulls)-1:] {
 			for _, alt := range []Alternative{TwoSided, Greater} {
 				h := Hypothesis{Null: null, Alternative: alt, Conf: Confidence{Level: 0.95}}
 				mem := &DecisionMemory{}
