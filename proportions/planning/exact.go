@@ -43,7 +43,12 @@ type ExactPowerResult struct {
 //
 // b the binomial probability, by running the test on every outcome (tails of
 // total probability below 10⁻¹⁶ left out) with the operating-characteristics
-// engine (operating.Decision.Power). Plan.Power, Allocation,
+// engine (operating.Decision.Power). Barnard's and Boschloo's tests decide
+// those outcomes at once through their window decider
+// (proportions.TestMethod.Window: one search for the critical value
+// instead of one nuisance search per outcome, with the same decisions);
+// ExactSampleSize and ExactPowerByTrials also carry each size's critical
+// value to the next size. Plan.Power, Allocation,
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
 // its own statistic). Errors wrap the sentinels of SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the

@@ -3,7 +3,9 @@ package planning
 import (
 	"context"
 	"testing"
+	"time"
 
+	"github.com/propscope/propscope/internal/canceltest"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -41,4 +43,14 @@ func TestExactPlanningWindowMatchesPerOutcome(t *testing.T) {
 		}
 		t.Logf("%s %s: n1 = %d, %d sizes compared", tc.m.Key, tc.plan.Goal, fast.First.N1, len(fast.Curve.Points))
 	}
+}
+
+// ExactSampleSize with Boschloo's test (window decider) returns within
+// 100 ms of a cancel, the best of three attempts.
+func TestExactSampleSizeWindowCancel(t *testing.T) {
+	d := NewPlan(Equality, 0.30, 0.37)
+	canceltest.Check(t, 100*time.Millisecond, func(ctx context.Context) error {
+		_, err := ExactSampleSize(ctx, d, proportions.BoschlooTest, Search{From: 500})
+		return err
+	})
 }
