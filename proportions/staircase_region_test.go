@@ -16,7 +16,9 @@ func TestStaircaseRegion(t *testing.T) {
 	for _, d := range designs {
 		n1, n2 := d[0], d[1]
 		for _, delta := range deltas {
-			z := func(x1, x2 int) float64 { return exactScoreZ(float64(x1), float64(n1), float64(x2), float64(n2), delta) }
+			z := func(x1, x2 int) float64 {
+				return exactScoreZ(float64(x1), float64(n1), float64(x2), float64(n2), delta)
+			}
 			// Thresholds: the statistics of a spread of tables (ties with
 			// other tables included) and 0.
 			var obs []float64
