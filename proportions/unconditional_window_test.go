@@ -43,8 +43,9 @@ func checkWindow(t *testing.T, m TestMethod, w OutcomeWindow, h Hypothesis, mem 
 
 // TestWindowMatchesRunSmall: on every design with n1 ≤ n2 ≤ 8 (the larger
 // test has the other orientation), every test with a window decider,
-// every alternative, the test's nulls, and levels 95% and 90% by turns, the window's decisions equal Run's at every outcome (brute force:
-// one nuisance search per outcome).
+// every alternative, the test's nulls, and levels 95% and 90% by turns,
+// the window's decisions equal Run's at every outcome (brute force: one
+// nuisance search per outcome).
 func TestWindowMatchesRunSmall(t *testing.T) {
 	total := 0
 	for _, wt := range windowTests {
