@@ -240,7 +240,9 @@ type RejectionRegion struct {
 }
 
 // NewRejectionRegion runs the decision on every outcome of the design,
-// on every core. It reads WithProgress (rows done out of n1+1) and
+// on every core; a test with a window decider (Barnard's and Boschloo's,
+// proportions.TestMethod.Window) decides them all at once instead, with
+// the same decisions and a progress report at the end. It reads WithProgress (rows done out of n1+1) and
 // WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
 // tests that search a nuisance parameter at each outcome make this slow at
 // large n; their TrialLimit is a guide.
