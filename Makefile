@@ -1,6 +1,11 @@
 # propscope: developer and CI entry points. `make help` lists them.
 SHELL := /bin/bash
 GO ?= go
+# When make started, for the elapsed times of scripts/step.sh's progress
+# lines (each long step prints one line as it starts and one as it ends).
+PROPSCOPE_T0 := $(or $(PROPSCOPE_T0),$(shell date +%s))
+export PROPSCOPE_T0
+STEP := scripts/step.sh
 
 .PHONY: help notebook reports setup test go-test notebook-test bench bench-analysis bench-coverage bench-charts bench-exact
 help:
@@ -17,17 +22,22 @@ setup: ## install Jupyter, Chromium, GoNB and its tools (.bin/) and the kernel (
 	scripts/setup-notebooks.sh
 
 test: go-test notebook-test ## every test (the README's test command; .ci/run calls it)
+	@echo "make test [done] screenshots: $(CURDIR)/e2e/out/*.png and $(CURDIR)/e2e/out/charts/*.png; executed notebooks and their HTML reports: $(CURDIR)/e2e/out/"
 
 go-test: ## Go unit tests, examples and fuzz seed corpora
-	$(GO) vet ./...
-	$(GO) test -count=1 ./...
+	@$(STEP) "go vet" $(GO) vet ./...
+	@$(STEP) "Go tests, one line per package (about 5 min on 2 cores)" $(GO) test -count=1 ./...
 
 # Executing notebooks needs no gopls (only editing help does), so the tests
 # skip its build. `go mod tidy` keeps e2e/go.sum in step with the library's
 # dependencies (e2e replaces the library with ../).
+# The browser tests run with no package argument, so that go test streams
+# their progress lines (one per notebook) instead of holding them to the end.
 notebook-test: ## execute every notebook and check it in headless Chromium (screenshots in e2e/out/)
-	PROPSCOPE_SKIP_GOPLS=1 scripts/setup-notebooks.sh
-	cd e2e && $(GO) mod tidy && $(GO) vet ./... && $(GO) test -count=1 -timeout 40m ./...
+	@$(STEP) "notebook tools: Jupyter and Chromium (apt, first run only), GoNB (a minute to build the first time)" scripts/setup-notebooks.sh
+	@cd e2e && ../$(STEP) "e2e: go mod tidy and go vet" bash -c '$(GO) mod tidy && $(GO) vet ./...'
+	@cd e2e && ../$(STEP) "e2e helper packages" $(GO) test -count=1 ./nbrun/... ./cmd/...
+	@cd e2e && ../$(STEP) "browser tests: every notebook executed and read in Chromium (a few minutes)" $(GO) test -count=1 -timeout 40m
 
 bench: ## benchmarks of the numerical core
 	$(GO) test -run '^$$' -bench . -benchmem ./proportions/...

@@ -20,8 +20,10 @@ import (
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // chartsDir is where chart pages and screenshots go (e2e/out/charts).
@@ -158,8 +160,46 @@ func (b *offlineBrowser) tooltip(t *testing.T, chart, series, item int) string {
 	return text
 }
 
-// screenshot writes a PNG of chart i's figure (the i-th on the page).
+// tooltipVisibleJS reports whether any chart on the page shows a tooltip.
+const tooltipVisibleJS = `[...document.querySelectorAll('[data-propscope-chart] div')].some(function (d) {
+  return d.style && d.style.zIndex && d.style.display !== 'none' && d.style.opacity !== '0' && d.style.visibility !== 'hidden' && d.innerText;
+})`
+
+// hideTips hides every chart's tooltip and waits until none shows, so a
+// screenshot shows the plot as a reader first sees it.
+func (b *offlineBrowser) hideTips(t *testing.T) {
+	t.Helper()
+	hide := `document.querySelectorAll('[data-propscope-chart]').forEach(function (el) {
+  var c = echarts.getInstanceByDom(el);
+  if (c) { c.dispatchAction({type: 'hideTip'}); }
+}); true`
+	if _, err := chromedp.Run(b.ctx, chromedp.Evaluate[bool](hide)); err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithTimeout(b.ctx, 5*time.Second)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool]("!("+tooltipVisibleJS+")", chromedp.WithPollingTimeout(4*time.Second))); err != nil {
+		t.Errorf("a tooltip still covers the plot: %v", err)
+	}
+}
+
+// screenshot writes a PNG of chart i's figure (the i-th on the page),
+// with no tooltip over it (tooltipShot keeps the tooltip).
 func (b *offlineBrowser) screenshot(t *testing.T, chart int, path string) {
+	t.Helper()
+	b.hideTips(t)
+	b.shoot(t, chart, path)
+}
+
+// tooltipShot writes a PNG of chart i's figure with the tooltip of its
+// middle data item showing.
+func (b *offlineBrowser) tooltipShot(t *testing.T, chart int, path string) {
+	t.Helper()
+	b.tooltip(t, chart, 0, -1)
+	b.shoot(t, chart, path)
+}
+
+func (b *offlineBrowser) shoot(t *testing.T, chart int, path string) {
 	t.Helper()
 	mark := fmt.Sprintf(`(function () {
   var f = document.querySelectorAll('figure.propscope-chart')[%d];
@@ -231,7 +271,33 @@ func analysisCharts(t *testing.T, a proportions.Analysis) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}}
+	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}, {"forest", strataForest(t, a.Comparison)}}
+}
+
+// strataForest is the forest chart of the comparison split into two
+// blocks, the second named after the first group (so hostile labels reach
+// the block values too), plus a block that lost its second group.
+func strataForest(t *testing.T, c proportions.Comparison) *notebookui.Chart {
+	t.Helper()
+	x1, n1, x2, n2 := c.First.Events, c.First.Trials, c.Second.Events, c.Second.Trials
+	b, err := proportions.NewBreakdown("block", proportions.Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event},
+		[]proportions.BreakdownRow{
+			{Value: "north", Counts: proportions.Counts{X1: x1 / 2, N1: n1 / 2, X2: x2 / 2, N2: n2 / 2}},
+			{Value: "south " + c.First.Label, Counts: proportions.Counts{X1: x1 - x1/2, N1: n1 - n1/2, X2: x2 - x2/2, N2: n2 - n2/2}},
+			{Value: "flooded", Counts: proportions.Counts{X1: 3, N1: 8}},
+		})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := strata.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := notebookui.StrataForestChart(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
 }
 
 // bayesView is the Bayesian analysis of the comparison with the default
@@ -305,7 +371,27 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff}}
+	sp := simulate.NewPlan(8, 20, 0.8, 0.7, 0)
+	sp.Studies, sp.By = 500, "tray"
+	sweep, err := simulate.Sweep(ctx, sp, []float64{0, 0.05, 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	simulated, err := notebookui.SimulatedCoverageChart(sweep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid, err := planning.ClusteredPowerByClusters(planning.NewPlan(planning.Equality, 0.8, 0.65), 0.05, 0.3,
+		[]float64{5, 20, 60}, []int64{4, 6, 8, 10, 12, 16, 20, 24, 32, 40, 48})
+	if err != nil {
+		t.Fatal(err)
+	}
+	clustered, err := notebookui.ClusteredPowerChart(grid)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff},
+		{"simulated-coverage", simulated}, {"clustered-power", clustered}}
 }
 
 // TestChartsDrawOffline writes each chart as a standalone page, opens it in
@@ -328,9 +414,19 @@ func TestChartsDrawOffline(t *testing.T) {
 		if tip := b.tooltip(t, 0, 0, -1); !strings.ContainsAny(tip, "0123456789") || !strings.ContainsAny(tip, "%p") {
 			t.Errorf("%s: tooltip %q shows no numbers", nc.name, tip)
 		}
+		// The caption under the chart starts where the chart's title does
+		// (12 px in), not at the figure's edge.
+		inset, err := chromedp.Run(b.ctx, chromedp.Evaluate[float64](`(() => { const f = document.querySelector('figure.propscope-chart');
+  const p = f.querySelector('figcaption p, figcaption summary'); return p.getBoundingClientRect().left - f.getBoundingClientRect().left; })()`))
+		if err != nil || inset < 11 || inset > 13 {
+			t.Errorf("%s: the caption starts %v px into the figure, want the title's 12 (%v)", nc.name, inset, err)
+		}
 		shot := filepath.Join(dir, nc.name+".png")
 		b.screenshot(t, 0, shot)
 		t.Logf("screenshot: %s", shot)
+		tip := filepath.Join(dir, nc.name+"-tooltip.png")
+		b.tooltipShot(t, 0, tip)
+		t.Logf("screenshot with a tooltip: %s", tip)
 	}
 	b.offline(t)
 }

@@ -1,6 +1,6 @@
 module github.com/propscope/propscope/e2e
 
-go 1.25
+go 1.26.0
 
 replace github.com/propscope/propscope => ../
 

@@ -11,10 +11,13 @@ package e2e
 import (
 	"context"
 	"encoding/json"
+	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/propscope/propscope/e2e/nbrun"
 )
@@ -31,7 +34,26 @@ func TestMain(m *testing.M) {
 	if err := os.MkdirAll(outDir, 0o755); err != nil {
 		panic(err)
 	}
-	os.Exit(m.Run())
+	code := m.Run()
+	abs, _ := filepath.Abs(outDir)
+	progress("screenshots, executed notebooks and their HTML reports are in %s (charts in %s)", abs, filepath.Join(abs, "charts"))
+	os.Exit(code)
+}
+
+// testStart is when the browser tests started, for progress lines.
+var testStart = time.Now()
+
+// progress prints one line of progress to stderr, which go test passes on
+// as it comes when run with no package argument (make notebook-test), with
+// the time since PROPSCOPE_T0 (set by the Makefile when make started) or
+// else since these tests started.
+func progress(format string, args ...any) {
+	since := testStart
+	if t0, err := strconv.ParseInt(os.Getenv("PROPSCOPE_T0"), 10, 64); err == nil {
+		since = time.Unix(t0, 0)
+	}
+	d := time.Since(since).Round(time.Second)
+	fmt.Fprintf(os.Stderr, "make test [%02d:%02d] %s\n", int(d.Minutes()), int(d.Seconds())%60, fmt.Sprintf(format, args...))
 }
 
 func repoRoot(t *testing.T) string {
@@ -90,6 +112,10 @@ func TestNotebooks(t *testing.T) {
 // execute runs a notebook into outDir and fails the test on cell errors.
 func execute(t *testing.T, root, notebook string) nbrun.Result {
 	t.Helper()
+	name := filepath.Base(notebook)
+	progress("executing %s ...", name)
+	start := time.Now()
+	defer func() { progress("%s: executed and exported in %s", name, time.Since(start).Round(time.Second)) }()
 	r, err := nbrun.Run(context.Background(), root, notebook, outDir)
 	if err != nil {
 		t.Fatal(err)
@@ -165,5 +191,19 @@ func genericChecks(t *testing.T, ctx context.Context) {
 		.filter(c => !c.querySelector('[data-role="difference"]') || c.querySelector('[data-role="difference"]').innerText.trim() === "").length`)
 	if empty > 0 {
 		t.Errorf("%d result cards have no headline difference", empty)
+	}
+	// No "Loading [MathJax]" badge over the content of the report or its
+	// screenshots (the exports leave MathJax out, see nbrun.ExportHTML).
+	if badge := eval[bool](t, ctx, `(() => { const m = document.getElementById('MathJax_Message');
+		return !!window.MathJax || (!!m && m.offsetParent !== null && m.innerText.trim() !== ""); })()`); badge {
+		t.Error("the page loads MathJax or shows its loading badge")
+	}
+	// Code cells are read, not scrolled: no line of the setup cell (the
+	// first code cell) runs off the right edge at the test's width.
+	wide := eval[[]string](t, ctx, `[...document.querySelectorAll('.jp-InputArea-editor pre, .input_area pre, div.highlight pre')].slice(0, 1)
+		.filter(p => p.scrollWidth > p.clientWidth + 1 || p.getBoundingClientRect().right > document.documentElement.clientWidth + 1)
+		.map(p => p.innerText.split("\n").sort((a, b) => b.length - a.length)[0])`)
+	if len(wide) > 0 {
+		t.Errorf("the setup cell runs off the right edge: %q", wide)
 	}
 }

@@ -46,7 +46,7 @@ func (c BayesCard) view() bayesView {
 	}
 	lvl := strconv.FormatFloat(100*a.Level, 'g', 4, 64) + "%"
 	v := bayesView{Title: title, Prior: a.PriorText(), Caution: a.Caution,
-		ErrorNote:       fmt.Sprintf("Computed by exact sums and numerical integration, not simulated; largest error estimate of the probabilities %.1g.", a.ErrorBound),
+		ErrorNote:       fmt.Sprintf("Computed by exact sums and numerical integration, not simulated; largest error estimate of the probabilities %s.", sci(a.ErrorBound, 1)),
 		EffectHead:      []string{"Effect", "Median", lvl + " equal-tailed", lvl + " highest-density"},
 		SensitivityHead: []string{"Prior", "P(first higher)", "Difference", lvl + " equal-tailed"},
 	}
@@ -86,13 +86,13 @@ var bayesTemplate = template.Must(template.New("bayes").Parse(`<section class="p
 <div class="ps-scroll"><table class="ps-t">
 <thead><tr>{{range .EffectHead}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Effects}}
-<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n" data-label="{{index $.EffectHead $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 <h4 class="ps-h">Under other priors</h4>
 <div class="ps-scroll"><table class="ps-t">
 <thead><tr>{{range .SensitivityHead}}<th scope="col">{{.}}</th>{{end}}</tr></thead>
 <tbody>{{range .Sensitivity}}
-<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
+<tr>{{range $i, $c := .Cells}}{{if eq $i 0}}<th scope="row">{{$c}}</th>{{else}}<td class="ps-n" data-label="{{index $.SensitivityHead $i}}">{{$c}}</td>{{end}}{{end}}</tr>{{end}}
 </tbody></table></div>
 <p class="ps-muted ps-small">{{.ErrorNote}}</p>
 <p class="ps-caution"><strong>Before acting on this:</strong> {{.Caution}}</p>

@@ -14,16 +14,25 @@ import (
 // says (its aria-label spells it out), so nothing rests on the picture or
 // its colour.
 type strip struct {
-	Label                          string // accessible description
-	X1, X2, XEst, XNull            string // positions in the 400-wide viewBox
+	Label string // accessible description
+	// X1, X2, XEst and XNull are positions in percent of the strip's
+	// width: the strip spans the card, and its text keeps its size in
+	// pixels at any width (no viewBox scales it down on a phone).
+	X1, X2, XEst, XNull            string
 	LowerText, UpperText, NullText string
 	// LowerAnchor and UpperAnchor keep limit labels apart when the
 	// interval is narrow.
 	LowerAnchor, UpperAnchor string
 }
 
-// stripLeft and stripRight are the ends of the axis in the viewBox.
-const stripLeft, stripRight = 24.0, 376.0
+// stripLeft and stripRight are the ends of the axis, in percent of the
+// strip's width, leaving room for the end labels.
+const stripLeft, stripRight = 10.0, 90.0
+
+// stripNarrow is the interval's length, in percent of the width, below
+// which its two limit labels go outside its ends rather than centred on
+// them, so that they never overlap even on a 218-pixel screen.
+const stripNarrow = 30.0
 
 func stripOf(a proportions.Analysis) *strip {
 	lo, hi, est, null := a.Interval.Lower, a.Interval.Upper, a.Difference, a.Null
@@ -41,13 +50,13 @@ func stripOf(a proportions.Analysis) *strip {
 		LowerText: points(lo, 1), UpperText: points(hi, 1), NullText: points(null, 1),
 		LowerAnchor: "middle", UpperAnchor: "middle",
 	}
-	if x(hi)-x(lo) < 70 {
+	if x(hi)-x(lo) < stripNarrow {
 		s.LowerAnchor, s.UpperAnchor = "end", "start"
 	}
 	return s
 }
 
-func coord(v float64) string { return strconv.FormatFloat(v, 'f', 1, 64) }
+func coord(v float64) string { return strconv.FormatFloat(v, 'f', 2, 64) + "%" }
 
 func anyNaN(vs ...float64) bool {
 	for _, v := range vs {

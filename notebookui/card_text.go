@@ -24,6 +24,9 @@ func renderText(v cardView) string {
 		b.WriteString("\nTests\n")
 		b.WriteString(wrap(v.Hypothesis, "  ", textWidth))
 		b.WriteString(textTable(testCells(v.Tests), "  "))
+		for _, n := range v.StatNotes {
+			b.WriteString(wrap(n, "  ", textWidth))
+		}
 	}
 	if v.Conclusion != "" {
 		b.WriteString("\nWhat the data say\n")
@@ -32,7 +35,7 @@ func renderText(v cardView) string {
 	if len(v.Warnings) > 0 {
 		b.WriteString("\nWarnings\n")
 		for _, w := range v.Warnings {
-			b.WriteString(wrap("- Warning: "+w, "    ", textWidth)[2:])
+			b.WriteString(wrap("- "+w, "    ", textWidth)[2:])
 		}
 	}
 	if v.NotRun != "" {
@@ -72,6 +75,9 @@ func renderMarkdown(v cardView) string {
 	if len(v.Tests) > 0 {
 		fmt.Fprintf(&b, "\n#### Tests\n\n%s\n\n", e(v.Hypothesis))
 		b.WriteString(mdTable(testCells(v.Tests)))
+		for _, n := range v.StatNotes {
+			fmt.Fprintf(&b, "\n%s\n", e(n))
+		}
 	}
 	if v.Conclusion != "" {
 		fmt.Fprintf(&b, "\n#### What the data say\n\n%s\n", e(v.Conclusion))
@@ -79,7 +85,7 @@ func renderMarkdown(v cardView) string {
 	if len(v.Warnings) > 0 {
 		b.WriteString("\n#### Warnings\n\n")
 		for _, w := range v.Warnings {
-			fmt.Fprintf(&b, "- **Warning:** %s\n", e(w))
+			fmt.Fprintf(&b, "- %s\n", e(w))
 		}
 	}
 	if v.NotRun != "" {

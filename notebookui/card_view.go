@@ -2,7 +2,6 @@ package notebookui
 
 import (
 	"fmt"
-	"strconv"
 	"strings"
 	"unicode"
 	"unicode/utf8"
@@ -29,6 +28,8 @@ type cardView struct {
 	Groups     groupTable
 	Hypothesis string
 	Tests      []testRow
+	// StatNotes say in words why a statistic shows a dash or "unbounded".
+	StatNotes  []string
 	Conclusion string
 	Warnings   []string
 	NotRun     string // which methods the analysis's scope left out, or ""
@@ -126,6 +127,7 @@ func (c ResultCard) view() cardView {
 		Groups:     groupsOf(a),
 		Hypothesis: hypothesis(a),
 		Tests:      testsOf(a),
+		StatNotes:  statisticNotes(a.Tests),
 		Conclusion: a.Conclusion,
 		Caution:    a.Caution,
 	}
@@ -159,8 +161,8 @@ func verdict(a proportions.Analysis) string {
 	if s := statistic(t); s != "—" {
 		stat = s + ", "
 	}
-	return fmt.Sprintf("%s: %sp = %s; %s at the %s level.", t.MethodName, stat,
-		proportions.FormatP(t.PValue, t.LogPValue), decision(a, t), levelText(1-t.Level))
+	return fmt.Sprintf("%s: %s%s; %s at the %s level.", t.MethodName, stat,
+		pClause(t.PValue), decision(a, t), levelText(1-t.Level))
 }
 
 // decision words a test's outcome; it never says "accept".
@@ -232,7 +234,7 @@ func testsOf(a proportions.Analysis) []testRow {
 		rows = append(rows, testRow{
 			Name:      t.MethodName,
 			Statistic: statistic(t),
-			P:         proportions.FormatP(t.PValue, t.LogPValue),
+			P:         pValue(t.PValue),
 			Decision:  decision(a, t),
 			Headline:  t.Method == a.Test.Method && a.Test.Method != "",
 		})
@@ -366,7 +368,7 @@ func boundsOf(a proportions.Analysis) []string {
 			continue
 		}
 		out = append(out, fmt.Sprintf("%s: p = %s, proven bound %s", t.MethodName,
-			proportions.FormatP(t.PValue, t.LogPValue), strconv.FormatFloat(*t.PValueBound, 'g', 12, 64)))
+			sci(t.PValue, 10), sci(*t.PValueBound, 10)))
 	}
 	return out
 }

@@ -216,15 +216,26 @@ const chartRuntime = `(function () {
       return {"&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;"}[c];
     });
   };
-  var num = function (v, d) { return (typeof v === "number" && isFinite(v)) ? v.toFixed(d) : String(v); };
-  var pct = function (v, d) { return (typeof v === "number" && isFinite(v)) ? (v * 100).toFixed(d === undefined ? 2 : d) + "%%" : String(v); };
+  // Numbers follow the number style of format.go: the typographic minus,
+  // signed differences, fixed decimals, "< 0.0001" for small p-values.
+  var minus = function (t) { return String(t).replace("-", "\u2212"); };
+  var num = function (v, d) { return (typeof v === "number" && isFinite(v)) ? minus(v.toFixed(d)) : String(v); };
+  var pct = function (v, d) { return (typeof v === "number" && isFinite(v)) ? minus((v * 100).toFixed(d === undefined ? 2 : d)) + "%%" : String(v); };
+  var signed = function (x, d) {
+    var s = Math.abs(x).toFixed(d);
+    if (Number(s) === 0) { return s; }
+    return (x > 0 ? "+" : "\u2212") + s;
+  };
   var pp = function (v, d) {
     if (typeof v !== "number" || !isFinite(v)) { return String(v); }
-    var s = Math.abs(v * 100).toFixed(d === undefined ? 2 : d);
-    return (v > 0 ? "+" : (v < 0 ? "\u2212" : "")) + s + " pp";
+    return signed(v * 100, d === undefined ? 2 : d) + " pp";
   };
-  var axisPct = function (v) { return Math.round(v * 1000) / 10 + "%%"; };
-  var axisPP = function (v) { var r = Math.round(v * 1000) / 10; return (r > 0 ? "+" : "") + r; };
+  var pval = function (v) {
+    if (typeof v !== "number" || !isFinite(v)) { return String(v); }
+    return v < 0.00005 ? "< 0.0001" : Math.min(v, 1).toFixed(4);
+  };
+  var axisPct = function (v) { return minus(Math.round(v * 1000) / 10) + "%%"; };
+  var axisPP = function (v) { var r = Math.round(v * 1000) / 10; return r === 0 ? "0" : (r > 0 ? "+" : "\u2212") + Math.abs(r); };
   var option = function () { return %s; };
   var light = function (color) {
     var m = /rgba?\((\d+),\s*(\d+),\s*(\d+)/.exec(color || "");
@@ -281,7 +292,8 @@ func (c *Chart) HTML() string {
 	fmt.Fprintf(&b, `<div id="%s" data-propscope-chart="%s" role="img" aria-label="%s" style="width:100%%;height:%dpx;"></div>`,
 		c.id, c.id, html.EscapeString(c.ariaLabel()), c.height)
 	if len(c.notes) > 0 || len(c.table.Rows) > 0 {
-		b.WriteString(`<figcaption style="font-size:0.9em;line-height:1.4;">`)
+		// The caption starts where the chart's title does (chartInset).
+		fmt.Fprintf(&b, `<figcaption style="font-size:0.9em;line-height:1.4;padding:0 %dpx;">`, chartInset)
 		for _, n := range c.notes {
 			b.WriteString(`<p style="margin:0.3em 0;">` + html.EscapeString(n) + `</p>`)
 		}

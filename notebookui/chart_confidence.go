@@ -159,7 +159,7 @@ func round12(v float64) float64 { return math.Round(v*1e12) / 1e12 }
 // curveTooltip shows δ and the p-value under the pointer.
 const curveTooltip = `function (ps) {
   var p = ps[0];
-  return 'difference ' + pp(p.value[0]) + '<br>' + esc(p.seriesName) + ': ' + (typeof p.value[1] === 'number' ? p.value[1].toPrecision(4) : p.value[1]);
+  return 'difference ' + pp(p.value[0]) + '<br>' + esc(p.seriesName) + ': ' + 'p = ' + pval(p.value[1]);
 }`
 
 // ConfidenceCurveChart draws the confidence curve (p-value function) of the
@@ -240,7 +240,7 @@ func ConfidenceCurveChartFrom(cc ConfidenceCurve, cmp proportions.Comparison, op
 				verticalLine(cc.Lower, "lower", ColorBlue, "dotted", "lower "+fmtPP(cc.Lower), "insideMiddleBottom"),
 				verticalLine(cc.Upper, "upper", ColorBlue, "dotted", "upper "+fmtPP(cc.Upper), "insideMiddleTop"),
 				verticalLine(cc.Null, "null", ColorGrey, "dashed",
-					nullName(cc.Null)+": p = "+proportions.FormatP(cc.NullPValue, cc.NullLogPValue), "insideEndTop"),
+					nullName(cc.Null)+": "+pClause(cc.NullPValue), "insideEndTop"),
 			},
 		},
 	}
@@ -262,7 +262,7 @@ func ConfidenceCurveChartFrom(cc ConfidenceCurve, cmp proportions.Comparison, op
 			{"test", cc.MethodName},
 			{"estimate " + first + " − " + second, fmtPP(cc.Estimate)},
 			{ivLabel + " (where p > " + fmtP(alpha) + ")", fmtPP(cc.Lower) + " to " + fmtPP(cc.Upper)},
-			{"p-value at " + nullName(cc.Null) + " (" + fmtPP(cc.Null) + ")", proportions.FormatP(cc.NullPValue, cc.NullLogPValue)},
+			{"p-value at " + nullName(cc.Null) + " (" + fmtPP(cc.Null) + ")", pValue(cc.NullPValue)},
 		},
 	}
 	notes := []string{fmt.Sprintf("Differences inside the shaded band are compatible with the data at the %s level; "+

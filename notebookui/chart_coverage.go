@@ -77,16 +77,16 @@ func CoverageMapChart(s *operating.Surface, options ...ChartOption) (*Chart, err
 	set := newChartSettings(options)
 	nominal := s.Design.Level
 	sum := s.Summary()
-	title := fmt.Sprintf("Exact coverage of %s over all true rates", s.MethodName)
+	title := fmt.Sprintf("Exact coverage of %s %s", s.MethodName, gridWords(s.Pi1, s.Pi2))
 	subtitle := fmt.Sprintf("%d and %d units per group, nominal %s; each cell is one pair (π1, π2)", s.Design.N1, s.Design.N2, fmtLevel(nominal))
 
 	xs := make([]string, len(s.Pi1))
 	for i, v := range s.Pi1 {
-		xs[i] = strconv.FormatFloat(100*v, 'g', 4, 64)
+		xs[i] = gridValue(v)
 	}
 	ys := make([]string, len(s.Pi2))
 	for j, v := range s.Pi2 {
-		ys[j] = strconv.FormatFloat(100*v, 'g', 4, 64)
+		ys[j] = gridValue(v)
 	}
 	data := make([][]float64, 0, len(s.Coverage))
 	minI, minJ := -1, -1
@@ -245,13 +245,17 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 		}
 		if i == 0 {
 			line["markArea"] = map[string]any{"silent": true, "itemStyle": map[string]any{"color": "rgba(0,0,0,0.07)"},
-				"label": map[string]any{"position": "insideTopLeft", "color": "#444444"},
+				// The band is named in the note, not on the plot,
+				// where its label would sit on the lines.
+				"label": map[string]any{"show": false},
 				"data": []any{[]any{map[string]any{"yAxis": nominal - operating.ShortfallMargin, "name": "nominal ± 1 point"},
 					map[string]any{"yAxis": math.Min(nominal+operating.ShortfallMargin, 1)}}}}
 			line["markLine"] = map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": []any{
 				map[string]any{"yAxis": nominal, "name": "nominal",
 					"lineStyle": map[string]any{"color": "#000000", "type": "solid", "width": 1},
-					"label":     map[string]any{"formatter": "nominal " + fmtLevel(nominal), "position": "insideEndTop", "color": "#000000"}}}}
+					// Right of the plot, beside the line's end, where no
+					// coverage line runs.
+					"label": map[string]any{"formatter": "nominal\n" + fmtLevel(nominal), "position": "end", "color": "#000000"}}}}
 		}
 		series = append(series, line)
 		legend = append(legend, map[string]any{"name": c.MethodName, "icon": "path://M0,6 L24,6 L24,9 L0,9 Z"})
@@ -273,7 +277,7 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 		charts.WithXAxisOpts(opts.XAxis{Type: "value", Min: 0, Max: 1, Name: xName, NameLocation: "middle", NameGap: 30}),
 		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: yMin, Max: 1, MinInterval: yStep, MaxInterval: yStep, Name: axisName("exact coverage", "%"),
 			NameLocation: "middle", NameGap: 46}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "110", Bottom: "56", ContainLabel: opts.Bool(true)}),
+		charts.WithGridOpts(opts.Grid{Left: "24", Right: sliceRight, Top: "110", Bottom: "56", ContainLabel: opts.Bool(true)}),
 	)
 	option := optionOf(ch)
 	axisFormatter(option, "xAxis", percentAxisLabel)
@@ -283,12 +287,16 @@ func CoverageSliceChart(slices []*operating.Slice, options ...ChartOption) (*Cha
 	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(coverageSliceTooltip)}
 	if z := set.zoom(0, 0, percentAxisLabel); z != nil {
 		option["dataZoom"] = z
-		option["grid"] = []any{map[string]any{"left": "24", "right": "40", "top": "110", "bottom": "80", "containLabel": true}}
+		option["grid"] = []any{map[string]any{"left": "24", "right": sliceRight, "top": "110", "bottom": "80", "containLabel": true}}
 	}
 	notes := []string{"Each line is the chance that a method's interval contains the true difference, computed exactly over every " +
-		"possible outcome of a study of this size. Lines that dip below the band miss the truth more often than their label promises."}
+		"possible outcome of a study of this size. The grey band is the nominal level ± 1 percentage point; lines that dip below it miss the truth more often than their label promises."}
 	return newChart("coverage-slice", title, subtitle, set.heightOr(defaultHeight+60), option, table, notes)
 }
+
+// sliceRight is the room right of the coverage-slice plot for the
+// nominal line's label.
+const sliceRight = "72"
 
 // sliceAxis checks that the slices share design and line, and tells which
 // rate varies along them.
@@ -309,4 +317,24 @@ func sliceAxis(slices []*operating.Slice) (along, fixed string, err error) {
 		return "pi2", fmt.Sprintf("along π2 at a true %s of %s", s0.Scale, strconv.FormatFloat(s0.Fixed, 'g', 4, 64)), nil
 	}
 	return "", "", fmt.Errorf("coverage slice: %w: unknown line %q", proportions.ErrUnsupported, s0.Along)
+}
+
+// gridValue prints a grid rate as a percentage with up to four significant
+// digits, as the axis shows it ("2.5", "40").
+func gridValue(v float64) string { return strconv.FormatFloat(100*v, 'g', 4, 64) }
+
+// gridSpan is how close to 0 and 1 a grid may stop and still be said to
+// cover every true rate (the engine's grids stop short of 0 and 1).
+const gridSpan = 0.05
+
+// gridWords states the grid a coverage map covers: "over all true rates"
+// only when both rates run over (almost) the whole of 0 to 1, otherwise
+// the ranges ("for π1 from 0.5% to 10% and π2 from 0.5% to 10%").
+func gridWords(pi1, pi2 []float64) string {
+	whole := func(g []float64) bool { return g[0] <= gridSpan && g[len(g)-1] >= 1-gridSpan }
+	if whole(pi1) && whole(pi2) {
+		return "over all true rates"
+	}
+	span := func(g []float64) string { return "from " + gridValue(g[0]) + "% to " + gridValue(g[len(g)-1]) + "%" }
+	return "for π1 " + span(pi1) + " and π2 " + span(pi2)
 }

@@ -159,3 +159,32 @@ func TestCoverageSliceOption(t *testing.T) {
 // near7 compares a drawn probability (kept to seven decimals) with the
 // computed one.
 func near7(drawn, computed float64) bool { return math.Abs(drawn-computed) <= 5.000001e-8 }
+
+// TestCoverageMapTitleStatesItsGrid: a map over a narrowed grid says which
+// rates it covers; only a grid over (almost) all of 0 to 1 is "over all
+// true rates".
+func TestCoverageMapTitleStatesItsGrid(t *testing.T) {
+	d, err := operating.NewDesign(12, 12, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	tab, err := operating.NewOutcomeLimits(context.Background(), proportions.Wald, d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	narrow := []float64{0.005, 0.025, 0.05, 0.075, 0.1}
+	s, err := tab.Surface(context.Background(), operating.WithGrid(narrow, narrow))
+	if err != nil {
+		t.Fatal(err)
+	}
+	ch, err := CoverageMapChart(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(ch.Title(), "all true rates") || !strings.Contains(ch.Title(), "π1 from 0.5% to 10%") {
+		t.Errorf("narrowed grid, title %q", ch.Title())
+	}
+	if ch, err := CoverageMapChart(waldSurface(t, 12, 15)); err != nil || !strings.Contains(ch.Title(), "over all true rates") {
+		t.Errorf("whole grid, title %q (%v)", ch.Title(), err)
+	}
+}

@@ -3,6 +3,7 @@ package notebookui
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
 	"github.com/go-echarts/go-echarts/v2/opts"
@@ -115,10 +116,13 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 		return nil, fmt.Errorf("difference intervals chart: %w: the analysis has no interval for the difference", errNoIntervals)
 	}
 	s := newChartSettings(options)
-	rec, reason := s.recommended, s.reason
+	rec, reason, mark := s.recommended, s.reason, "recommended"
 	if rec == "" {
-		rec = a.Interval.Method
-		reason = fmt.Sprintf("%s is marked: it is the interval that matches the headline test (it excludes the null value exactly when the test rejects).", a.Interval.MethodName)
+		// Nothing was recommended: the mark says what the card leads with.
+		rec, mark = a.Interval.Method, "headline"
+		reason = fmt.Sprintf("%s is marked as the headline: it is the interval that matches the headline test (it excludes the null value exactly when the test rejects); no coverage-based recommendation was computed for this design.", a.Interval.MethodName)
+	} else if rec != a.Interval.Method && a.Interval.MethodName != "" {
+		reason = joinSentences(reason, fmt.Sprintf("The card's headline interval is %s, the one that matches its test; the recommendation rests on coverage at this design and may name another.", a.Interval.MethodName))
 	}
 	if _, ok := findInterval(a.DifferenceIntervals, rec); !ok && s.recommended != "" {
 		return nil, fmt.Errorf("difference intervals chart: recommended method %q: %w; the analysis has %v",
@@ -149,22 +153,22 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 		if iv.Method == a.Interval.Method {
 			note = joinNotes(note, "matches the headline test")
 		}
-		if strong {
+		if strong && mark == "recommended" {
 			note = joinNotes("recommended", note)
 		}
 		tip := fmt.Sprintf("<b>%s</b><br>%s interval for %s − %s:<br>%s to %s (width %s)<br>estimate %s",
-			esc(iv.MethodName), fmtLevel(iv.Level), esc(first), esc(second), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), fmtPP(iv.Estimate))
+			esc(iv.MethodName), fmtLevel(iv.Level), esc(first), esc(second), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtWidth(iv.Width()), fmtPP(iv.Estimate))
 		if note != "" {
 			tip += "<br><i>" + esc(note) + "</i>"
 		}
 		item := map[string]any{"name": iv.MethodName, "value": whiskerValue(iv.Estimate, i, iv, strong), "tip": tip,
 			"itemStyle": map[string]any{"color": color}}
 		if strong {
-			item["mark"] = "recommended"
+			item["mark"] = mark
 		}
 		data[i] = item
 		lo, hi = math.Min(lo, iv.Lower), math.Max(hi, iv.Upper)
-		table.Rows = append(table.Rows, []string{iv.MethodName, fmtPP(iv.Estimate), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtPP(iv.Width()), note})
+		table.Rows = append(table.Rows, []string{iv.MethodName, fmtPP(iv.Estimate), fmtPP(iv.Lower), fmtPP(iv.Upper), fmtWidth(iv.Width()), note})
 	}
 	axisMin, axisMax, step := niceRange(lo, hi, -1, 1)
 
@@ -186,7 +190,7 @@ func DifferenceIntervalsChart(a proportions.Analysis, options ...ChartOption) (*
 	option["series"] = []any{map[string]any{
 		"type": "custom", "name": "intervals", "data": data,
 		"encode":     map[string]any{"x": []int{0, 2, 3}, "y": 1},
-		"renderItem": jsFunc(fmt.Sprintf(whiskerRenderer, 0, 1, 0)),
+		"renderItem": jsFunc(fmt.Sprintf(whiskerRenderer, 0, 1, 0, mark)),
 		"markLine":   nullLine(a.Null, first, second),
 	}}
 	notes := []string{reason}
@@ -255,6 +259,28 @@ func niceRange(lo, hi, min, max float64) (float64, float64, float64) {
 	return math.Max(round6(l), min), math.Min(round6(h), max), step
 }
 
+// fitRange is an axis range that fits the data: lo to hi with 2% of the
+// span either side, within [min, max]. The ends are not rounded out to a
+// tick (a curve from −1.5 points does not get an axis from −5): the axis
+// labels its round values inside the range and hides the end labels
+// (hideEndLabels).
+func fitRange(lo, hi, min, max float64) (float64, float64) {
+	pad := math.Max((hi-lo)*0.02, 0.001)
+	return math.Max(round6(lo-pad), min), math.Min(round6(hi+pad), max)
+}
+
+// hideEndLabels hides the labels at the ends of an axis whose range was
+// set by fitRange, where the end values are not round.
+func hideEndLabels(option map[string]any, axis string) {
+	m := firstAxis(option, axis)
+	label, _ := m["axisLabel"].(map[string]any)
+	if label == nil {
+		label = map[string]any{}
+	}
+	label["showMinLabel"], label["showMaxLabel"] = false, false
+	m["axisLabel"] = label
+}
+
 // niceStep returns the smallest of 1, 2, 2.5 and 5 times a power of ten
 // that is at least raw.
 func niceStep(raw float64) float64 {
@@ -271,3 +297,15 @@ func niceStep(raw float64) float64 {
 }
 
 func round6(v float64) float64 { return math.Round(v*1e6) / 1e6 }
+
+// joinSentences joins two sentences with a space, ending the first with a
+// full stop when it has none.
+func joinSentences(a, b string) string {
+	if a == "" {
+		return b
+	}
+	if !strings.HasSuffix(a, ".") {
+		a += "."
+	}
+	return a + " " + b
+}

@@ -179,7 +179,13 @@ func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, e
 			table.Rows = append(table.Rows, []string{c.Basis, fmtPct(p.Rate1), fmtPP(p.Difference), fmtPct(p.Power)})
 		}
 	}
-	axisMin, axisMax, _ := niceRange(lo, hi, -1, 1)
+	// The marked differences (anticipated, margin) belong on the axis too.
+	for _, v := range []float64{d.Rate1 - d.Rate2, d.Margin} {
+		if v != 0 {
+			lo, hi = math.Min(lo, v), math.Max(hi, v)
+		}
+	}
+	axisMin, axisMax := fitRange(lo, hi, -1, 1)
 	ch := charts.NewLine()
 	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
 	ch.SetGlobalOptions(
@@ -190,6 +196,7 @@ func powerByDifference(curves []planning.PowerCurve, s chartSettings) (*Chart, e
 	)
 	option := optionOf(ch)
 	axisFormatter(option, "xAxis", ppAxisLabel)
+	hideEndLabels(option, "xAxis")
 	axisFormatter(option, "yAxis", percentAxisLabel)
 	option["series"] = series
 	option["legend"] = legendAt(legend)

@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"errors"
+	"math"
 	"testing"
 
 	"github.com/propscope/propscope/proportions/planning"
@@ -106,6 +107,14 @@ func TestPowerByDifferenceChartOption(t *testing.T) {
 	}
 	if found["margin"] != -0.1 || found["anticipated"] != 0 {
 		t.Errorf("vertical lines %v, want the margin -0.1 and the anticipated difference 0", found)
+	}
+	// The axis fits the curve and the marks: no more than 5% of the span
+	// left empty at either end.
+	lo, hi := math.Min(curve.Points[0].Difference, -0.1), curve.Points[len(curve.Points)-1].Difference
+	ax := m["xAxis"].([]any)[0].(map[string]any)
+	slack := 0.05 * (hi - lo)
+	if min, max := ax["min"].(float64), ax["max"].(float64); min > lo || max < hi || lo-min > slack || max-hi > slack {
+		t.Errorf("x axis %v to %v for a curve and marks from %v to %v", min, max, lo, hi)
 	}
 }
 

@@ -17,12 +17,12 @@ var errNoIntervals = proportions.ErrEmptyInput
 // a marker at the estimate. Data item value: [estimate, category index,
 // lower, upper, emphasis, lower clipped, upper clipped] (the last three 0
 // or 1). An emphasised item is drawn thicker and labelled with the item's
-// "recommended"; a clipped limit (the method's raw limit fell outside the
+// mark word (the last verb: "recommended" or "headline"); a clipped limit (the method's raw limit fell outside the
 // parameter space) ends in an open arrow instead of a cap. The %d verbs are
 // the series' slot, the number of slots side by side in a category band,
 // and the marker shape code.
 const whiskerRenderer = `function (params, api) {
-  var slot = %d, slots = %d, shape = %d;
+  var slot = %d, slots = %d, shape = %d, mark = %q;
   var strong = api.value(4) === 1;
   var mid = api.coord([api.value(0), api.value(1)]);
   var band = api.size([0, 1])[1];
@@ -58,7 +58,7 @@ const whiskerRenderer = `function (params, api) {
     marker
   ];
   if (strong) {
-    children.push({type: 'text', x: hi + 10, y: y, style: {text: 'recommended', fill: color, font: 'bold 12px sans-serif', verticalAlign: 'middle'}});
+    children.push({type: 'text', x: hi + 10, y: y, style: {text: mark, fill: color, font: 'bold 12px sans-serif', verticalAlign: 'middle'}});
   }
   return {type: 'group', children: children};
 }`
@@ -141,7 +141,7 @@ func RatesChart(a proportions.Analysis, options ...ChartOption) (*Chart, error) 
 		series = append(series, map[string]any{
 			"type": "custom", "name": name, "data": data, "itemStyle": map[string]any{"color": paletteColor(k)},
 			"encode":     map[string]any{"x": []int{0, 2, 3}, "y": 1},
-			"renderItem": jsFunc(fmt.Sprintf(whiskerRenderer, k, len(methods), shape)),
+			"renderItem": jsFunc(fmt.Sprintf(whiskerRenderer, k, len(methods), shape, "")),
 		})
 		legend = append(legend, map[string]any{"name": name, "icon": whiskerIcon(shape)})
 	}

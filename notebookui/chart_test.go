@@ -486,3 +486,41 @@ func TestDisplayablesNameTheirKind(t *testing.T) {
 		}
 	}
 }
+
+// TestDifferenceChartMarksHeadlineWithoutRecommendation: with no
+// recommendation the marked method is the card's headline and is called
+// so, never "recommended"; a recommendation of another method than the
+// headline says why the two differ.
+func TestDifferenceChartMarksHeadlineWithoutRecommendation(t *testing.T) {
+	a := sampleAnalysis("coated", "uncoated")
+	c, err := DifferenceIntervalsChart(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(c.HTML(), "recommended") || strings.Contains(c.Text(), "recommended") {
+		t.Errorf("no recommendation was computed, yet the chart says recommended:\n%s", c.Text())
+	}
+	marked := 0
+	for _, d := range seriesList(t, optionOfChart(t, c))[0]["data"].([]any) {
+		if item := d.(map[string]any); item["mark"] != nil {
+			marked++
+			if item["mark"] != "headline" || item["name"] != a.Interval.MethodName {
+				t.Errorf("mark %v on %v, want headline on %s", item["mark"], item["name"], a.Interval.MethodName)
+			}
+		}
+	}
+	if marked != 1 {
+		t.Errorf("%d marked methods, want 1", marked)
+	}
+	other := "wald"
+	if a.Interval.Method == other {
+		other = "agresti-caffo"
+	}
+	c, err = DifferenceIntervalsChart(a, WithHighlightedMethod(other, "it covers best here"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(c.Text(), "The card's headline interval is "+a.Interval.MethodName) {
+		t.Errorf("a recommendation other than the headline is not explained:\n%s", c.Text())
+	}
+}

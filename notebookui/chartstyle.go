@@ -4,7 +4,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"html"
-	"math"
 	"strconv"
 
 	"github.com/go-echarts/go-echarts/v2/charts"
@@ -50,6 +49,10 @@ func paletteColor(i int) string {
 	return p[i%len(p)]
 }
 
+// chartInset is the left inset, in pixels, of a chart's title and of the
+// caption under it, so that they line up.
+const chartInset = 12
+
 // Chart sizes in pixels.
 const (
 	defaultHeight = 420
@@ -63,7 +66,7 @@ func commonGlobals(title, subtitle string) []charts.GlobalOpts {
 	return []charts.GlobalOpts{
 		charts.WithInitializationOpts(opts.Initialization{Width: "100%", Height: "420px", Theme: "white"}),
 		charts.WithTitleOpts(opts.Title{
-			Title: title, Subtitle: subtitle, Left: "12", Top: "6",
+			Title: title, Subtitle: subtitle, Left: strconv.Itoa(chartInset), Top: "6",
 			TitleStyle:    &opts.TextStyle{FontSize: 16, FontWeight: "600"},
 			SubtitleStyle: &opts.TextStyle{FontSize: 12},
 		}),
@@ -130,47 +133,6 @@ func firstAxis(option map[string]any, axis string) map[string]any {
 	option[axis] = out
 	return list[0]
 }
-
-// Number formats used in tooltips and tables. Proportions show as
-// percentages, differences as signed percentage points.
-func fmtPct(v float64) string {
-	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return fmtSpecial(v)
-	}
-	return strconv.FormatFloat(100*v, 'f', 2, 64) + "%"
-}
-
-func fmtPP(v float64) string {
-	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return fmtSpecial(v)
-	}
-	s := strconv.FormatFloat(math.Abs(100*v), 'f', 2, 64)
-	switch {
-	case v > 0 && s != "0.00":
-		return "+" + s + " pp"
-	case v < 0 && s != "0.00":
-		return "−" + s + " pp"
-	}
-	return "0.00 pp"
-}
-
-func fmtSpecial(v float64) string {
-	switch {
-	case math.IsInf(v, 1):
-		return "∞"
-	case math.IsInf(v, -1):
-		return "−∞"
-	}
-	return "not estimable"
-}
-
-func fmtLevel(level float64) string {
-	return strconv.FormatFloat(100*level, 'g', 4, 64) + "%"
-}
-
-// fmtP prints a probability such as a p-value or coverage with 4
-// significant digits.
-func fmtP(v float64) string { return strconv.FormatFloat(v, 'g', 4, 64) }
 
 // esc escapes user text for tooltip HTML.
 func esc(s string) string { return html.EscapeString(s) }

@@ -44,7 +44,7 @@ func germinationAnalysis() proportions.Analysis {
 		Test:                score,
 		Tests:               []proportions.TestResult{score, fisher},
 		DifferenceIntervals: []proportions.Interval{mee, diff("wald", "Wald", 0.03804161428492761, 0.26195838571507246)},
-		Conclusion:          "The score test rejects equal rates at the 5% level (p = 0.009829): the germinated rate is higher for primed than for untreated.",
+		Conclusion:          "The Farrington–Manning score test rejects equal rates at the 5% level (p = 0.0098): the germinated rate is higher for primed than for untreated.",
 		Warnings:            []proportions.Warning{{Code: "example", Message: "An example warning, shown as written."}},
 		Omitted:             []string{"barnard-test"},
 		Caution:             "Significance is not importance; decisions follow the applicable regulations and a qualified statistician.",

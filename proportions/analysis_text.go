@@ -22,14 +22,14 @@ func (a Analysis) String() string {
 		b.WriteString("\n")
 	}
 	fmt.Fprintf(&b, "Difference %s − %s: %s (%s %s interval %s to %s)\n", c.First.Label, c.Second.Label,
-		FormatValue(a.Difference), a.Interval.MethodName, levelPercent(a.Interval.Level), FormatValue(a.Interval.Lower), FormatValue(a.Interval.Upper))
-	fmt.Fprintf(&b, "Tests of difference = %v (%s):\n", a.Null, a.Alternative)
+		signedValue(a.Difference), a.Interval.MethodName, levelPercent(a.Interval.Level), signedValue(a.Interval.Lower), signedValue(a.Interval.Upper))
+	fmt.Fprintf(&b, "Tests of difference = %s (%s):\n", signedValue(a.Null), a.Alternative)
 	for _, t := range a.Tests {
 		fmt.Fprintf(&b, "  %s\n", t)
 	}
-	writeIntervals(&b, "Intervals for the difference", a.DifferenceIntervals)
-	writeIntervals(&b, "Intervals for the ratio", a.RatioIntervals)
-	writeIntervals(&b, "Intervals for the odds ratio", a.OddsRatioIntervals)
+	writeIntervals(&b, "Intervals for the difference", a.DifferenceIntervals, signedValue)
+	writeIntervals(&b, "Intervals for the ratio", a.RatioIntervals, FormatValue)
+	writeIntervals(&b, "Intervals for the odds ratio", a.OddsRatioIntervals, FormatValue)
 	fmt.Fprintf(&b, "Conclusion: %s\n", a.Conclusion)
 	for _, w := range a.Warnings {
 		fmt.Fprintf(&b, "Warning (%s): %s\n", w.Code, w.Message)
@@ -38,7 +38,11 @@ func (a Analysis) String() string {
 	return b.String()
 }
 
-func writeIntervals(b *strings.Builder, title string, ivs []Interval) {
+// signedValue prints a difference as the summary shows it: four decimals,
+// always signed, with the typographic minus (reader_numbers.go).
+func signedValue(v float64) string { return FormatSigned(v, 4) }
+
+func writeIntervals(b *strings.Builder, title string, ivs []Interval, value func(float64) string) {
 	if len(ivs) == 0 {
 		return
 	}
@@ -50,9 +54,9 @@ func writeIntervals(b *strings.Builder, title string, ivs []Interval) {
 	for _, iv := range ivs {
 		note := ""
 		if iv.Clipped {
-			note = fmt.Sprintf("  [raw %s to %s]", FormatValue(iv.RawLower), FormatValue(iv.RawUpper))
+			note = fmt.Sprintf("  [raw %s to %s]", value(iv.RawLower), value(iv.RawUpper))
 		}
 		pad := strings.Repeat(" ", width-utf8.RuneCountInString(iv.MethodName))
-		fmt.Fprintf(b, "  %s%s  %s to %s%s\n", iv.MethodName, pad, FormatValue(iv.Lower), FormatValue(iv.Upper), note)
+		fmt.Fprintf(b, "  %s%s  %s to %s%s\n", iv.MethodName, pad, value(iv.Lower), value(iv.Upper), note)
 	}
 }

@@ -257,7 +257,7 @@ func keepCostly[T any](a *Analysis, out []T, v T, name string, err error) ([]T, 
 // would need.
 func (a *Analysis) skipCostly(name string, err error) {
 	a.Warnings = append(a.Warnings, Warning{Code: WarnSkipped, Message: fmt.Sprintf(
-		"%s was not computed: it would be slow at this table (%v); call it directly if you need it.", name, err)})
+		"%s was not computed: it would be slow at this table (%v); it can be run on its own where the wait is acceptable.", name, err)})
 }
 
 // admit reports whether the analysis runs a method, and otherwise records
@@ -279,7 +279,7 @@ func (a *Analysis) admit(f methodFilter, key, name string, exact bool, sizeLimit
 
 func (a *Analysis) skip(name string, limit, total int64) {
 	a.Warnings = append(a.Warnings, Warning{Code: WarnSkipped, Message: fmt.Sprintf(
-		"%s was not computed: with %d units in all it would be slow (it is run up to %d); call it directly if you need it.",
+		"%s was not computed: with %d units in all it would be slow (it is run up to %d); it can be run on its own where the wait is acceptable.",
 		name, total, limit)})
 }
 

@@ -15,7 +15,7 @@ import (
 func conclusion(a Analysis) string {
 	c := a.Comparison
 	first, second := c.First.Label, c.Second.Label
-	p := FormatP(a.Test.PValue, a.Test.LogPValue)
+	p := PValueClause(a.Test.PValue)
 	alpha := levelPercent(1 - a.Level)
 	var w prose
 	w.Grow(512)
@@ -61,9 +61,9 @@ func (w *prose) twoSidedVerdict(a Analysis, alpha, p string) {
 		w.add(" percentage points")
 	}
 	if a.Test.Reject {
-		w.add("The score test rejects ")
+		w.add("The ", testName(a), " rejects ")
 		nullWords()
-		w.add(" at the ", alpha, " level (p = ", p, "): ")
+		w.add(" at the ", alpha, " level (", p, "): ")
 		higher := a.Difference >= a.Null
 		switch {
 		case a.Null != 0 && higher:
@@ -81,9 +81,9 @@ func (w *prose) twoSidedVerdict(a Analysis, alpha, p string) {
 		w.add(" percentage points.")
 		return
 	}
-	w.add("The score test does not reject ")
+	w.add("The ", testName(a), " does not reject ")
 	nullWords()
-	w.add(" at the ", alpha, " level (p = ", p, "). This does not show that ")
+	w.add(" at the ", alpha, " level (", p, "). This does not show that ")
 	if a.Null == 0 {
 		w.add("the rates are equal")
 	} else {
@@ -108,7 +108,7 @@ func (w *prose) oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit 
 	if a.Test.Reject {
 		w.add("At the one-sided ", alpha, " level the data show that ")
 		claim()
-		w.add(" (p = ", p, "; the ", bound, " ")
+		w.add(" (", testName(a), ", ", p, "; the ", bound, " ")
 		w.points(limit)
 		w.add(" is beyond it)")
 		w.marginReading(a, true)
@@ -117,7 +117,7 @@ func (w *prose) oneSidedVerdict(a Analysis, alpha, p, side, bound string, limit 
 	}
 	w.add("At the one-sided ", alpha, " level the data do not show that ")
 	claim()
-	w.add(" (p = ", p, "; the ", bound, " is ")
+	w.add(" (", testName(a), ", ", p, "; the ", bound, " is ")
 	w.points(limit)
 	w.add(")")
 	w.marginReading(a, false)
@@ -134,7 +134,7 @@ func (w *prose) marginReading(a Analysis, shown bool) {
 	switch {
 	case a.Alternative == Greater && a.Null < 0, a.Alternative == Less && a.Null > 0:
 		w.add(": non-inferiority of ", c.First.Label, " to ", c.Second.Label, " within a margin of ")
-		w.points(abs(a.Null))
+		w.Write(appendFixed1(w.scratch[:0], 100*abs(a.Null)))
 		w.add(" percentage points is ", verb, "shown")
 	case a.Null == 0:
 		w.add(": superiority in that direction is ", verb, "shown")
@@ -156,13 +156,24 @@ func (w *prose) add(parts ...string) {
 
 func (w *prose) int(v int64) { w.Write(strconv.AppendInt(w.scratch[:0], v, 10)) }
 
-// points appends a proportion as percentage points with one decimal.
-func (w *prose) points(v float64) { w.Write(appendFixed1(w.scratch[:0], 100*v)) }
+// points appends a difference of proportions as signed percentage points
+// with one decimal and the typographic minus ("+16.0", "−1.2"), as the
+// card prints it (reader_numbers.go).
+func (w *prose) points(v float64) { w.Write(appendSigned(w.scratch[:0], 100*v, 1)) }
 
 // percent appends a proportion as a percentage with one decimal.
 func (w *prose) percent(v float64) {
-	w.points(v)
+	w.Write(appendFixed1(w.scratch[:0], 100*v))
 	w.WriteByte('%')
+}
+
+// testName is the headline test's name as the card prints it, so the
+// conclusion and the card call it the same.
+func testName(a Analysis) string {
+	if a.Test.MethodName == "" {
+		return "test"
+	}
+	return a.Test.MethodName
 }
 
 func abs(v float64) float64 {

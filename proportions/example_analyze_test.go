@@ -7,10 +7,13 @@ import (
 	"github.com/propscope/propscope/proportions"
 )
 
-// Two arms of an invented pilot: 56 of 70 patients respond on the new
-// regimen, 48 of 80 on the standard one. The default analysis gives the
-// headline score interval and the score test it inverts, with a
-// plain-language reading.
+// An invented coating trial: 56 of 70 coated seeds germinate, 48 of 80
+// bare ones. The counts are those of a published worked example, Newcombe
+// RG (1998), Interval estimation for the difference between independent
+// proportions, Statistics in Medicine 17:873–890, Table II, example (a),
+// so that the interval can be checked against the paper; the scenario is
+// invented. The default analysis gives the headline score interval and the
+// score test it inverts, with a plain-language reading.
 //
 // Outside checks: Mee's interval 0.0533 to 0.3377 is Newcombe (1998,
 // Statistics in Medicine 17:873–890) Table II, example (a), method 5; the
@@ -20,7 +23,7 @@ import (
 // table's probability 0.0042 is scipy.stats.hypergeom.pmf(56, 150, 104, 70).
 func ExampleAnalyze() {
 	c, err := proportions.NewComparison(56, 70, 48, 80,
-		proportions.Labels{First: "new", Second: "standard", Event: "responded"})
+		proportions.Labels{First: "coated", Second: "bare", Event: "germinated"})
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -42,7 +45,7 @@ func ExampleAnalyze() {
 	// Mee score: 0.2000 (0.0533 to 0.3377), 95% confidence
 	// Farrington–Manning score test: z = 2.65, p = 0.008045 (two-sided, null 0): reject at 5%
 	// Fisher exact: P(observed table) = 0.0042, p = 0.01252 (two-sided, null 0): reject at 5%
-	// new: 56 of 70 responded (80.0%); standard: 48 of 80 (60.0%). The difference new − standard is 20.0 percentage points (95% confidence interval 5.3 to 33.8). The score test rejects equal rates at the 5% level (p = 0.008045): the responded rate is higher for new than for standard.
+	// coated: 56 of 70 germinated (80.0%); bare: 48 of 80 (60.0%). The difference coated − bare is +20.0 percentage points (95% confidence interval +5.3 to +33.8). The Farrington–Manning score test rejects equal rates at the 5% level (p = 0.0080): the germinated rate is higher for coated than for bare.
 }
 
 // The method scope: the default analysis runs every method that costs

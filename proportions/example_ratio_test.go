@@ -36,9 +36,9 @@ func ExampleIntervalMethods_zeroCell() {
 	// Miettinen–Nurminen score (ratio): 0.0000 (0.0000 to 0.6324), 95% confidence
 }
 
-// Ratio-scale non-inferiority: is the new arm's response rate at least 90%
-// of the standard arm's? 171 of 190 responded on the new treatment and 168
-// of 188 on the standard.
+// Ratio-scale non-inferiority, in an invented packing-line check: is the
+// new line's share of seals that pass at least 90% of the old line's? 171
+// of 190 seals pass on the new line and 168 of 188 on the old.
 func ExampleFarringtonManningRatioTest() {
 	c := proportions.Counts{X1: 171, N1: 190, X2: 168, N2: 188}
 	r, err := proportions.FarringtonManningRatioTest.Test(c,

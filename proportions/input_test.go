@@ -128,7 +128,8 @@ func TestReadCSVErrors(t *testing.T) {
 		{"ragged row", "group,outcome\na,1\nb,0,extra\n", ErrMalformedRow, "line 3"},
 		{"bad quote", "group,outcome\na,1\n\"b,0\n", ErrMalformedRow, "line"},
 		{"bad outcome", "group,outcome\na,1\nb,0\nb,perhaps\n", ErrOutcomeValue, "line 4"},
-		{"three groups", "group,outcome\na,1\nb,0\nc,1\n", ErrGroupCount, ""},
+		{"three groups", "group,outcome\na,1\nb,0\nc,1\n", ErrGroupCount, `the data hold 3 groups, "a", "b", "c": keep only`},
+		{"one group", "group,outcome\na,1\na,0\n", ErrGroupCount, `need exactly two groups; the data hold one group, "a":`},
 		{"empty group", "group,outcome\na,1\n,0\n", ErrMalformedRow, "line 3"},
 	}
 	for _, c := range cases {
@@ -171,4 +172,17 @@ func FuzzReadCSV(f *testing.F) {
 			t.Fatalf("same label twice: %+v", c)
 		}
 	})
+}
+
+// TestGroupCountSaidOnce: the message says once that two groups are
+// needed and counts in words a reader would write ("one group", not
+// "1 groups").
+func TestGroupCountSaidOnce(t *testing.T) {
+	for _, data := range []string{"group,outcome\na,1\na,0\n", "group,outcome\na,1\nb,0\nc,1\n"} {
+		_, err := ReadCSV(strings.NewReader(data), CSVSpec{})
+		msg := err.Error()
+		if strings.Count(msg, "two groups") != 1 || strings.Contains(msg, "1 groups") {
+			t.Errorf("message %q", msg)
+		}
+	}
 }

@@ -3,6 +3,7 @@ package proportions
 import (
 	"fmt"
 	"slices"
+	"strconv"
 	"strings"
 )
 
@@ -106,7 +107,7 @@ func (r *outcomeReader) comparison(defaultEvent string) (Comparison, error) {
 		return Comparison{}, fmt.Errorf("%w: no records to count", ErrEmptyInput)
 	}
 	if len(r.order) != 2 {
-		return Comparison{}, fmt.Errorf("found %d groups %q: %w; the data must hold exactly two groups", len(r.order), r.order, ErrGroupCount)
+		return Comparison{}, groupCountError(r.order)
 	}
 	first, second := r.order[0], r.order[1]
 	if want := strings.TrimSpace(r.spec.FirstGroup); want != "" {
@@ -141,4 +142,17 @@ func FromRecords(records []Record, spec RecordSpec) (Comparison, error) {
 		}
 	}
 	return r.comparison(DefaultEventName)
+}
+
+// groupCountError says how many groups the data hold, with their names,
+// and what to do: the sentinel already says that two are needed.
+func groupCountError(groups []string) error {
+	names := make([]string, len(groups))
+	for i, g := range groups {
+		names[i] = strconv.Quote(g)
+	}
+	if len(groups) == 1 {
+		return fmt.Errorf("%w; the data hold one group, %s: check that the group column is the right one", ErrGroupCount, names[0])
+	}
+	return fmt.Errorf("%w; the data hold %d groups, %s: keep only the rows of the pair to compare", ErrGroupCount, len(groups), strings.Join(names, ", "))
 }

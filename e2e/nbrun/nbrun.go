@@ -126,13 +126,18 @@ func Run(ctx context.Context, root, notebook, outDir string) (Result, error) {
 // HTML's path and nbconvert's output.
 func ExportHTML(ctx context.Context, root, executed, name string, args ...string) (path, log string, err error) {
 	dir := filepath.Dir(executed)
-	all := append([]string{"--to", "html", "--output-dir", dir, "--output", name}, args...)
+	all := append([]string{"--to", "html", "--output-dir", dir, "--output", name, noMathJax}, args...)
 	log, err = nbconvert(ctx, root, dir, append(all, filepath.Base(executed))...)
 	if err != nil {
 		return "", log, fmt.Errorf("exporting %s to HTML: %w\n%s", executed, err, log)
 	}
 	return filepath.Join(dir, name+".html"), log, nil
 }
+
+// noMathJax leaves MathJax out of the exported HTML (an empty script in
+// its place): the notebooks hold no formulas, and MathJax only put its
+// "Loading [MathJax]" badge over the content of reports and screenshots.
+const noMathJax = "--HTMLExporter.mathjax_url=data:text/javascript,"
 
 func nbconvert(ctx context.Context, root, dir string, args ...string) (string, error) {
 	cmd := exec.CommandContext(ctx, Python, append([]string{"-m", "nbconvert"}, args...)...)

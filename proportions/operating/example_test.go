@@ -119,7 +119,7 @@ func ExamplePower() {
 }
 
 // A rejection region built once gives the power at any pair of rates, for
-// a power curve: here Fisher's exact test, 40 patients per arm.
+// a power curve: here Fisher's exact test, 40 seedlings per group.
 func ExampleNewRejectionRegion() {
 	fisher, err := proportions.LookupTest("fisher-test")
 	if err != nil {

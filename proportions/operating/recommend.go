@@ -133,7 +133,7 @@ func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...RunOp
 	anyHolds := rec.Ranking[0].HoldsLevel
 	for i := range rec.Ranking {
 		rec.Ranking[i].Rank = i + 1
-		rec.Ranking[i].Reason = reason(rec.Ranking[i], d.Level, cfg.tolerance, anyHolds)
+		rec.Ranking[i].Reason = reason(rec.Ranking[i], f, d.Level, cfg.tolerance, anyHolds)
 	}
 	return rec, nil
 }
@@ -166,13 +166,13 @@ func closeness(mean, nominal float64) float64 {
 }
 
 // reason writes the one-sentence explanation of a method's place.
-func reason(r Ranked, nominal, tol float64, anyHolds bool) string {
+func reason(r Ranked, f proportions.Scale, nominal, tol float64, anyHolds bool) string {
 	s := r.Summary
 	where := fmt.Sprintf("(π1 = %g, π2 = %g)", s.MinPi1, s.MinPi2)
 	if r.HoldsLevel {
 		return fmt.Sprintf("holds the level, its lowest coverage being %s at %s; average %s, %s points from %s; mean width %s.",
 			percent(s.Min), where, percent(s.Mean), formatPoints(math.Abs(s.Mean-nominal)), percent(nominal),
-			proportions.FormatValue(s.MeanWidth))
+			widthText(s.MeanWidth, f))
 	}
 	if !anyHolds {
 		return fmt.Sprintf("falls to %s at %s, more than %s points below %s; no method holds the level at this design, so this lowest coverage sets the rank; average %s.",
@@ -180,6 +180,16 @@ func reason(r Ranked, nominal, tol float64, anyHolds bool) string {
 	}
 	return fmt.Sprintf("falls to %s at %s, more than %s points below %s, so it ranks after the methods that hold the level; average %s.",
 		percent(s.Min), where, formatPoints(tol), percent(nominal), percent(s.Mean))
+}
+
+// widthText prints a mean width in the unit of its scale's axis: a
+// difference's width in percentage points ("6.09 percentage points"), a
+// ratio's or odds ratio's as a plain number.
+func widthText(w float64, f proportions.Scale) string {
+	if f == proportions.Difference && !math.IsInf(w, 0) && !math.IsNaN(w) {
+		return fmt.Sprintf("%.2f percentage points", 100*w)
+	}
+	return proportions.FormatValue(w)
 }
 
 // formatPoints prints a difference of proportions as percentage points.
