@@ -51,5 +51,5 @@ bench-coverage: ## exact coverage engine side by side with a NumPy enumeration (
 bench-charts: ## time building and rendering the charts (the confidence curve includes its ~450 test evaluations)
 	$(GO) test -run '^$$' -bench 'Chart' -benchmem ./notebookui/
 
-bench-exact: ## Fisher, Barnard, Boschloo and the exact interval side by side with SciPy (installs python3-scipy)
+bench-exact: ## Fisher, Barnard, Boschloo and the exact interval side by side with SciPy (installs python3-scipy); exact intervals and planning beside their targets
 	scripts/bench-exact.sh

@@ -210,6 +210,12 @@ func fisherRegion(c Counts, side regionSide) (region, float64) {
 // fisherRegionContext is fisherRegion stopping early when ctx ends (the
 // region is then incomplete; callers check ctx.Err()).
 func fisherRegionContext(ctx context.Context, c Counts, side regionSide) (region, float64) {
+	logp := fisherObserved(c, side)
+	return fisherRegionAt(ctx, c.N1, c.N2, logp, side), logp
+}
+
+// fisherObserved is the log of the observed Fisher p-value of a side.
+func fisherObserved(c Counts, side regionSide) float64 {
 	alt := TwoSided
 	switch side {
 	case sideGreater:
@@ -217,13 +223,18 @@ func fisherRegionContext(ctx context.Context, c Counts, side regionSide) (region
 	case sideLess:
 		alt = Less
 	}
-	logp := fisherLogP(c, alt, false)
-	left, right := fisherSliceCuts(c.N1, c.N2, logp+statTieTolerance, side)
-	reg := buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
+	return fisherLogP(c, alt, false)
+}
+
+// fisherRegionAt builds Boschloo's region for an observed log Fisher
+// p-value: it depends on the outcome only through logp, which lets one
+// region serve every outcome with that p-value (unconditional_window.go).
+func fisherRegionAt(ctx context.Context, n1, n2 int64, logp float64, side regionSide) region {
+	left, right := fisherSliceCuts(n1, n2, logp+statTieTolerance, side)
+	return buildRegion(ctx, int(n1), int(n2), func(x1, from int, part []bool) {
 		for j := range part {
 			m := x1 + from + j
 			part[j] = int64(x1) <= left[m] || int64(x1) >= right[m]
 		}
 	})
-	return reg, logp
 }

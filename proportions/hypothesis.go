@@ -115,6 +115,12 @@ type TestMethod struct {
 	// would exceed the guard. The cheap tests leave it nil and are run
 	// through Run; the registry keeps one value per test either way.
 	RunContext func(ctx context.Context, c Counts, h Hypothesis) (TestResult, error) `json:"-"`
+	// Window, set on the unconditional exact tests (not their Berger–Boos
+	// variants), decides every outcome of a design at once with Run's
+	// decisions, from one search for the critical value instead of one
+	// nuisance search per outcome; the engine (package operating) uses it
+	// for power, size and rejection regions.
+	Window *WindowDecider `json:"-"`
 }
 
 // Test validates the counts and the options, then runs the test (see

@@ -91,6 +91,7 @@ var BarnardTest = TestMethod{
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: PooledScore}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: PooledScore}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: PooledScore}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: PooledScore}),
 }
 
 // BarnardWaldTest is Barnard's unconditional exact test ordered by the unpooled
@@ -102,6 +103,7 @@ var BarnardWaldTest = TestMethod{
 	Scale: Difference, Margins: true, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: UnpooledWald}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: UnpooledWald}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: UnpooledWald}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: UnpooledWald}),
 }
 
 // BoschlooTest is Boschloo's unconditional exact test: tables are ordered by
@@ -117,6 +119,7 @@ var BoschlooTest = TestMethod{
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: FisherPValue}),
 }
 
 // BoschlooDoubledTest is Boschloo's test with the two-sided p-value taken as
@@ -127,6 +130,7 @@ var BoschlooDoubledTest = TestMethod{
 	Scale: Difference, Exact: true, TrialLimit: unconditionalTrialLimit,
 	Check: checkUnconditionalSize, Run: unconditionalRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 	RunContext: unconditionalContextRunner(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}), Cost: unconditionalCoster(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
+	Window: unconditionalWindow(UnconditionalVariant{Statistic: FisherPValue, TwoSided: TwoSidedDoubled}),
 }
 
 // NewUnconditionalTest builds an unconditional exact test as a TestMethod
@@ -150,6 +154,7 @@ func NewUnconditionalTest(d UnconditionalVariant) (TestMethod, error) {
 		Run:        unconditionalRunner(d),
 		RunContext: unconditionalContextRunner(d),
 		Cost:       unconditionalCoster(d),
+		Window:     unconditionalWindow(d),
 	}, nil
 }
 
@@ -295,25 +300,59 @@ func runUnconditional(ctx context.Context, c Counts, h Hypothesis, d Uncondition
 // error wrapping ErrTooLarge when the log-space search would exceed the
 // guard.
 func unconditionalSide(ctx context.Context, guard Cost, c Counts, delta float64, d UnconditionalVariant, side regionSide) (logp, nuisance, stat, logBound float64, err error) {
-	var reg region
-	switch d.Statistic {
-	case FisherPValue:
-		var lf float64
-		reg, lf = fisherRegionContext(ctx, c, side)
-		stat = math.Exp(lf)
-	default:
-		reg, stat = zRegionContext(ctx, c, delta, d.Statistic == PooledScore, side)
-	}
-	if err := ctx.Err(); err != nil {
-		return 0, 0, 0, 0, err
+	obs := observedStatistic(c, delta, d.Statistic, side)
+	stat = obs
+	if d.Statistic == FisherPValue {
+		stat = math.Exp(obs)
 	}
 	a, b := nuisanceRange(c, delta, d.BergerBoosGamma)
-	s := nuisanceSearch{work: newTailWork(reg.n1, reg.n2), reg: &reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
+	logp, nuisance, logBound, err = sideSupremum(ctx, guard, c.N1, c.N2, obs, delta, d.Statistic, side, a, b, nil)
+	return logp, nuisance, stat, logBound, err
+}
+
+// observedStatistic is what a side's region depends on: the z statistic
+// for the z orderings, the log of the Fisher p-value for Boschloo's.
+func observedStatistic(c Counts, delta float64, stat OrderingStatistic, side regionSide) float64 {
+	if stat == FisherPValue {
+		return fisherObserved(c, side)
+	}
+	return zObserved(c, delta, stat == PooledScore)
+}
+
+// sideSupremum builds the region of the tables at least as extreme as the
+// observed statistic obs and returns the log of its largest tail over the
+// nuisance range [a, b], where it is attained, and the log of the proven
+// bound. It is the whole computation of one side of a test after the
+// observed statistic, so outcomes with equal statistics get equal results
+// (the window decisions rely on it). work, when not nil, is scratch reused
+// between calls of one design.
+func sideSupremum(ctx context.Context, guard Cost, n1, n2 int64, obs, delta float64, stat OrderingStatistic, side regionSide, a, b float64, work *tailWork) (logp, nuisance, logBound float64, err error) {
+	reg := regionAt(ctx, n1, n2, obs, delta, stat, side)
+	if err := ctx.Err(); err != nil {
+		return 0, 0, 0, err
+	}
+	return regionSupremum(ctx, guard, &reg, delta, a, b, work)
+}
+
+// regionSupremum is the nuisance search of sideSupremum on a built region.
+func regionSupremum(ctx context.Context, guard Cost, reg *region, delta, a, b float64, work *tailWork) (logp, nuisance, logBound float64, err error) {
+	if work == nil {
+		work = newTailWork(reg.n1, reg.n2)
+	}
+	s := nuisanceSearch{work: work, reg: reg, delta: delta, a: a, b: b, ctx: ctx, guard: guard}
 	logp, nuisance, logBound = s.provenSupremum()
 	if s.err != nil {
-		return 0, 0, 0, 0, s.err
+		return 0, 0, 0, s.err
 	}
-	return logp, nuisance, stat, logBound, nil
+	return logp, nuisance, logBound, nil
+}
+
+// regionAt builds a side's region for the observed statistic obs.
+func regionAt(ctx context.Context, n1, n2 int64, obs, delta float64, stat OrderingStatistic, side regionSide) region {
+	if stat == FisherPValue {
+		return fisherRegionAt(ctx, n1, n2, obs, side)
+	}
+	return zRegionAt(ctx, n1, n2, obs, delta, stat == PooledScore, side)
 }
 
 // nuisanceRange returns the range of π2 searched: all π2 with π1 = π2 + δ0

@@ -101,7 +101,15 @@ func unconditionalCost(c Counts, h Hypothesis, d UnconditionalVariant) Cost {
 const exactIntervalTests = 40
 
 // exactIntervalCost is the cost of an exact unconditional interval: two
-// limits of exactIntervalTests score tests each, at a non-zero δ.
+// limits of exactIntervalTests score tests each, at a non-zero δ, each
+// region built by the staircase walk (staircaseRegion: the statistic of
+// at most n1 + n2 + 2 tables per part, two parts for a two-sided region)
+// rather than from every table.
 func exactIntervalCost(c Counts) Cost {
-	return unconditionalSideCost(c, 0.5, PooledScore).Scale(2 * exactIntervalTests)
+	search := unconditionalSideCost(c, 0.5, PooledScore)
+	tables := float64(c.N1+1) * float64(c.N2+1)
+	search.Steps -= tables * costScoreTable // no table-by-table region
+	walk := 2 * float64(c.N1+c.N2+2) * costScoreTable
+	search.Steps += walk + costRun*tables/float64(c.N2+1)*2
+	return search.Scale(2 * exactIntervalTests)
 }

@@ -131,21 +131,37 @@ func zRegion(c Counts, delta float64, pooled bool, side regionSide) (region, flo
 // zRegionContext is zRegion stopping early when ctx ends (the region is
 // then incomplete; callers check ctx.Err()).
 func zRegionContext(ctx context.Context, c Counts, delta float64, pooled bool, side regionSide) (region, float64) {
-	n1, n2 := float64(c.N1), float64(c.N2)
+	zobs := zObserved(c, delta, pooled)
+	return zRegionAt(ctx, c.N1, c.N2, zobs, delta, pooled, side), zobs
+}
+
+// zObserved is the observed z statistic (score when pooled, else Wald).
+func zObserved(c Counts, delta float64, pooled bool) float64 {
 	stat := exactWaldZ
 	if pooled {
 		stat = exactScoreZ
 	}
-	zobs := stat(float64(c.X1), n1, float64(c.X2), n2, delta)
+	return stat(float64(c.X1), float64(c.N1), float64(c.X2), float64(c.N2), delta)
+}
+
+// zRegionAt builds the region of the tables at least as extreme as an
+// observed statistic zobs: it depends on the outcome only through zobs
+// (through |zobs| for the two-sided side), which lets one region serve
+// every outcome with that statistic (unconditional_window.go).
+func zRegionAt(ctx context.Context, n1i, n2i int64, zobs, delta float64, pooled bool, side regionSide) region {
+	n1, n2 := float64(n1i), float64(n2i)
 	if pooled && delta == 0 {
-		return pooledRegion(ctx, c, zobs, side), zobs
+		return pooledRegion(ctx, n1i, n2i, zobs, side)
 	}
-	reg := buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
+	stat := exactWaldZ
+	if pooled {
+		stat = exactScoreZ
+	}
+	return buildRegion(ctx, int(n1i), int(n2i), func(x1, from int, part []bool) {
 		for j := range part {
 			part[j] = zInRegion(stat(float64(x1), n1, float64(from+j), n2, delta), zobs, side)
 		}
 	})
-	return reg, zobs
 }
 
 // pooledRegion is zRegion for Barnard's pooled statistic at δ0 = 0, the
@@ -153,8 +169,8 @@ func zRegionContext(ctx context.Context, c Counts, delta float64, pooled bool, s
 // d = p1 − p2 and V the pooled variance, z = d/√V, so each comparison
 // z ≥ t becomes a comparison of d² with t²·V and the signs (V = 0 only
 // when d = 0 here, where z := 0).
-func pooledRegion(ctx context.Context, c Counts, zobs float64, side regionSide) region {
-	n1, n2 := float64(c.N1), float64(c.N2)
+func pooledRegion(ctx context.Context, n1i, n2i int64, zobs float64, side regionSide) region {
+	n1, n2 := float64(n1i), float64(n2i)
 	inv, invN, invN2 := 1/n1+1/n2, 1/(n1+n2), 1/n2
 	slack := statTieTolerance * math.Abs(zobs)
 	t := zobs - slack // Greater: z ≥ t
@@ -165,7 +181,7 @@ func pooledRegion(ctx context.Context, c Counts, zobs float64, side regionSide) 
 		t = math.Abs(zobs) - slack // two-sided: |z| ≥ t
 	}
 	t2 := t * t
-	return buildRegion(ctx, int(c.N1), int(c.N2), func(x1, from int, part []bool) {
+	return buildRegion(ctx, int(n1i), int(n2i), func(x1, from int, part []bool) {
 		p1 := float64(x1) / n1
 		for j := range part {
 			x2 := from + j

@@ -145,10 +145,7 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 	if s.reg.full() {
 		return 0, s.pi2(math.Pi / 4)
 	}
-	s.thetaMax = math.Pi / 2
-	if s.delta == 0 && s.a == 0 && s.b == 1 && s.low == nil && s.reg.mirrored() {
-		s.thetaMax = math.Pi / 4
-	}
+	s.setAngleRange()
 	v, p := s.search()
 	if v >= linearFloor || s.err != nil {
 		return math.Log(min(v, 1)), p
@@ -164,16 +161,31 @@ func (s *nuisanceSearch) supremum() (logValue, pi2 float64) {
 	return s.search()
 }
 
-// search runs the grid and the refinements on the current scale.
-func (s *nuisanceSearch) search() (value, pi2 float64) {
-	g := supGridPoints(s.reg.n1, s.reg.n2)
+// setAngleRange sets the end of the angle range searched: π/2, or π/4
+// when the tail is symmetric about π2 = ½.
+func (s *nuisanceSearch) setAngleRange() {
+	s.thetaMax = math.Pi / 2
+	if s.delta == 0 && s.a == 0 && s.b == 1 && s.low == nil && s.reg.mirrored() {
+		s.thetaMax = math.Pi / 4
+	}
+}
+
+// gridSpec returns the number of grid angles and their spacing, once the
+// angle range is set.
+func (s *nuisanceSearch) gridSpec() (g int, step float64) {
+	g = supGridPoints(s.reg.n1, s.reg.n2)
 	if s.thetaMax < math.Pi/2 {
 		g = g/2 + 1
 	}
 	if s.a == s.b {
 		g = 1
 	}
-	step := s.thetaMax / float64(max(g-1, 1))
+	return g, s.thetaMax / float64(max(g-1, 1))
+}
+
+// search runs the grid and the refinements on the current scale.
+func (s *nuisanceSearch) search() (value, pi2 float64) {
+	g, step := s.gridSpec()
 	vals := make([]float64, g)
 	for i := range vals {
 		vals[i] = s.at(float64(i) * step)

@@ -28,7 +28,13 @@ TARGETS = {
     "boschloo-doubled-400": (500, "boschloo_exact two-sided (doubling), n=32 points (default)"),
     "boschloo-400": (None, "vs boschloo_exact two-sided; ours orders by two-sided Fisher p (another convention)"),
 }
-ABSOLUTE = {"chan-zhang-100": 0.2, "agresti-min-100": 0.2}
+# case -> target in seconds of CPU per call (no SciPy counterpart)
+ABSOLUTE = {
+    "chan-zhang-100": 0.2, "agresti-min-100": 0.2,
+    "chan-zhang-500": 0.5, "chan-zhang-1000": 2.0,
+    "barnard-sample-size": 3.0, "boschloo-sample-size": 3.0,
+    "barnard-power-curve": 10.0, "boschloo-power-curve": 10.0,
+}
 
 
 def scipy_call(case, t):

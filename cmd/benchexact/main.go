@@ -1,7 +1,9 @@
 // Command benchexact times propscope's exact tests and the exact
 // unconditional interval on the tables of the SciPy side-by-side
-// comparison (scripts/bench-exact.sh) and prints one JSON object per case:
-// the method, the table, the p-value or limits, and the time per call.
+// comparison (scripts/bench-exact.sh), and the exact planning of issue 15
+// (sample size and power curve with Barnard's and Boschloo's tests), and
+// prints one JSON object per case: the method, the table, the p-value,
+// limits or planning answer, and the time per call.
 //
 // Times are CPU time of this process per call (getrusage), which is less
 // disturbed than wall time on a shared machine, plus the wall time; each
@@ -11,6 +13,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -19,6 +22,7 @@ import (
 	"time"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/planning"
 )
 
 // benchCase is one timed call.
@@ -51,6 +55,23 @@ func intervalCase(name string, m proportions.IntervalMethod, n int64) benchCase 
 	}}
 }
 
+// planCase times one exact planning call of issue 15's design (0.60 vs
+// 0.75, two-sided 5%, 80% power); its table fields are unused.
+func planCase(name string, m proportions.TestMethod, curve bool) benchCase {
+	d := planning.NewPlan(planning.Equality, 0.60, 0.75)
+	return benchCase{Name: name, Method: m.Key, run: func(proportions.Counts) (string, error) {
+		if curve {
+			c, err := planning.ExactPowerByTrials(context.Background(), d, m, 20, 200)
+			if err != nil {
+				return "", err
+			}
+			return fmt.Sprintf("power %.4f at n1 = 200", c.Points[len(c.Points)-1].Power), nil
+		}
+		r, err := planning.ExactSampleSize(context.Background(), d, m, planning.Search{})
+		return fmt.Sprintf("n1 = %d (power %.4f)", r.First.N1, r.First.Power), err
+	}}
+}
+
 func main() {
 	minTime := flag.Duration("mintime", time.Second, "minimum CPU time per case")
 	only := flag.String("case", "", "run only this case")
@@ -62,6 +83,12 @@ func main() {
 		testCase("boschloo-400", proportions.BoschlooTest, 400),
 		intervalCase("chan-zhang-100", proportions.ChanZhang, 100),
 		intervalCase("agresti-min-100", proportions.AgrestiMin, 100),
+		intervalCase("chan-zhang-500", proportions.ChanZhang, 500),
+		intervalCase("chan-zhang-1000", proportions.ChanZhang, 1000),
+		planCase("barnard-sample-size", proportions.BarnardTest, false),
+		planCase("boschloo-sample-size", proportions.BoschlooTest, false),
+		planCase("barnard-power-curve", proportions.BarnardTest, true),
+		planCase("boschloo-power-curve", proportions.BoschlooTest, true),
 	}
 	enc := json.NewEncoder(os.Stdout)
 	for _, bc := range cases {

@@ -15,6 +15,40 @@ import (
 type Decision struct {
 	Test       proportions.TestMethod   `json:"test"`
 	Hypotheses []proportions.Hypothesis `json:"hypotheses"`
+	// memory, set by Remembering, carries the critical values of a test
+	// with a window decider from one design to the next.
+	memory *proportions.DecisionMemory
+}
+
+// Remembering returns the decision with a memory of the critical values
+// of its test (for tests with a window decider, proportions.WindowDecider):
+// a scan over group sizes then starts each design's search near the last
+// answer. The decisions are the same with or without it.
+func (d Decision) Remembering() Decision {
+	d.memory = &proportions.DecisionMemory{}
+	return d
+}
+
+// decideWindow runs the test's window decider for every hypothesis on the
+// outcomes x1 = lo1..hi1, x2 = lo2..hi2 and returns where the decision
+// rejects (every hypothesis rejected), row by row.
+func (d Decision) decideWindow(ctx context.Context, n1, n2, lo1, hi1, lo2, hi2 int) ([]bool, error) {
+	w := proportions.OutcomeWindow{N1: n1, N2: n2, X1From: lo1, X1To: hi1, X2From: lo2, X2To: hi2}
+	var all []bool
+	for _, h := range d.Hypotheses {
+		r, err := d.Test.Window.Decide(ctx, w, h, d.memory)
+		if err != nil {
+			return nil, err
+		}
+		if all == nil {
+			all = r
+			continue
+		}
+		for i := range all {
+			all[i] = all[i] && r[i]
+		}
+	}
+	return all, nil
 }
 
 // Rejects reports whether the decision rejects for counts c.
@@ -116,8 +150,12 @@ func (d Decision) Power(n1, n2 int, pi1, pi2 float64) (float64, error) {
 }
 
 // PowerContext is Power with cancellation, for tests slow enough to need
-// it (exact tests that search a nuisance parameter at every outcome).
-func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64) (float64, error) {
+// it (exact tests that search a nuisance parameter at every outcome). A
+// test with a window decider (proportions.TestMethod.Window) decides the
+// outcomes all at once, with the same decisions. Of opts it reads
+// WithProgress (rows of outcomes done out of the rows of the binomial
+// window; a window decider reports once, at the end) and WithWorkers.
+func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64, opts ...RunOption) (float64, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return 0, err
 	}
@@ -131,8 +169,13 @@ func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64
 	b1.fill(n1, pi1, make([]float64, n1+1))
 	b2.fill(n2, pi2, make([]float64, n2+1))
 	rows := b1.hi - b1.lo + 1
+	cfg := newConfig(opts)
+	rep := newReporter(cfg.progress, rows)
+	if d.Test.Window != nil {
+		return d.windowPower(ctx, n1, n2, &b1, &b2, rep)
+	}
 	sums := make([]float64, rows)
-	workers := 0 // every core
+	workers := cfg.workers // default: every core
 	if rows*(b2.hi-b2.lo+1) < 4096 {
 		workers = 1
 	}
@@ -144,6 +187,9 @@ func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64
 			}
 		})
 		sums[i] = s
+		if err == nil {
+			rep.add(1)
+		}
 		return err
 	})
 	if err != nil {
@@ -153,6 +199,28 @@ func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64
 	for i, s := range sums {
 		power += b1.p[b1.lo+i] * s
 	}
+	return min(power, 1), nil
+}
+
+// windowPower is PowerContext through the test's window decider.
+func (d Decision) windowPower(ctx context.Context, n1, n2 int, b1, b2 *binomial, rep *reporter) (float64, error) {
+	rej, err := d.decideWindow(ctx, n1, n2, b1.lo, b1.hi, b2.lo, b2.hi)
+	if err != nil {
+		return 0, err
+	}
+	var power float64
+	i := 0
+	for x1 := b1.lo; x1 <= b1.hi; x1++ {
+		var s float64
+		for x2 := b2.lo; x2 <= b2.hi; x2++ {
+			if rej[i] {
+				s += b2.p[x2]
+			}
+			i++
+		}
+		power += b1.p[x1] * s
+	}
+	rep.add(b1.hi - b1.lo + 1)
 	return min(power, 1), nil
 }
 
@@ -172,7 +240,9 @@ type RejectionRegion struct {
 }
 
 // NewRejectionRegion runs the decision on every outcome of the design,
-// on every core. It reads WithProgress (rows done out of n1+1) and
+// on every core; a test with a window decider (Barnard's and Boschloo's,
+// proportions.TestMethod.Window) decides them all at once instead, with
+// the same decisions and a progress report at the end. It reads WithProgress (rows done out of n1+1) and
 // WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
 // tests that search a nuisance parameter at each outcome make this slow at
 // large n; their TrialLimit is a guide.
@@ -186,6 +256,17 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 	cfg := newConfig(opts)
 	rowRuns := make([][]int32, n1+1)
 	rep := newReporter(cfg.progress, n1+1)
+	if d.Test.Window != nil {
+		rej, err := d.decideWindow(ctx, n1, n2, 0, n1, 0, n2)
+		if err != nil {
+			return nil, err
+		}
+		for x1 := range rowRuns {
+			rowRuns[x1] = runsOf(rej[x1*(n2+1) : (x1+1)*(n2+1)])
+		}
+		rep.add(n1 + 1)
+		return newRegionFromRuns(d, n1, n2, rowRuns), nil
+	}
 	err := parallel(ctx, cfg.workers, n1+1, func(x1 int) error {
 		var runs []int32
 		inRun := false
@@ -211,6 +292,26 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 	if err != nil {
 		return nil, err
 	}
+	return newRegionFromRuns(d, n1, n2, rowRuns), nil
+}
+
+// runsOf returns the runs of true values of one row of decisions, as
+// pairs (first x2, last x2 + 1).
+func runsOf(row []bool) []int32 {
+	var runs []int32
+	for x2, r := range row {
+		if r && (x2 == 0 || !row[x2-1]) {
+			runs = append(runs, int32(x2))
+		}
+		if r && (x2 == len(row)-1 || !row[x2+1]) {
+			runs = append(runs, int32(x2+1))
+		}
+	}
+	return runs
+}
+
+// newRegionFromRuns packs the runs of every row into a region.
+func newRegionFromRuns(d Decision, n1, n2 int, rowRuns [][]int32) *RejectionRegion {
 	r := &RejectionRegion{Decision: d, N1: n1, N2: n2, rowRuns: make([]int32, n1+2)}
 	for x1, runs := range rowRuns {
 		r.rowRuns[x1] = int32(len(r.runs))
@@ -220,7 +321,7 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 		}
 	}
 	r.rowRuns[n1+1] = int32(len(r.runs))
-	return r, nil
+	return r
 }
 
 // Contains reports whether the decision rejects at outcome (x1, x2).

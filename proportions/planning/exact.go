@@ -43,13 +43,24 @@ type ExactPowerResult struct {
 //
 // b the binomial probability, by running the test on every outcome (tails of
 // total probability below 10⁻¹⁶ left out) with the operating-characteristics
-// engine (operating.Decision.Power). Plan.Power, Allocation,
+// engine (operating.Decision.Power). Barnard's and Boschloo's tests decide
+// those outcomes at once through their window decider
+// (proportions.TestMethod.Window: one search for the critical value
+// instead of one nuisance search per outcome, with the same decisions);
+// ExactSampleSize and ExactPowerByTrials also carry each size's critical
+// value to the next size. Plan.Power, Allocation,
 // Dropout, Variance and ContinuityCorrection are not used (the test decides
 // its own statistic). Errors wrap the sentinels of SampleSize
 // except ErrUnreachable, ErrUnsupported when the test cannot carry out the
 // plan, ErrPlan for sizes outside [1, MaxExactTrials], or the context's
 // error when it is cancelled.
-func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64) (ExactPowerResult, error) {
+//
+// Of opts it reads operating.WithProgress: progress in thousandths (see
+// ProgressTotal) of the rows of outcomes run, x1 inside the binomial
+// window of Plan.Rate1; a test with a window decider
+// (proportions.TestMethod.Window) decides every row at once and reports
+// at its end.
+func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, opts ...operating.RunOption) (ExactPowerResult, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
 		return ExactPowerResult{}, err
@@ -65,10 +76,16 @@ func ExactPower(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 in
 		exactPowerCost(d, m, dc.Hypotheses, n1, n2), "use the asymptotic Power, a faster test or smaller groups"); err != nil {
 		return ExactPowerResult{}, err
 	}
-	p, err := exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2)
+	prog := newProgress(opts, 0)
+	rows := func(done, total int) {
+		prog.total = float64(total)
+		prog.add(float64(done) - prog.done)
+	}
+	p, err := exactPower(ctx, dc, n1, n2, d.Rate1, d.Rate2, operating.WithProgress(rows))
 	if err != nil {
 		return ExactPowerResult{}, err
 	}
+	prog.finish()
 	return ExactPowerResult{Plan: d, Method: m.Key, MethodName: m.Name, Citation: m.Citation, Hypotheses: dc.Hypotheses,
 		N1: n1, N2: n2, Power: p, Asymptotic: asym.Power, Notes: testNotes(m), Caution: Caution}, nil
 }
@@ -86,9 +103,10 @@ func newDecision(d Plan, m proportions.TestMethod) (operating.Decision, error) {
 	return operating.Decision{Test: m, Hypotheses: hs}, nil
 }
 
-// exactPower is the engine's exact power, cancelled with ctx.
-func exactPower(ctx context.Context, dc operating.Decision, n1, n2 int64, p1, p2 float64) (float64, error) {
-	return dc.PowerContext(ctx, int(n1), int(n2), p1, p2)
+// exactPower is the engine's exact power, cancelled with ctx; opts go to
+// the engine.
+func exactPower(ctx context.Context, dc operating.Decision, n1, n2 int64, p1, p2 float64, opts ...operating.RunOption) (float64, error) {
+	return dc.PowerContext(ctx, int(n1), int(n2), p1, p2, opts...)
 }
 
 func checkSizes(n1, n2 int64) error {
@@ -171,6 +189,7 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
+	dc = dc.Remembering() // each size's critical value starts the next size's search
 	if err := guardScan(d, m, dc.Hypotheses, s, asym.N1); err != nil {
 		return ExactSampleSizeResult{}, err
 	}
@@ -288,6 +307,7 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 		return PowerCurve{}, err
 	}
 	grid.Basis = "exact power of " + m.Name
+	dc = dc.Remembering() // each size's critical value starts the next size's search
 	var cost proportions.Cost
 	costs := make([]float64, len(grid.Points))
 	for i, p := range grid.Points {

@@ -27,6 +27,9 @@ func exactPowerCost(d Plan, m proportions.TestMethod, h []proportions.Hypothesis
 		return min(float64(n+1), 2*8.3*math.Sqrt(float64(n)*p*(1-p))+1)
 	}
 	outcomes := window(n1, d.Rate1) * window(n2, d.Rate2)
+	if m.Window != nil {
+		return windowDeciderCost(m, h, n1, n2, window(n1, d.Rate1), window(n2, d.Rate2))
+	}
 	per := proportions.Cost{Steps: cheapOutcomeSteps(n1, n2)}
 	if m.Cost != nil {
 		c := proportions.Counts{X1: int64(d.Rate1 * float64(n1)), N1: n1, X2: int64(d.Rate2 * float64(n2)), N2: n2}
@@ -74,4 +77,17 @@ func guardSearch(what string, c proportions.Cost, hint string) error {
 		return nil
 	}
 	return fmt.Errorf("%s would need %v: %w; the limit is %v; %s", what, c, proportions.ErrTooLarge, ExactSearchCost, hint)
+}
+
+// windowDeciderCost estimates one exact power of a test with a window
+// decider: its own estimate for a window of w1 by w2 outcomes, per
+// hypothesis.
+func windowDeciderCost(m proportions.TestMethod, h []proportions.Hypothesis, n1, n2 int64, w1, w2 float64) proportions.Cost {
+	win := proportions.OutcomeWindow{N1: int(n1), N2: int(n2), X1To: int(w1) - 1, X2To: int(w2) - 1}
+	var cost proportions.Cost
+	for _, hh := range h {
+		c := m.Window.Cost(win, hh)
+		cost = proportions.Cost{Steps: cost.Steps + c.Steps, Bytes: max(cost.Bytes, c.Bytes)}
+	}
+	return cost
 }

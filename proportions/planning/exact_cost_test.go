@@ -12,10 +12,14 @@ import (
 )
 
 // The reproducers: an exact sample size whose asymptotic n1 is
-// about 1565 scanned from n1 = 1 (weeks by the measured growth), and the
-// exact power of Boschloo's test at 500/500 took 89 s. Both are refused
-// before they start, with an error wrapping ErrTooLarge that says what
-// they would need and how to narrow the search.
+// about 1565 scanned from n1 = 1 (weeks by the measured growth, minutes
+// still with the window decider), and the exact power of Boschloo's test
+// at 500/500, which took 89 s with one nuisance search per outcome. The
+// scan is refused before it starts, with an error wrapping ErrTooLarge
+// that says what it would need and how to narrow the search; the single
+// power now takes a fraction of a second through the window decider and
+// runs, while the Berger–Boos variant, which has no window decider, is
+// still refused.
 func TestExactSearchesRefusedBeforeTheyStart(t *testing.T) {
 	d := NewPlan(Equality, 0.30, 0.35)
 	asym, err := SampleSize(d)
@@ -29,9 +33,16 @@ func TestExactSearchesRefusedBeforeTheyStart(t *testing.T) {
 	if !errors.Is(err, proportions.ErrTooLarge) || !strings.Contains(err.Error(), "would need about") || !strings.Contains(err.Error(), "Search.From") {
 		t.Errorf("exact sample size from 1 with Boschloo at n1 ≈ %d: got %v, want ErrTooLarge with the cost and a narrower search", asym.N1, err)
 	}
-	_, err = ExactPower(context.Background(), NewPlan(Equality, 0.30, 0.35), proportions.BoschlooTest, 500, 500)
+	if _, err = ExactPower(context.Background(), NewPlan(Equality, 0.30, 0.35), proportions.BoschlooTest, 500, 500); err != nil {
+		t.Errorf("exact power of Boschloo at 500/500 (window decider): %v", err)
+	}
+	bb, err := proportions.NewUnconditionalTest(proportions.UnconditionalVariant{Statistic: proportions.FisherPValue, BergerBoosGamma: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, err = ExactPower(context.Background(), NewPlan(Equality, 0.30, 0.35), bb, 500, 500)
 	if !errors.Is(err, proportions.ErrTooLarge) {
-		t.Errorf("exact power of Boschloo at 500/500: got %v, want ErrTooLarge", err)
+		t.Errorf("exact power of Boschloo with Berger–Boos at 500/500: got %v, want ErrTooLarge", err)
 	}
 	// A cheap test at the same plan stays within the guard: the estimate
 	// depends on the test, not only on the sizes.

@@ -72,6 +72,19 @@ func TestExactPlanningReportsProgress(t *testing.T) {
 	// One report per row of outcomes, x1 = 0..25.
 	region.check(t, "ExactPowerByDifference", 26)
 
+	// A single exact power reports by rows of outcomes: Fisher's test runs
+	// one outcome at a time, Boschloo's decides them all at once.
+	var single progressLog
+	if _, err := ExactPower(ctx, d, proportions.FisherTest, 60, 60, single.option()); err != nil {
+		t.Fatal(err)
+	}
+	single.check(t, "ExactPower (Fisher)", 10)
+	var window progressLog
+	if _, err := ExactPower(ctx, d, proportions.BoschlooTest, 30, 30, window.option()); err != nil {
+		t.Fatal(err)
+	}
+	window.check(t, "ExactPower (Boschloo)", 1)
+
 	// Without the option nothing is reported and nothing breaks.
 	if _, err := ExactPowerByTrials(ctx, d, proportions.FisherTest, 1, 5); err != nil {
 		t.Fatal(err)
