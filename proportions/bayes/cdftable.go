@@ -86,12 +86,15 @@ func newCDFTable(p Posterior) cdfTable {
 	// the density relative to its peak integrates to about 2.5·sdT, the
 	// scale of the split tolerance
 	tol := splitTol * sdT
+	rel := p.relEllFunc()
 	var errSum float64
 	var add func(start, h float64, depth int) bool
 	add = func(start, h float64, depth int) bool {
 		var pn cdfPanel
-		est := pn.fit(p.relEll, start, h)
-		if est > tol && depth < maxSplits {
+		est, peak := pn.fit(rel, start, h)
+		// split where the series has not converged; an estimate at the
+		// rounding noise of the panel's values does not shrink by halving
+		if est > tol && est > 256*0x1p-52*peak && depth < maxSplits {
 			return add(start, h/2, depth+1) && add(start+h/2, h/2, depth+1)
 		}
 		if len(t.panels) == maxTablePanels {
@@ -139,10 +142,12 @@ func newCDFTable(p Posterior) cdfTable {
 // fit interpolates the density on [start, start+h] and integrates the
 // interpolant; it returns the panel's error estimate.
 // (rel is the log-density up to a constant: Posterior.relEll).
-func (pn *cdfPanel) fit(rel func(float64) float64, start, h float64) float64 {
+// It returns the error estimate and the largest value sampled.
+func (pn *cdfPanel) fit(rel func(float64) float64, start, h float64) (est, peak float64) {
 	var f [chebN]float64
 	for k := range chebN {
 		f[k] = h / 2 * math.Exp(rel(start+h/2*(chebX[k]+1))) // dt = h/2 dx
+		peak = math.Max(peak, f[k])
 	}
 	var c [chebN + 2]float64
 	for j := range chebN {
@@ -169,7 +174,7 @@ func (pn *cdfPanel) fit(rel func(float64) float64, start, h float64) float64 {
 	}
 	pn.anti[0] = -atStart
 	pn.mass = atEnd - atStart
-	return 2*(math.Abs(c[chebN-1])+math.Abs(c[chebN-2])) + 0x1p-52*float64(chebN)*pn.mass
+	return 2*(math.Abs(c[chebN-1])+math.Abs(c[chebN-2])) + 0x1p-52*float64(chebN)*pn.mass, peak
 }
 
 // ok reports whether the table exists.

@@ -61,6 +61,7 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 	// the 20-node panels first, on the density relative to its peak
 	// (Posterior.relEll), then normalised by their total mass
 	all := make([]fpanel, n)
+	rel := out.relEllFunc()
 	var total float64
 	for i := range all {
 		c, half := lo+float64(i)*h+h/2, h/2
@@ -68,7 +69,7 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 		for k := range gx20 {
 			t := c + half*gx20[k]
 			o, oc := logistic(t)
-			w := half * gw20[k] * math.Exp(out.relEll(t))
+			w := half * gw20[k] * math.Exp(rel(t))
 			p.n20[k] = fnode{o, oc, w}
 			p.mass += w
 		}
@@ -94,7 +95,7 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 			for k := range gx10 {
 				t := c + half*gx10[k]
 				o, oc := logistic(t)
-				p.n10[k] = fnode{o, oc, half * gw10[k] * math.Exp(out.relEll(t)) / total}
+				p.n10[k] = fnode{o, oc, half * gw10[k] * math.Exp(rel(t)) / total}
 			}
 		}
 		r.panels = append(r.panels, p)
