@@ -84,7 +84,10 @@ func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, 
 			break
 		}
 	}
-	if ok && U-L <= hi-lo+1e-12*sd {
+	// the shortest interval is not longer than the equal-tailed one, within
+	// the error estimates of their ends (for a near-symmetric posterior
+	// the two agree to rounding)
+	if ok && U-L <= hi-lo+2*eerr+1e-12*sd {
 		below, _ := e.tail1(L, false)
 		above, _ := e.tail1(U, true)
 		if math.Abs(below+above-(1-level)) < 1e-8 {
