@@ -33,8 +33,8 @@ import "math"
 // incomplete beta function is used.
 
 const (
-	chebN          = 24  // Chebyshev points per panel
-	tablePanel     = 2.0 // panel width in curvature widths of the log-odds density at the mode
+	chebN          = 20  // Chebyshev points per panel
+	tablePanel     = 1.5 // panel width in curvature widths of the log-odds density at the mode
 	maxTablePanels = 400
 	// A panel whose error estimate exceeds splitTol of the density's mass
 	// is halved, up to maxSplits times: away from the mode the log-odds
