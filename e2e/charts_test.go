@@ -20,8 +20,10 @@ import (
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // chartsDir is where chart pages and screenshots go (e2e/out/charts).
@@ -231,7 +233,33 @@ func analysisCharts(t *testing.T, a proportions.Analysis) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}}
+	return []namedChart{{"rates", r}, {"difference-intervals", d}, {"confidence-curve", cc}, {"posterior", p}, {"forest", strataForest(t, a.Comparison)}}
+}
+
+// strataForest is the forest chart of the comparison split into two
+// blocks, the second named after the first group (so hostile labels reach
+// the block values too), plus a block that lost its second group.
+func strataForest(t *testing.T, c proportions.Comparison) *notebookui.Chart {
+	t.Helper()
+	x1, n1, x2, n2 := c.First.Events, c.First.Trials, c.Second.Events, c.Second.Trials
+	b, err := proportions.NewBreakdown("block", proportions.Labels{First: c.First.Label, Second: c.Second.Label, Event: c.Event},
+		[]proportions.BreakdownRow{
+			{Value: "north", Counts: proportions.Counts{X1: x1 / 2, N1: n1 / 2, X2: x2 / 2, N2: n2 / 2}},
+			{Value: "south " + c.First.Label, Counts: proportions.Counts{X1: x1 - x1/2, N1: n1 - n1/2, X2: x2 - x2/2, N2: n2 - n2/2}},
+			{Value: "flooded", Counts: proportions.Counts{X1: 3, N1: 8}},
+		})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := strata.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f, err := notebookui.StrataForestChart(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return f
 }
 
 // bayesView is the Bayesian analysis of the comparison with the default
@@ -305,7 +333,27 @@ func designCharts(t *testing.T) []namedChart {
 	if err != nil {
 		t.Fatal(err)
 	}
-	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff}}
+	sp := simulate.NewPlan(8, 20, 0.8, 0.7, 0)
+	sp.Studies, sp.By = 500, "tray"
+	sweep, err := simulate.Sweep(ctx, sp, []float64{0, 0.05, 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	simulated, err := notebookui.SimulatedCoverageChart(sweep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid, err := planning.ClusteredPowerByClusters(planning.NewPlan(planning.Equality, 0.8, 0.65), 0.05, 0.3,
+		[]float64{5, 20, 60}, []int64{4, 6, 8, 10, 12, 16, 20, 24, 32, 40, 48})
+	if err != nil {
+		t.Fatal(err)
+	}
+	clustered, err := notebookui.ClusteredPowerChart(grid)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return []namedChart{{"coverage-slice", slice}, {"coverage-map", heat}, {"power-by-size", byN}, {"power-by-difference", byDiff},
+		{"simulated-coverage", simulated}, {"clustered-power", clustered}}
 }
 
 // TestChartsDrawOffline writes each chart as a standalone page, opens it in

@@ -4,12 +4,15 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"math"
 	"strings"
 	"sync"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/planning"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // The script-injection payload of issue 20: a group label wrapped in the
@@ -76,7 +79,55 @@ func labelViews(t testing.TB, first, second, event string) (names []string, ds [
 		Settings: []Setting{{Key: "x1", Label: first, Value: second}, {Key: "n1", Label: event, Value: event}},
 		View:     views{rates, card, message{kind: "message", text: event}}}
 	add("explorer frame", frame, nil)
+	sim, err := SimulatedCoverageChart(handCurve(event, first, second))
+	add("simulated coverage chart", sim, err)
+	// the cluster column named by the event label, so that a label reaches
+	// the card's headings and sentences too
+	cd, err := clusters.New(event, proportions.Labels{First: first, Second: second, Event: event},
+		[]clusters.Cluster{{Value: "t1", Events: 3, Trials: 8}, {Value: "t2", Events: 6, Trials: 9}},
+		[]clusters.Cluster{{Value: "t3", Events: 1, Trials: 7}, {Value: "t4", Events: 4, Trials: 10}})
+	if err != nil {
+		t.Fatalf("clustered data: %v", err)
+	}
+	ca, err := clusters.Analyze(cd)
+	add("cluster card", NewClusterCard(ca), err)
+	grid, err := planning.ClusteredPowerByClusters(d, 0.05, 0, []float64{5, 20}, []int64{4, 8})
+	if err != nil {
+		t.Fatalf("clustered power: %v", err)
+	}
+	cp, err := ClusteredPowerChart(grid)
+	add("clustered power chart", cp, err)
+	forest, err := ForestChart(Forest{Title: "by " + event, Subtitle: first + " − " + second, Effect: event, Scale: proportions.Difference, Level: 0.95,
+		Rows: []ForestRow{{Label: first, Estimate: 0.1, Lower: -0.05, Upper: 0.25, Weight: 0.6, Note: second},
+			{Label: second, Estimate: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), Note: event}},
+		Summary: &ForestRow{Label: event, Estimate: 0.08, Lower: 0.01, Upper: 0.15}, Notes: []string{first}})
+	add("forest chart", forest, err)
+	sa := strataAnalysis(t, first, second, event)
+	add("stratified card", NewStrataCard(sa), nil)
+	sf, err := StrataForestChart(sa)
+	add("stratified forest chart", sf, err)
 	return names, ds
+}
+
+// strataAnalysis is a small stratified analysis whose group labels,
+// event, breakdown column and block values are the given labels (a block
+// value cannot be empty or repeated, so the labels are prefixed).
+func strataAnalysis(t *testing.T, first, second, event string) strata.Analysis {
+	t.Helper()
+	rows := []proportions.BreakdownRow{
+		{Value: "1 " + first, Counts: proportions.Counts{X1: 9, N1: 10, X2: 30, N2: 40}},
+		{Value: "2 " + second, Counts: proportions.Counts{X1: 20, N1: 40, X2: 3, N2: 10}},
+		{Value: "3 " + event, Counts: proportions.Counts{X1: 4, N1: 6}},
+	}
+	b, err := proportions.NewBreakdown(event, proportions.Labels{First: first, Second: second, Event: event}, rows)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := strata.Analyze(b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return a
 }
 
 // renders is labelViews as HTML with their JSON forms, and Page.

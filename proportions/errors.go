@@ -53,6 +53,13 @@ var (
 	// ErrPlan: a study-plan input (anticipated rate, α, power, allocation
 	// ratio, drop-out share, group size, search bounds) lies outside its range.
 	ErrPlan = errors.New("study plan input outside its allowed range")
+	// ErrSimulation: a simulation input (number of clusters, cluster size,
+	// true rate, ICC, number of simulated studies) lies outside its range.
+	ErrSimulation = errors.New("simulation input outside its allowed range")
+	// ErrTooFewClusters: a clustered analysis needs at least two clusters
+	// in each group, since the variation between clusters is estimated
+	// within the groups.
+	ErrTooFewClusters = errors.New("too few clusters")
 	// ErrUnreachable: no finite sample size reaches the requested power
 	// (for example equal anticipated rates in a superiority design).
 	ErrUnreachable = errors.New("target power cannot be reached")

@@ -21,6 +21,8 @@ var glossaryPackages = map[string]string{
 	"operating":   "operating",
 	"bayes":       "bayes",
 	"clusters":    "clusters",
+	"simulate":    "clusters/simulate",
+	"strata":      "strata",
 	"notebookui":  "../notebookui",
 }
 

@@ -34,6 +34,11 @@ func WithProgress(f Progress) RunOption { return func(c *config) { c.progress = 
 // function.
 func ProgressOf(opts ...RunOption) Progress { return newConfig(opts).progress }
 
+// WorkersOf returns the number of goroutines set by WithWorkers among
+// opts, or 0 for the default (GOMAXPROCS). Packages that split work of
+// their own (the simulations of package clusters/simulate) read it.
+func WorkersOf(opts ...RunOption) int { return newConfig(opts).workers }
+
 // WithGrid sets the success rates of a surface: π1 takes the values pi1,
 // π2 the values pi2 (each in [0, 1]). The default is 0, 0.01, …, 1 for both.
 func WithGrid(pi1, pi2 []float64) RunOption {

@@ -6,7 +6,9 @@
 // [CoverageSurface] for operating.Surface, and so on (see the constants).
 // The definitions they share (interval, test result, warning, plan,
 // hypothesis, group, comparison, ...) live in the [Common] schema, which the
-// others reference as "common.schema.json#/$defs/NAME". The references are
+// others reference as "common.schema.json#/$defs/NAME" (the clustered
+// analysis also references the [Analysis] schema for its unit-level
+// analysis). The references are
 // relative and the schemas carry no $id, so a validator resolves them
 // against wherever the files are loaded from: a directory written from
 // [FS], or any base URI under which a program registers every file by its

@@ -68,6 +68,24 @@ const (
 	// Breakdown describes proportions.Breakdown, from NewBreakdown: a
 	// comparison broken down by the values of one column.
 	Breakdown = "breakdown"
+	// Simulation describes simulate.Result, from simulate.Run: simulated
+	// coverage and rejection rates of clustered studies.
+	Simulation = "simulation"
+	// SimulationCurve describes simulate.Curve, from simulate.Sweep: a
+	// simulation at several values of the intracluster correlation.
+	SimulationCurve = "simulation-curve"
+	// Clusters describes clusters.Analysis, from clusters.Analyze: a
+	// clustered comparison with its unit-level analysis beside it.
+	Clusters = "clusters"
+	// ClusteredSampleSize describes planning.ClusteredSizeResult, from
+	// ClusteredSampleSize.
+	ClusteredSampleSize = "clustered-sample-size"
+	// ClusteredPower describes planning.ClusteredPowerGrid, from
+	// ClusteredPowerByClusters.
+	ClusteredPower = "clustered-power"
+	// Stratified describes strata.Analysis, from strata.Analyze: the
+	// stratified analysis of a breakdown.
+	Stratified = "stratified"
 	// Method describes one entry of the method registry:
 	// proportions.IntervalMethod, RateMethod or TestMethod.
 	Method = "method"
@@ -76,7 +94,7 @@ const (
 const suffix = ".schema.json"
 
 // FileName returns the file name of a schema, name + ".schema.json": the
-// name under which the others reference it (only Common is referenced).
+// name under which the others reference it (Common is referenced by every schema, Analysis by Clusters).
 func FileName(name string) string { return name + suffix }
 
 // Names returns the names of every schema, Common included, sorted.

@@ -19,9 +19,12 @@ import (
 
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
+	"github.com/propscope/propscope/proportions/clusters"
+	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/schema"
+	"github.com/propscope/propscope/proportions/strata"
 )
 
 // The schemas are written by hand from the documented meaning of each
@@ -42,7 +45,9 @@ var allNames = []string{
 	schema.Common, schema.Analysis, schema.Interval, schema.TestResult, schema.NumberNeeded,
 	schema.SampleSize, schema.Power, schema.Detectable, schema.PowerCurve, schema.ExactPower,
 	schema.ExactSampleSize, schema.CoveragePoint, schema.CoverageSurface, schema.CoverageSlice,
-	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown,
+	schema.TypeIError, schema.Recommendation, schema.RejectionRegion, schema.Method, schema.Bayes, schema.Breakdown, schema.Clusters,
+	schema.Simulation, schema.SimulationCurve,
+	schema.ClusteredSampleSize, schema.ClusteredPower, schema.Stratified,
 }
 
 // optionalFields are the only fields the library may leave out of an
@@ -741,6 +746,9 @@ func TestResultsMatchSchemas(t *testing.T) {
 	checkRegistry(t, c)
 	checkBayes(t, c)
 	checkBreakdowns(t, c)
+	checkSimulations(t, c)
+	checkClusters(t, c)
+	checkStratified(t, c)
 	if c.failed > 0 {
 		t.Fatalf("%d documents fail their schema", c.failed)
 	}
@@ -914,9 +922,25 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"an undocumented field in a posterior", ba, schema.Bayes, func(d obj) { first(d["groups"])["posterior"].(obj)["mode"] = 0.8 }},
 		{"a probability inside the region written as a string", ba, schema.Bayes, func(d obj) { d["probability_equivalent"] = "0.3" }},
 		{"no caution", ba, schema.Bayes, func(d obj) { delete(d, "caution") }},
+		{"a simulated coverage above 1", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["coverage"] = 1.2 }},
+		{"null simulated tests", mustSimulation(t), schema.Simulation, func(d obj) { d["tests"] = nil }},
+		{"a coverage where no study gave an interval", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["studies"] = 0 }},
+		{"a simulation with one cluster", mustSimulation(t), schema.Simulation, func(d obj) { d["plan"].(obj)["design"].(obj)["clusters1"] = 1 }},
+		{"a curve without its correlations", mustCurve(t), schema.SimulationCurve, func(d obj) { delete(d, "correlations") }},
+		{"a cluster with no units", mustClustered(t), schema.Clusters, func(d obj) {
+			d["data"].(obj)["group1"].([]any)[0].(obj)["trials"] = 0
+		}},
+		{"one cluster per group", mustClusteredPlan(t), schema.ClusteredSampleSize, func(d obj) { d["clusters1"] = 1 }},
+		{"null power lines", mustClusteredGrid(t), schema.ClusteredPower, func(d obj) { d["lines"] = nil }},
+		{"null other correlations", mustClustered(t), schema.Clusters, func(d obj) { d["other_correlations"] = nil }},
+		{"a design effect below 1", mustClustered(t), schema.Clusters, func(d obj) { d["design_effects"].([]any)[0].(obj)["value"] = 0.5 }},
 		{"a breakdown row with negative trials", mustBreakdown(t), schema.Breakdown, func(d obj) {
 			d["rows"].([]any)[0].(obj)["counts"].(obj)["n2"] = -1
 		}},
+		{"null homogeneity", mustStratified(t), schema.Stratified, func(d obj) { d["homogeneity"] = nil }},
+		{"an unknown stratified warning", mustStratified(t), schema.Stratified, func(d obj) { first(d["warnings"])["code"] = "simpson" }},
+		{"a stratum weight above 1", mustStratified(t), schema.Stratified, func(d obj) { first(d["strata"])["weight"] = 1.5 }},
+		{"an estimate without its key", mustStratified(t), schema.Stratified, func(d obj) { delete(d["interval"].(obj), "key") }},
 	}
 	for _, k := range cases {
 		b, err := json.Marshal(k.result)
@@ -947,7 +971,9 @@ func TestEmptyListsAreArrays(t *testing.T) {
 		planning.ExactPowerResult{}, planning.ExactSampleSizeResult{},
 		operating.Point{}, &operating.Surface{}, operating.Slice{}, &operating.Slice{},
 		operating.TypeIErrorCurve{}, &operating.TypeIErrorCurve{}, operating.Recommendation{}, &operating.Recommendation{},
-		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{},
+		operating.Decision{}, &operating.RejectionRegion{}, proportions.Breakdown{}, clusters.Analysis{},
+		simulate.Result{}, &simulate.Result{}, simulate.Curve{}, &simulate.Curve{},
+		planning.ClusteredSizeResult{}, planning.ClusteredPowerGrid{}, strata.Analysis{},
 	} {
 		b, err := json.Marshal(r)
 		if err != nil {
