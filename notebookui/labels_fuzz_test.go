@@ -112,7 +112,7 @@ func labelViews(t testing.TB, first, second, event string) (names []string, ds [
 // strataAnalysis is a small stratified analysis whose group labels,
 // event, breakdown column and block values are the given labels (a block
 // value cannot be empty or repeated, so the labels are prefixed).
-func strataAnalysis(t *testing.T, first, second, event string) strata.Analysis {
+func strataAnalysis(t testing.TB, first, second, event string) strata.Analysis {
 	t.Helper()
 	rows := []proportions.BreakdownRow{
 		{Value: "1 " + first, Counts: proportions.Counts{X1: 9, N1: 10, X2: 30, N2: 40}},
