@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/strata"
@@ -106,8 +107,32 @@ func labelViews(t testing.TB, first, second, event string) (names []string, ds [
 	add("stratified card", NewStrataCard(sa), nil)
 	sf, err := StrataForestChart(sa)
 	add("stratified forest chart", sf, err)
+	ba := bayesBase(t)
+	ba.Comparison.First.Label, ba.Comparison.Second.Label, ba.Comparison.Event = first, second, event
+	ba.Groups[0].Group.Label, ba.Groups[1].Group.Label = first, second
+	add("Bayesian card", NewBayesCard(ba), nil)
 	return names, ds
 }
+
+// bayesBase is a Bayesian analysis with an equivalence region, computed
+// once (its numbers do not depend on the labels, which each fuzz input
+// sets; the posterior chart, which integrates its curves anew each time,
+// is checked by TestPosteriorChartEscapesLabels instead).
+var bayesBase = func() func(t testing.TB) bayes.Analysis {
+	var once sync.Once
+	var a bayes.Analysis
+	var err error
+	return func(t testing.TB) bayes.Analysis {
+		once.Do(func() {
+			a, err = bayes.Analyze(proportions.Comparison{First: proportions.Group{Label: "a", Events: 41, Trials: 50},
+				Second: proportions.Group{Label: "b", Events: 33, Trials: 50}, Event: "e"}, bayes.WithEquivalence(-0.05, 0.05))
+		})
+		if err != nil {
+			t.Fatalf("Bayesian analysis: %v", err)
+		}
+		return a
+	}
+}()
 
 // strataAnalysis is a small stratified analysis whose group labels,
 // event, breakdown column and block values are the given labels (a block
