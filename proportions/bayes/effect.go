@@ -119,6 +119,15 @@ func (e *Effect) breaks(v float64, buf []float64) []float64 {
 	return buf
 }
 
+// identity reports whether v is the scale's no-effect value, where the
+// inner threshold equals the outer rate.
+func (e *Effect) identity(v float64) bool {
+	if e.Scale == proportions.Difference {
+		return v == 0
+	}
+	return v == 1
+}
+
 // inSupport reports whether v lies strictly inside the effect's range.
 func (e *Effect) inSupport(v float64) bool {
 	if e.Scale == proportions.Difference {
@@ -185,7 +194,21 @@ func (e *Effect) tailIntegral(v float64, upper bool) (p, err float64) {
 			return below
 		}
 	}
-	if val, er := e.rule.integrate(g, 1); er <= math.Max(absTol, relTol*math.Abs(val)) {
+	integrate := func() (float64, float64) { return e.rule.integrate(g, 1) }
+	if e.inner.ok() && e.identity(v) {
+		// the threshold is the outer rate itself (no effect at v): the
+		// inner table at the node's own log-odds
+		integrate = func() (float64, float64) {
+			return e.rule.integrateLogOdds(func(t float64) float64 {
+				below, above := e.inner.tailsAt(t)
+				if useAbove {
+					return above
+				}
+				return below
+			}, 1)
+		}
+	}
+	if val, er := integrate(); er <= math.Max(absTol, relTol*math.Abs(val)) {
 		return clamp01(val), er + e.tail + tableErr
 	}
 	var bb [4]float64

@@ -36,7 +36,7 @@ const (
 	panelWidth    = 2.5 // curvature widths of the outer log-odds density
 )
 
-type fnode struct{ o, oc, w float64 } // rate, 1 − rate, weight times outer density
+type fnode struct{ o, oc, t, w float64 } // rate, 1 − rate, log-odds, weight times outer density
 
 type fpanel struct {
 	n20  [20]fnode
@@ -70,7 +70,7 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 			t := c + half*gx20[k]
 			o, oc := logistic(t)
 			w := half * gw20[k] * math.Exp(rel(t))
-			p.n20[k] = fnode{o, oc, w}
+			p.n20[k] = fnode{o, oc, t, w}
 			p.mass += w
 		}
 		total += p.mass
@@ -95,7 +95,7 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 			for k := range gx10 {
 				t := c + half*gx10[k]
 				o, oc := logistic(t)
-				p.n10[k] = fnode{o, oc, half * gw10[k] * math.Exp(rel(t)) / total}
+				p.n10[k] = fnode{o, oc, t, half * gw10[k] * math.Exp(rel(t)) / total}
 			}
 		}
 		r.panels = append(r.panels, p)
@@ -151,4 +151,27 @@ func (r *fixedRule) integrate2(g func(o, oc float64) (float64, float64), bound1,
 		err2 += math.Abs(s2 - t2)
 	}
 	return v1, err1 + r.loose*bound1, v2, err2 + r.loose*bound2
+}
+
+// integrateLogOdds is integrate for an integrand given as a function of
+// the node's log-odds (where the inner threshold is the outer rate itself,
+// the tabulated distribution function takes it without two logarithms).
+func (r *fixedRule) integrateLogOdds(g func(t float64) float64, bound float64) (v, err float64) {
+	for i := range r.panels {
+		p := &r.panels[i]
+		var s20 float64
+		for _, nd := range p.n20 {
+			s20 += nd.w * g(nd.t)
+		}
+		v += s20
+		if p.n10 == nil {
+			continue
+		}
+		var s10 float64
+		for _, nd := range p.n10 {
+			s10 += nd.w * g(nd.t)
+		}
+		err += math.Abs(s20 - s10)
+	}
+	return v, err + r.loose*bound
 }
