@@ -48,20 +48,20 @@ func PosteriorChart(a bayes.Analysis, options ...ChartOption) (*Chart, error) {
 	title := fmt.Sprintf("What the data and the prior say about the share %s", event)
 	subtitle := fmt.Sprintf("posterior densities; prior: %s", a.PriorText())
 
-	// the rates' range: 6 posterior standard deviations around each mean
+	// the ranges: from the 0.0005 to the 0.9995 posterior quantile of each
+	// curve (and the equivalence region), with a little padding
 	rLo, rHi := 1.0, 0.0
 	for _, p := range post {
-		sd := math.Sqrt(p.Variance())
-		rLo, rHi = math.Min(rLo, p.Mean()-6*sd), math.Max(rHi, p.Mean()+6*sd)
+		rLo, rHi = math.Min(rLo, rateQuantile(p, rangeTail)), math.Max(rHi, rateQuantile(p, 1-rangeTail))
 	}
-	rLo, rHi, _ = niceRange(math.Max(rLo, 0), math.Min(rHi, 1), 0, 1)
+	rLo, rHi = paddedRange(rLo, rHi, 0, 1)
 	d := a.Effects[0]
-	half := (d.Upper - d.Lower) / 2
-	dLo, dHi := d.Median-3*half, d.Median+3*half
+	dLo, _, _ := diff.Quantile(rangeTail)
+	dHi, _, _ := diff.Quantile(1 - rangeTail)
 	if r := a.EquivalenceRegion; r != nil {
-		dLo, dHi = math.Min(dLo, r.Lower-half/4), math.Max(dHi, r.Upper+half/4)
+		dLo, dHi = math.Min(dLo, r.Lower), math.Max(dHi, r.Upper)
 	}
-	dLo, dHi, _ = niceRange(math.Max(dLo, -1), math.Min(dHi, 1), -1, 1)
+	dLo, dHi = paddedRange(dLo, dHi, -1, 1)
 
 	curve := func(lo, hi float64, f func(float64) float64) [][]float64 {
 		pts := make([][]float64, posteriorPoints)
@@ -138,6 +138,35 @@ func PosteriorChart(a bayes.Analysis, options ...ChartOption) (*Chart, error) {
 	option["series"] = []any{s1, s2, s3}
 	option["legend"] = legendAt([]any{first, second, dname})
 	return newChart("posterior", title, subtitle, s.heightOr(defaultHeight+140), option, table, notes)
+}
+
+// rangeTail is the posterior probability left out beyond each end of the
+// posterior chart's axes (before padding).
+const rangeTail = 0.0005
+
+// rateQuantile returns the q-quantile of a rate's beta posterior, by
+// bisection on its distribution function (to 10⁻⁹ of the rate).
+func rateQuantile(p bayes.Posterior, q float64) float64 {
+	lo, hi := 0.0, 1.0
+	for hi-lo > 1e-9*math.Max(hi, 1e-6) {
+		if m := (lo + hi) / 2; p.Below(m) < q {
+			lo = m
+		} else {
+			hi = m
+		}
+	}
+	return (lo + hi) / 2
+}
+
+// paddedRange widens [lo, hi] by 5% of its width on each side, then to
+// the grid of a twentieth of a nice step, inside [min, max]: close to the
+// data at any sample size, where niceRange's fixed 0.02 would swamp a
+// posterior a few tenths of a percentage point wide.
+func paddedRange(lo, hi, min, max float64) (float64, float64) {
+	pad := 0.05 * (hi - lo)
+	lo, hi = lo-pad, hi+pad
+	step := niceStep((hi - lo) / 20)
+	return math.Max(min, round6(math.Floor(lo/step)*step)), math.Min(max, round6(math.Ceil(hi/step)*step))
 }
 
 func strconvProb(p float64) string {

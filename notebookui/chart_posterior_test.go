@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"gonum.org/v1/gonum/stat/distuv"
+
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/bayes"
 )
@@ -116,5 +118,62 @@ func BenchmarkPosteriorChart(b *testing.B) {
 			b.Fatal(err)
 		}
 		_ = c.HTML()
+	}
+}
+
+// The axes fit the posteriors: each rate axis holds every group's
+// posterior from its 0.0005 to its 0.9995 quantile (gonum's beta quantile
+// function, independent of the chart's bisection) and is at most 1.4
+// times as wide as that span; the difference axis leaves at most 0.0005
+// of the difference's posterior beyond each end (its distribution
+// function) and is at most 1.4 times as wide as the span of the normal
+// approximation's 0.0005 to 0.9995 quantiles where that approximation is
+// close (10⁶ per group), 3 times where the posterior is skewed. The old
+// ranges (six standard deviations and at least two percentage points of
+// padding) were ten times too wide at 10⁶ per group.
+func TestPosteriorChartRangesFit(t *testing.T) {
+	for _, k := range [][4]int64{{41, 50, 33, 50}, {500_000, 1_000_000, 499_000, 1_000_000}, {0, 20, 3, 20}, {2, 400, 9, 380}} {
+		c, err := proportions.NewComparison(k[0], k[1], k[2], k[3], proportions.Labels{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, err := bayes.Analyze(c)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ch, err := PosteriorChart(a)
+		if err != nil {
+			t.Fatal(err)
+		}
+		axes := optionOfChart(t, ch)["xAxis"].([]any)
+		ends := func(i int) (float64, float64) {
+			ax := axes[i].(map[string]any)
+			return ax["min"].(float64), ax["max"].(float64)
+		}
+		rLo, rHi := ends(0)
+		qLo, qHi := 1.0, 0.0
+		for _, g := range a.Groups {
+			b := distuv.Beta{Alpha: g.Posterior.EventShape, Beta: g.Posterior.NonEventShape}
+			qLo, qHi = math.Min(qLo, b.Quantile(0.0005)), math.Max(qHi, b.Quantile(0.9995))
+		}
+		if rLo > qLo || rHi < qHi || rHi-rLo > 1.4*(qHi-qLo) {
+			t.Errorf("%v: rate axis %v to %v, the posteriors' 0.0005 to 0.9995 quantiles %v to %v", k, rLo, rHi, qLo, qHi)
+		}
+		dLo, dHi := ends(1)
+		p1, p2 := a.Groups[0].Posterior, a.Groups[1].Posterior
+		diff, _ := bayes.NewEffect(proportions.Difference, bayes.NewPosterior(p1.EventShape, p1.NonEventShape),
+			bayes.NewPosterior(p2.EventShape, p2.NonEventShape))
+		below, _, _ := diff.Tails(dLo)
+		_, above, _ := diff.Tails(dHi)
+		sd := math.Sqrt(p1.Variance() + p2.Variance())
+		normalSpan := 2 * 3.2905 * sd // z at 0.9995
+		widest := 3.0
+		if k[1] >= 1_000_000 {
+			widest = 1.4
+		}
+		if below > 0.0005 || above > 0.0005 || dHi-dLo > widest*normalSpan {
+			t.Errorf("%v: difference axis %v to %v leaves %.2g below and %.2g above, %.2f normal spans wide",
+				k, dLo, dHi, below, above, (dHi-dLo)/normalSpan)
+		}
 	}
 }

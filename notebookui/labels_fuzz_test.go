@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/planning"
 	"github.com/propscope/propscope/proportions/strata"
@@ -41,7 +42,7 @@ var hostileLabelSeeds = []string{
 // labels (rates, difference intervals, confidence curve, power by size and
 // by difference), the result card and a hand-made explorer frame around a
 // chart, the card and a message.
-func labelViews(t *testing.T, first, second, event string) (names []string, ds []Displayable) {
+func labelViews(t testing.TB, first, second, event string) (names []string, ds []Displayable) {
 	t.Helper()
 	a := sampleAnalysis(first, second)
 	a.Comparison.Event = event
@@ -109,23 +110,46 @@ func labelViews(t *testing.T, first, second, event string) (names []string, ds [
 	add("stratified card", NewStrataCard(sa), nil)
 	sf, err := StrataForestChart(sa)
 	add("stratified forest chart", sf, err)
+	ba := bayesBase(t)
+	ba.Comparison.First.Label, ba.Comparison.Second.Label, ba.Comparison.Event = first, second, event
+	ba.Groups[0].Group.Label, ba.Groups[1].Group.Label = first, second
+	add("Bayesian card", NewBayesCard(ba), nil)
 	return names, ds
 }
 
 // segmentsCardFor is the segments card of the fixture with the labels as
 // the groups, the event, the breakdown column and a segment's value.
-func segmentsCardFor(t *testing.T, first, second, event string) SegmentsCard {
+func segmentsCardFor(t testing.TB, first, second, event string) SegmentsCard {
 	c := segmentsFixture(t)
 	c.Result.First, c.Result.Second, c.Result.Event, c.Result.By = first, second, event, second
 	c.Result.Segments[0].Value = first
 	c.Result.Segments[3].Value = event // the empty segment, in the flagged table
 	return c
 }
+// bayesBase is a Bayesian analysis with an equivalence region, computed
+// once (its numbers do not depend on the labels, which each fuzz input
+// sets; the posterior chart, which integrates its curves anew each time,
+// is checked by TestPosteriorChartEscapesLabels instead).
+var bayesBase = func() func(t testing.TB) bayes.Analysis {
+	var once sync.Once
+	var a bayes.Analysis
+	var err error
+	return func(t testing.TB) bayes.Analysis {
+		once.Do(func() {
+			a, err = bayes.Analyze(proportions.Comparison{First: proportions.Group{Label: "a", Events: 41, Trials: 50},
+				Second: proportions.Group{Label: "b", Events: 33, Trials: 50}, Event: "e"}, bayes.WithEquivalence(-0.05, 0.05))
+		})
+		if err != nil {
+			t.Fatalf("Bayesian analysis: %v", err)
+		}
+		return a
+	}
+}()
 
 // strataAnalysis is a small stratified analysis whose group labels,
 // event, breakdown column and block values are the given labels (a block
 // value cannot be empty or repeated, so the labels are prefixed).
-func strataAnalysis(t *testing.T, first, second, event string) strata.Analysis {
+func strataAnalysis(t testing.TB, first, second, event string) strata.Analysis {
 	t.Helper()
 	rows := []proportions.BreakdownRow{
 		{Value: "1 " + first, Counts: proportions.Counts{X1: 9, N1: 10, X2: 30, N2: 40}},
@@ -144,7 +168,7 @@ func strataAnalysis(t *testing.T, first, second, event string) strata.Analysis {
 }
 
 // renders is labelViews as HTML with their JSON forms, and Page.
-func renders(t *testing.T, first, second, event string) (names, pages []string, jsons [][]byte) {
+func renders(t testing.TB, first, second, event string) (names, pages []string, jsons [][]byte) {
 	t.Helper()
 	names, ds := labelViews(t, first, second, event)
 	for i, d := range ds {
@@ -165,7 +189,7 @@ func renders(t *testing.T, first, second, event string) (names, pages []string, 
 
 // whatIfFrame is the what-if explorer's own frame for the labels, with the
 // quick methods so that a fuzz run stays fast.
-func whatIfFrame(t *testing.T, first, second, event string) string {
+func whatIfFrame(t testing.TB, first, second, event string) string {
 	t.Helper()
 	c := proportions.Comparison{First: proportions.Group{Label: first, Events: 3, Trials: 10},
 		Second: proportions.Group{Label: second, Events: 7, Trials: 10}, Event: event}
@@ -178,13 +202,12 @@ func whatIfFrame(t *testing.T, first, second, event string) string {
 	return f.HTML()
 }
 
-// benign renders the views once with plain labels: the reference skeleton.
+// benign holds the skeletons of the views rendered once with plain
+// labels: the reference every fuzzed rendering is compared with.
 var benign struct {
-	once          sync.Once
-	names, pages  []string
-	whatIf        string
-	engineScript  string
-	renderFailure string
+	once      sync.Once
+	names     []string
+	skeletons []string
 }
 
 // FuzzLabelsStayData renders arbitrary labels (both groups and the event)
@@ -201,42 +224,69 @@ func FuzzLabelsStayData(f *testing.F) {
 	}
 	f.Add(markerPayload, markerPayload, markerPayload)
 	f.Fuzz(func(t *testing.T, first, second, event string) {
-		benign.once.Do(func() {
-			benign.names, benign.pages, _ = renders(t, "alpha", "beta", "gamma")
-			benign.whatIf = whatIfFrame(t, "alpha", "beta", "gamma")
-			benign.engineScript = EngineScript()
-		})
-		names, pages, jsons := renders(t, first, second, event)
-		pages = append(pages, whatIfFrame(t, first, second, event))
-		want := append(append([]string(nil), benign.pages...), benign.whatIf)
-		names = append(names, "what-if explorer frame")
-		for i := range pages {
-			got, err := skeleton(strings.ReplaceAll(pages[i], benign.engineScript, ""))
-			if err != nil {
-				t.Fatalf("%s: %v", names[i], err)
-			}
-			ref, err := skeleton(strings.ReplaceAll(want[i], benign.engineScript, ""))
-			if err != nil {
-				t.Fatalf("%s (plain labels): %v", names[i], err)
-			}
-			if got != ref {
-				t.Fatalf("%s: the labels %q, %q, %q changed the page's structure or code:\n%s",
-					names[i], first, second, event, firstDifference(ref, got))
-			}
-		}
-		for i, b := range jsons {
-			if !json.Valid(b) {
-				t.Fatalf("%s: JSON form is not valid JSON", names[i])
-			}
-		}
-		checkLabelsAsData(t, pages[0], first, second)
+		checkLabelsStayData(t, capLabel(first), capLabel(second), capLabel(event))
 	})
+}
+
+// fuzzLabelBytes is the longest label the fuzz targets render. Rendering
+// cost is linear in a label's length, but each label lands in the views
+// about 140 times (axis, tooltips, legend, table, notes, the JSON forms
+// and the frames around them), so an execution costs about 2 µs per byte
+// of label on top of about 5 ms; the fuzzer lengthens its inputs as long
+// as a longer one reaches new code, and minimises each such input for up
+// to a minute of executions, which brought runs to a near stall once
+// labels reached tens of kilobytes. Nothing in the views depends on a
+// label's length beyond a few hundred bytes (wrapping widths, shortened
+// forms), so longer inputs are cut here, which also stops the fuzzer from
+// growing them (a cut input reaches no new code), and
+// TestLongLabelsStayData runs the same check on hostile labels of 64 kB.
+const fuzzLabelBytes = 512
+
+// capLabel cuts a fuzz input to fuzzLabelBytes (possibly inside a UTF-8
+// sequence: invalid UTF-8 is part of what the targets feed anyway).
+func capLabel(s string) string { return s[:min(len(s), fuzzLabelBytes)] }
+
+// checkLabelsStayData is the body of FuzzLabelsStayData (also run by
+// TestLongLabelsStayData and timed by BenchmarkLabelsStayData).
+func checkLabelsStayData(t testing.TB, first, second, event string) {
+	t.Helper()
+	benign.once.Do(func() {
+		names, pages, _ := renders(t, "alpha", "beta", "gamma")
+		pages = append(pages, whatIfFrame(t, "alpha", "beta", "gamma"))
+		benign.names = append(names, "what-if explorer frame")
+		for i, p := range pages {
+			sk, err := pageSkeleton(p)
+			if err != nil {
+				t.Fatalf("%s (plain labels): %v", benign.names[i], err)
+			}
+			benign.skeletons = append(benign.skeletons, sk)
+		}
+	})
+	_, pages, jsons := renders(t, first, second, event)
+	pages = append(pages, whatIfFrame(t, first, second, event))
+	names := benign.names
+	for i := range pages {
+		got, err := pageSkeleton(pages[i])
+		if err != nil {
+			t.Fatalf("%s: %v", names[i], err)
+		}
+		if ref := benign.skeletons[i]; got != ref {
+			t.Fatalf("%s: the labels %q, %q, %q changed the page's structure or code:\n%s",
+				names[i], first, second, event, firstDifference(ref, got))
+		}
+	}
+	for i, b := range jsons {
+		if !json.Valid(b) {
+			t.Fatalf("%s: JSON form is not valid JSON", names[i])
+		}
+	}
+	checkLabelsAsData(t, pages[0], first, second)
 }
 
 // checkLabelsAsData decodes the option expression of the rates chart's
 // script (JSON with our callbacks as code) after setting the callbacks
 // aside, and checks that the category axis holds the labels as strings.
-func checkLabelsAsData(t *testing.T, page, first, second string) {
+func checkLabelsAsData(t testing.TB, page, first, second string) {
 	t.Helper()
 	const start = "var option = function () { return "
 	i := strings.Index(page, start)
@@ -309,6 +359,27 @@ func stringEnd(s string, i int) int {
 	}
 	return min(j+1, len(s))
 }
+
+// pageSkeleton is the skeleton of a rendered view with the chart engine's
+// script (about 1 MB of fixed code, the same in every page that has it)
+// set aside. The engine is found by its opening tag and compared whole,
+// which costs one pass over the page: a search for the whole script as a
+// pattern (strings.ReplaceAll) hashes its megabyte on every call.
+func pageSkeleton(page string) (string, error) {
+	engine := engineScriptOnce()
+	open := engine[:strings.IndexByte(engine, '>')+1]
+	for {
+		i := strings.Index(page, open)
+		if i < 0 || !strings.HasPrefix(page[i:], engine) {
+			break
+		}
+		page = page[:i] + page[i+len(engine):]
+	}
+	return skeleton(page)
+}
+
+// engineScriptOnce is EngineScript, built once per test binary.
+var engineScriptOnce = sync.OnceValue(EngineScript)
 
 // skeleton reduces an HTML fragment or page to what must not depend on
 // user text: each tag with its name and attribute names (values set
@@ -494,4 +565,36 @@ func FuzzOptionStringsStayData(f *testing.F) {
 			t.Fatalf("OptionJSON gives back %q and %q, want %q and the formatter's source", back.Title.Text, back.Tooltip.Formatter, wantText)
 		}
 	})
+}
+
+// BenchmarkLabelsStayData times one execution of FuzzLabelsStayData's body
+// at growing label lengths (the fuzzer lengthens its inputs as it runs).
+// Target (issue 20): the cost grows linearly with the labels' length
+// (compare the per-byte cost between the sizes), so that with the fuzz
+// inputs cut to fuzzLabelBytes a run keeps a steady rate.
+func BenchmarkLabelsStayData(b *testing.B) {
+	b.Log("target: linear in the label length (a fixed cost per byte), so that capped fuzz inputs keep a steady rate")
+	for _, n := range []int{8, 256, 4096} {
+		label := strings.Repeat(`<a href="x">'\`, n/14+1)[:n]
+		b.Run(fmt.Sprintf("label=%dB", n), func(b *testing.B) {
+			for b.Loop() {
+				checkLabelsStayData(b, label, label+"2", label+"e")
+			}
+		})
+	}
+}
+
+// TestLongLabelsStayData is FuzzLabelsStayData's check on the hostile
+// seeds repeated to 64 kB each, the lengths the fuzz targets cut off.
+func TestLongLabelsStayData(t *testing.T) {
+	if testing.Short() {
+		t.Skip("renders labels of 64 kB")
+	}
+	long := func(i int) string {
+		s := hostileLabelSeeds[i%len(hostileLabelSeeds)] + hostileLabelSeeds[(i+5)%len(hostileLabelSeeds)] + "x"
+		return strings.Repeat(s, 64<<10/len(s)+1)[:64<<10]
+	}
+	for i := 0; i < 3; i++ {
+		checkLabelsStayData(t, long(i), long(i+11), long(i+23))
+	}
 }

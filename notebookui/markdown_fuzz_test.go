@@ -2,6 +2,7 @@ package notebookui
 
 import (
 	"bytes"
+	"fmt"
 	"strings"
 	"sync"
 	"testing"
@@ -17,7 +18,7 @@ import (
 // Markdown syntax.
 var markdownRenderer = goldmark.New(goldmark.WithExtensions(extension.GFM, extension.Footnote, extension.DefinitionList))
 
-func markdownHTML(t *testing.T, md string) string {
+func markdownHTML(t testing.TB, md string) string {
 	t.Helper()
 	var b bytes.Buffer
 	if err := markdownRenderer.Convert([]byte(md), &b); err != nil {
@@ -40,8 +41,8 @@ var markdownLabelSeeds = []string{
 
 // markdownBenign is the Markdown of the views with plain labels, rendered.
 var markdownBenign struct {
-	once  sync.Once
-	pages []string
+	once      sync.Once
+	skeletons []string
 }
 
 // FuzzMarkdownLabels renders every view's Markdown with arbitrary labels
@@ -55,30 +56,67 @@ func FuzzMarkdownLabels(f *testing.F) {
 		f.Add(s, markdownLabelSeeds[(i+3)%len(markdownLabelSeeds)], markdownLabelSeeds[(i+11)%len(markdownLabelSeeds)])
 	}
 	f.Fuzz(func(t *testing.T, first, second, event string) {
-		markdownBenign.once.Do(func() {
-			_, ds := labelViews(t, "alpha", "beta", "gamma")
-			for _, d := range ds {
-				markdownBenign.pages = append(markdownBenign.pages, markdownHTML(t, d.Markdown()))
-			}
-		})
-		first, second, event = orDefault(first, "group 1"), orDefault(second, "group 2"), orDefault(event, "event")
-		names, ds := labelViews(t, first, second, event)
-		for i, d := range ds {
-			md := d.Markdown()
-			got, err := skeleton(markdownHTML(t, md))
-			if err != nil {
-				t.Fatalf("%s: %v", names[i], err)
-			}
-			want, err := skeleton(markdownBenign.pages[i])
+		checkMarkdownLabels(t, capLabel(first), capLabel(second), capLabel(event))
+	})
+}
+
+// checkMarkdownLabels is the body of FuzzMarkdownLabels (also run by
+// TestLongMarkdownLabels and timed by BenchmarkMarkdownLabels); see
+// fuzzLabelBytes for why the fuzz target cuts its labels.
+func checkMarkdownLabels(t testing.TB, first, second, event string) {
+	t.Helper()
+	markdownBenign.once.Do(func() {
+		_, ds := labelViews(t, "alpha", "beta", "gamma")
+		for _, d := range ds {
+			sk, err := skeleton(markdownHTML(t, d.Markdown()))
 			if err != nil {
 				t.Fatal(err)
 			}
-			if got != want {
-				t.Fatalf("%s: the labels %q, %q, %q changed the Markdown's elements:\n%s\nMarkdown:\n%s",
-					names[i], first, second, event, firstDifference(want, got), md)
-			}
+			markdownBenign.skeletons = append(markdownBenign.skeletons, sk)
 		}
 	})
+	first, second, event = orDefault(first, "group 1"), orDefault(second, "group 2"), orDefault(event, "event")
+	names, ds := labelViews(t, first, second, event)
+	for i, d := range ds {
+		md := d.Markdown()
+		got, err := skeleton(markdownHTML(t, md))
+		if err != nil {
+			t.Fatalf("%s: %v", names[i], err)
+		}
+		if want := markdownBenign.skeletons[i]; got != want {
+			t.Fatalf("%s: the labels %q, %q, %q changed the Markdown's elements:\n%s\nMarkdown:\n%s",
+				names[i], first, second, event, firstDifference(want, got), md)
+		}
+	}
+}
+
+// TestLongMarkdownLabels is FuzzMarkdownLabels' check on the Markdown
+// seeds repeated to 64 kB each, the lengths the fuzz target cuts off.
+func TestLongMarkdownLabels(t *testing.T) {
+	if testing.Short() {
+		t.Skip("renders labels of 64 kB")
+	}
+	long := func(i int) string {
+		s := markdownLabelSeeds[i%len(markdownLabelSeeds)] + " " + markdownLabelSeeds[(i+7)%len(markdownLabelSeeds)] + " x"
+		return strings.Repeat(s, 64<<10/len(s)+1)[:64<<10]
+	}
+	for i := 0; i < 3; i++ {
+		checkMarkdownLabels(t, long(i), long(i+13), long(i+29))
+	}
+}
+
+// BenchmarkMarkdownLabels times one execution of FuzzMarkdownLabels' body
+// at growing label lengths.
+func BenchmarkMarkdownLabels(b *testing.B) {
+	b.Log("target: linear in the label length (a fixed cost per byte), so that capped fuzz inputs keep a steady rate")
+	for _, n := range []int{8, 256, 4096} {
+		label := strings.Repeat("*a* [b](c) <d> #e `f` ", n/22+1)[:n]
+		b.Run(fmt.Sprintf("label=%dB", n), func(b *testing.B) {
+			for b.Loop() {
+				checkMarkdownLabels(b, label, label+"2", label+"e")
+			}
+		})
+	}
 }
 
 func orDefault(s, def string) string {

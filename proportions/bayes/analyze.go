@@ -189,13 +189,14 @@ func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 	}
 	var errMax float64
 	var er float64
-	a.ProbabilityFirstHigher, _, er, a.Exact = ProbabilityFirstHigher(post[0], post[1])
-	errMax = math.Max(errMax, er)
-
+	// one posterior of the difference serves every number of the section
+	// (its outer rule and inner table are the costly part)
 	diff, err := NewEffect(proportions.Difference, post[0], post[1])
 	if err != nil {
 		return Analysis{}, err
 	}
+	a.ProbabilityFirstHigher, _, er, a.Exact = probabilityFirstHigher(post[0], post[1], diff)
+	errMax = math.Max(errMax, er)
 	if s.margin == 0 {
 		a.ProbabilityBeyondMargin = a.ProbabilityFirstHigher
 	} else {
@@ -210,7 +211,7 @@ func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 	for _, sc := range []proportions.Scale{proportions.Difference, proportions.Ratio, proportions.OddsRatio} {
 		e := diff
 		if sc != proportions.Difference {
-			e, _ = NewEffect(sc, post[0], post[1])
+			e, _ = diff.onScale(sc)
 		}
 		sum, err := summarize(e, s.level)
 		if err != nil {
@@ -340,9 +341,9 @@ func sensitivityRow(c proportions.Comparison, p1, p2 Prior, s settings) (Sensiti
 	q1, q2 := p1.Update(c.First.Events, c.First.Trials), p2.Update(c.Second.Events, c.Second.Trials)
 	row := SensitivityRow{Priors: [2]Prior{p1, p2}}
 	var errMax, er float64
-	row.ProbabilityFirstHigher, _, er, _ = ProbabilityFirstHigher(q1, q2)
-	errMax = er
 	diff, _ := NewEffect(proportions.Difference, q1, q2)
+	row.ProbabilityFirstHigher, _, er, _ = probabilityFirstHigher(q1, q2, diff)
+	errMax = er
 	med, em, err := diff.Quantile(0.5)
 	if err != nil {
 		return row, 0, err

@@ -27,6 +27,7 @@ type Effect struct {
 	lo, hi, tail float64 // the outer posterior's log-odds window and its truncation bound
 	innerMax     float64 // the inner density's maximum (+Inf for a shape below 1)
 	rule         fixedRule
+	inner        cdfTable // the inner posterior's distribution function, when tabulated
 }
 
 // NewEffect returns the posterior of the effect on the scale (Difference,
@@ -43,7 +44,22 @@ func NewEffect(scale proportions.Scale, first, second Posterior) (*Effect, error
 	e.lo, e.hi, e.tail = out.window()
 	e.innerMax = in.maxDensity()
 	e.rule = newFixedRule(out, e.lo, e.hi)
+	e.inner = newCDFTable(in)
 	return e, nil
+}
+
+// onScale returns the posterior of another effect of the same two rates,
+// reusing the outer rule and the inner table (they depend only on the
+// posteriors).
+func (e *Effect) onScale(scale proportions.Scale) (*Effect, error) {
+	switch scale {
+	case proportions.Difference, proportions.Ratio, proportions.OddsRatio:
+	default:
+		return NewEffect(scale, e.First, e.Second)
+	}
+	o := *e
+	o.Scale = scale
+	return &o, nil
 }
 
 func (e *Effect) outer() (out, in Posterior) {
@@ -103,6 +119,15 @@ func (e *Effect) breaks(v float64, buf []float64) []float64 {
 	return buf
 }
 
+// identity reports whether v is the scale's no-effect value, where the
+// inner threshold equals the outer rate.
+func (e *Effect) identity(v float64) bool {
+	if e.Scale == proportions.Difference {
+		return v == 0
+	}
+	return v == 1
+}
+
 // inSupport reports whether v lies strictly inside the effect's range.
 func (e *Effect) inSupport(v float64) bool {
 	if e.Scale == proportions.Difference {
@@ -157,8 +182,34 @@ func (e *Effect) tailIntegral(v float64, upper bool) (p, err float64) {
 		}
 		return in.Below(z)
 	}
-	if val, er := e.rule.integrate(g, 1); er <= math.Max(absTol, relTol*math.Abs(val)) {
-		return clamp01(val), er + e.tail
+	tableErr := 0.0
+	if e.inner.ok() {
+		tableErr = e.inner.err // the integrand's error, over an outer mass of at most 1
+		g = func(o, oc float64) float64 {
+			z, zc, _ := e.threshold(o, oc, v)
+			below, above := e.inner.tails(z, zc)
+			if useAbove {
+				return above
+			}
+			return below
+		}
+	}
+	integrate := func() (float64, float64) { return e.rule.integrate(g, 1) }
+	if e.inner.ok() && e.identity(v) {
+		// the threshold is the outer rate itself (no effect at v): the
+		// inner table at the node's own log-odds
+		integrate = func() (float64, float64) {
+			return e.rule.integrateLogOdds(func(t float64) float64 {
+				below, above := e.inner.tailsAt(t)
+				if useAbove {
+					return above
+				}
+				return below
+			}, 1)
+		}
+	}
+	if val, er := integrate(); er <= math.Max(absTol, relTol*math.Abs(val)) {
+		return clamp01(val), er + e.tail + tableErr
 	}
 	var bb [4]float64
 	r := quad.Integrate(func(t float64) float64 {
@@ -166,7 +217,53 @@ func (e *Effect) tailIntegral(v float64, upper bool) (p, err float64) {
 		l, _ := out.ell(t)
 		return math.Exp(l) * g(o, oc)
 	}, e.lo, e.hi, e.breaks(v, bb[:0]), absTol, relTol)
-	return clamp01(r.Value), r.Err + e.tail
+	return clamp01(r.Value), r.Err + e.tail + tableErr
+}
+
+// tailDensity returns tail1(v, upper) with its error estimate and the
+// density at v, from one pass over the fixed rule's nodes (the threshold
+// and its logarithms serve both) when the inner distribution function is
+// tabulated and both estimates are within the tolerances; otherwise from
+// tail1 and Density. The quantile search and the highest-density interval
+// need both at each step.
+func (e *Effect) tailDensity(v float64, upper bool) (p, perr, f float64) {
+	if !e.inSupport(v) || !e.inner.ok() || math.IsInf(e.innerMax, 1) {
+		p, perr = e.tail1(v, upper)
+		f, _ = e.Density(v)
+		return p, perr, f
+	}
+	_, in := e.outer()
+	useAbove := upper != e.outerFirst
+	jac := 1.0
+	if e.Scale != proportions.Difference {
+		m := math.Min(1, v)
+		jac = math.Max(1, 1/(4*m*m))
+	}
+	a1, b1 := in.EventShape-1, in.NonEventShape-1
+	g := func(o, oc float64) (float64, float64) {
+		z, zc, dz := e.threshold(o, oc, v)
+		if z <= 0 || zc <= 0 {
+			if (z <= 0) == useAbove {
+				return 1, 0
+			}
+			return 0, 0
+		}
+		lz, lzc := math.Log(z), math.Log(zc)
+		below, above := e.inner.tailsAt(lz - lzc)
+		dens := math.Exp(a1*lz+b1*lzc-in.lbeta) * dz
+		if useAbove {
+			return above, dens
+		}
+		return below, dens
+	}
+	bound := e.innerMax * jac
+	pv, pe, fv, fe := e.rule.integrate2(g, 1, bound)
+	if pe > math.Max(absTol, relTol*math.Abs(pv)) || fe > relTol*math.Abs(fv) {
+		p, perr = e.tail1(v, upper)
+		f, _ = e.Density(v)
+		return p, perr, f
+	}
+	return clamp01(pv), pe + e.tail + e.inner.err, fv
 }
 
 // CDF returns P(E ≤ v) and its error estimate.
@@ -251,13 +348,14 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 	if upper {
 		target = 1 - p
 	}
-	// g(s) = tail(s) − target, increasing in s for the lower tail
-	g := func(s float64) (float64, float64) {
-		p, er := e.tail1(e.fromSearch(s), upper)
+	// g(s) = tail(s) − target, increasing in s for the lower tail, with
+	// its error estimate and the density at s
+	g := func(s float64) (float64, float64, float64) {
+		p, er, f := e.tailDensity(e.fromSearch(s), upper)
 		if upper {
-			return target - p, er
+			return target - p, er, f
 		}
-		return p - target, er
+		return p - target, er, f
 	}
 	m, sd := e.approx()
 	s0 := m + sd*normalQuantile(p)
@@ -268,8 +366,10 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 	}
 	s := s0
 	var gv, ge float64
+	var f, fv float64 // fv: the density at the last point evaluated
 	for i := 0; i < 100; i++ {
-		gv, ge = g(s)
+		gv, ge, f = g(s)
+		fv = f
 		if math.Abs(gv) <= ge { // zero within the distribution function's error estimate
 			break
 		}
@@ -278,7 +378,6 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 		} else {
 			hi = s
 		}
-		f, _ := e.Density(e.fromSearch(s))
 		if e.Scale != proportions.Difference {
 			f *= e.fromSearch(s) // density of log E
 		}
@@ -303,13 +402,14 @@ func (e *Effect) Quantile(p float64) (v, err float64, fail error) {
 		s = next
 	}
 	v = e.fromSearch(s)
-	f, _ := e.Density(v)
+	// the density at the last point evaluated: v itself, or a point within
+	// the search tolerance of it
 	err = 1e-12 * sd
 	if e.Scale != proportions.Difference {
 		err *= v
 	}
-	if f > 0 {
-		err += ge / f
+	if fv > 0 {
+		err += ge / fv
 	}
 	return v, err, nil
 }

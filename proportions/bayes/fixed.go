@@ -23,7 +23,9 @@ import (
 // window's truncation bound. When that estimate is not within the
 // tolerances (a kink of the integrand in the body of the outer posterior,
 // a sharp inner factor) the adaptive quadrature takes over, so the fixed
-// rule changes the cost, not the accuracy.
+// rule changes the cost, not the accuracy. The weights are normalised by
+// the window's total mass (see Posterior.relEll), which moves a value by
+// at most the window's truncation bound, already part of the estimate.
 
 // companionMass is the outer mass below which a panel gets no 10-node
 // companion (its error counts as twice its mass) and droppedMass the mass
@@ -34,7 +36,7 @@ const (
 	panelWidth    = 2.5 // curvature widths of the outer log-odds density
 )
 
-type fnode struct{ o, oc, w float64 } // rate, 1 − rate, weight times outer density
+type fnode struct{ o, oc, t, w float64 } // rate, 1 − rate, log-odds, weight times outer density
 
 type fpanel struct {
 	n20  [20]fnode
@@ -56,20 +58,31 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 	n := int(math.Ceil((hi - lo) / (panelWidth * sdT)))
 	n = max(1, min(n, 400))
 	h := (hi - lo) / float64(n)
-	var r fixedRule
-	r.panels = make([]fpanel, 0, n)
-	for i := 0; i < n; i++ {
-		pa := lo + float64(i)*h
-		c, half := pa+h/2, h/2
-		var p fpanel
+	// the 20-node panels first, on the density relative to its peak
+	// (Posterior.relEll), then normalised by their total mass
+	all := make([]fpanel, n)
+	rel := out.relEllFunc()
+	var total float64
+	for i := range all {
+		c, half := lo+float64(i)*h+h/2, h/2
+		p := &all[i]
 		for k := range gx20 {
 			t := c + half*gx20[k]
 			o, oc := logistic(t)
-			l, _ := out.ell(t)
-			w := half * gw20[k] * math.Exp(l)
-			p.n20[k] = fnode{o, oc, w}
+			w := half * gw20[k] * math.Exp(rel(t))
+			p.n20[k] = fnode{o, oc, t, w}
 			p.mass += w
 		}
+		total += p.mass
+	}
+	var r fixedRule
+	r.panels = all[:0]
+	for i := range all {
+		p := all[i]
+		for k := range p.n20 {
+			p.n20[k].w /= total
+		}
+		p.mass /= total
 		switch {
 		case p.mass < droppedMass:
 			r.loose += 2 * p.mass
@@ -77,12 +90,12 @@ func newFixedRule(out Posterior, lo, hi float64) fixedRule {
 		case p.mass < companionMass:
 			r.loose += 2 * p.mass
 		default:
+			c, half := lo+float64(i)*h+h/2, h/2
 			p.n10 = make([]fnode, 10)
 			for k := range gx10 {
 				t := c + half*gx10[k]
 				o, oc := logistic(t)
-				l, _ := out.ell(t)
-				p.n10[k] = fnode{o, oc, half * gw10[k] * math.Exp(l)}
+				p.n10[k] = fnode{o, oc, t, half * gw10[k] * math.Exp(rel(t)) / total}
 			}
 		}
 		r.panels = append(r.panels, p)
@@ -106,6 +119,57 @@ func (r *fixedRule) integrate(g func(o, oc float64) float64, bound float64) (v, 
 		var s10 float64
 		for _, nd := range p.n10 {
 			s10 += nd.w * g(nd.o, nd.oc)
+		}
+		err += math.Abs(s20 - s10)
+	}
+	return v, err + r.loose*bound
+}
+
+// integrate2 is integrate for two integrands computed together (sharing
+// the work of each node), with their bounds.
+func (r *fixedRule) integrate2(g func(o, oc float64) (float64, float64), bound1, bound2 float64) (v1, err1, v2, err2 float64) {
+	for i := range r.panels {
+		p := &r.panels[i]
+		var s1, s2 float64
+		for _, nd := range p.n20 {
+			a, b := g(nd.o, nd.oc)
+			s1 += nd.w * a
+			s2 += nd.w * b
+		}
+		v1 += s1
+		v2 += s2
+		if p.n10 == nil {
+			continue
+		}
+		var t1, t2 float64
+		for _, nd := range p.n10 {
+			a, b := g(nd.o, nd.oc)
+			t1 += nd.w * a
+			t2 += nd.w * b
+		}
+		err1 += math.Abs(s1 - t1)
+		err2 += math.Abs(s2 - t2)
+	}
+	return v1, err1 + r.loose*bound1, v2, err2 + r.loose*bound2
+}
+
+// integrateLogOdds is integrate for an integrand given as a function of
+// the node's log-odds (where the inner threshold is the outer rate itself,
+// the tabulated distribution function takes it without two logarithms).
+func (r *fixedRule) integrateLogOdds(g func(t float64) float64, bound float64) (v, err float64) {
+	for i := range r.panels {
+		p := &r.panels[i]
+		var s20 float64
+		for _, nd := range p.n20 {
+			s20 += nd.w * g(nd.t)
+		}
+		v += s20
+		if p.n10 == nil {
+			continue
+		}
+		var s10 float64
+		for _, nd := range p.n10 {
+			s10 += nd.w * g(nd.t)
 		}
 		err += math.Abs(s20 - s10)
 	}

@@ -30,6 +30,13 @@ import (
 // Effect) for the smaller of the two probabilities, the side the posterior
 // means point away from, and the larger as one minus it. Identical posteriors give exactly ½ by symmetry.
 func ProbabilityFirstHigher(first, second Posterior) (higher, lower, err float64, exact bool) {
+	return probabilityFirstHigher(first, second, nil)
+}
+
+// probabilityFirstHigher is ProbabilityFirstHigher integrating on diff,
+// the posterior of the difference of the same two rates, when the caller
+// has it (nil: it is made here).
+func probabilityFirstHigher(first, second Posterior, diff *Effect) (higher, lower, err float64, exact bool) {
 	if first.EventShape == second.EventShape && first.NonEventShape == second.NonEventShape {
 		return 0.5, 0.5, 0, isWhole(first)
 	}
@@ -44,7 +51,10 @@ func ProbabilityFirstHigher(first, second Posterior) (higher, lower, err float64
 	// the integral of the smaller probability (the side the posterior
 	// means point away from), the other as one minus it: the smaller keeps
 	// its relative precision, the larger its absolute precision
-	e, _ := NewEffect(proportions.Difference, first, second)
+	e := diff
+	if e == nil {
+		e, _ = NewEffect(proportions.Difference, first, second)
+	}
 	if first.Mean() >= second.Mean() {
 		below, er := e.tail1(0, false)
 		return clamp01(1 - below), below, er, false

@@ -22,6 +22,7 @@ type config struct {
 	steps     int
 	tolerance float64
 	workers   int
+	guard     *proportions.Cost // nil: EngineCost
 }
 
 // WithProgress reports progress to f.

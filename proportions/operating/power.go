@@ -245,7 +245,9 @@ type RejectionRegion struct {
 // the same decisions and a progress report at the end. It reads WithProgress (rows done out of n1+1) and
 // WithWorkers, and stops with ctx's error when ctx is cancelled. Exact
 // tests that search a nuisance parameter at each outcome make this slow at
-// large n; their TrialLimit is a guide.
+// large n: a test with a Cost function is refused before it starts, with
+// an error wrapping proportions.ErrTooLarge, when DecisionCost exceeds
+// EngineCost (or the guard set by WithCostGuard).
 func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...RunOption) (*RejectionRegion, error) {
 	if err := validateSizes(n1, n2); err != nil {
 		return nil, err
@@ -254,6 +256,12 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 		return nil, err
 	}
 	cfg := newConfig(opts)
+	if c, ok := DecisionCost(d, n1, n2); ok {
+		what := fmt.Sprintf("the rejection region of %s at n1 = %d, n2 = %d", d.Test.Name, n1, n2)
+		if err := guardRun(what, c, cfg.guardOr()); err != nil {
+			return nil, err
+		}
+	}
 	rowRuns := make([][]int32, n1+1)
 	rep := newReporter(cfg.progress, n1+1)
 	if d.Test.Window != nil {

@@ -44,7 +44,10 @@ type OutcomeLimits struct {
 // proportions.IntervalMethod.Symmetric): half of the outcomes, a quarter
 // when n1 = n2 on the difference and odds-ratio scales. It reads the
 // options WithProgress (rows done out of n1+1) and WithWorkers, and stops
-// early with ctx's error when ctx is cancelled.
+// early with ctx's error when ctx is cancelled. A method with a Cost
+// function is refused before it starts, with an error wrapping
+// proportions.ErrTooLarge, when IntervalCost exceeds EngineCost (or the
+// guard set by WithCostGuard).
 // Memory: 24·(n1+1)·(n2+1) bytes, 24 MB at 1000 per group.
 func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Design, opts ...RunOption) (*OutcomeLimits, error) {
 	if err := d.Validate(); err != nil {
@@ -61,6 +64,11 @@ func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Desig
 		return nil, err
 	}
 	cfg := newConfig(opts)
+	if c, ok := IntervalCost(m, d); ok {
+		if err := guardRun(fmt.Sprintf("the limits of %s at every outcome of %v", m.Name, d), c, cfg.guardOr()); err != nil {
+			return nil, err
+		}
+	}
 	t := &OutcomeLimits{
 		method: m, design: d, conf: conf, n1: d.N1, n2: d.N2, stride: d.N2 + 1,
 		lower: make([]float64, (d.N1+1)*(d.N2+1)),

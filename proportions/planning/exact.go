@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
@@ -339,7 +340,10 @@ func ExactPowerByTrials(ctx context.Context, d Plan, m proportions.TestMethod, n
 // every outcome (operating.NewRejectionRegion, which stops when ctx is
 // cancelled); each rate then costs one sum over the region's runs. Of
 // opts it reads operating.WithProgress: progress in thousandths of the
-// work (see ProgressTotal), by rows of outcomes of the region.
+// work (see ProgressTotal), by rows of outcomes of the region; the others
+// go to the engine (operating.WithCostGuard raises its cost guard, above
+// which a costly test is refused with an error wrapping
+// proportions.ErrTooLarge).
 func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMethod, n1, n2 int64, rate1From, rate1To float64, points int, opts ...operating.RunOption) (PowerCurve, error) {
 	dc, err := newDecision(d, m)
 	if err != nil {
@@ -354,7 +358,9 @@ func ExactPowerByDifference(ctx context.Context, d Plan, m proportions.TestMetho
 	}
 	prog := newProgress(opts, float64(n1+1))
 	rows := func(done, _ int) { prog.add(float64(done) - prog.done) }
-	region, err := operating.NewRejectionRegion(ctx, dc, int(n1), int(n2), operating.WithProgress(rows))
+	// the caller's options reach the engine (its cost guard, raised by
+	// operating.WithCostGuard, and its workers), progress in our units
+	region, err := operating.NewRejectionRegion(ctx, dc, int(n1), int(n2), append(slices.Clone(opts), operating.WithProgress(rows))...)
 	if err != nil {
 		return PowerCurve{}, err
 	}

@@ -18,6 +18,7 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/bayes"
 	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/clusters/simulate"
 	"github.com/propscope/propscope/proportions/operating"
@@ -876,6 +877,10 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	ba, err := bayes.Analyze(comparison(t, [4]int64{41, 50, 33, 50}), bayes.WithPrior(bayes.Jeffreys()), bayes.WithEquivalence(-0.05, 0.05))
+	if err != nil {
+		t.Fatal(err)
+	}
 	type obj = map[string]any
 	first := func(v any) obj { return v.([]any)[0].(obj) }
 	cases := []struct {
@@ -911,6 +916,15 @@ func TestBrokenDocumentsRejected(t *testing.T) {
 		{"null hypotheses", region, schema.RejectionRegion, func(d obj) { d["decision"].(obj)["hypotheses"] = nil }},
 		{"a test with an interval's field", proportions.BarnardTest, schema.Method, func(d obj) { d["symmetric"] = true }},
 		{"an interval method without its scale", proportions.Mee, schema.Method, func(d obj) { delete(d, "scale") }},
+		{"a posterior probability above 1", ba, schema.Bayes, func(d obj) { d["probability_first_higher"] = 1.2 }},
+		{"null effects", ba, schema.Bayes, func(d obj) { d["effects"] = nil }},
+		{"two effects", ba, schema.Bayes, func(d obj) { d["effects"] = d["effects"].([]any)[:2] }},
+		{"null sensitivity", ba, schema.Bayes, func(d obj) { d["sensitivity"] = nil }},
+		{"an unknown prior name", ba, schema.Bayes, func(d obj) { first(d["groups"])["prior"].(obj)["name"] = "flat" }},
+		{"a posterior shape of 0", ba, schema.Bayes, func(d obj) { first(d["groups"])["posterior"].(obj)["event_shape"] = 0 }},
+		{"an undocumented field in a posterior", ba, schema.Bayes, func(d obj) { first(d["groups"])["posterior"].(obj)["mode"] = 0.8 }},
+		{"a probability inside the region written as a string", ba, schema.Bayes, func(d obj) { d["probability_equivalent"] = "0.3" }},
+		{"no caution", ba, schema.Bayes, func(d obj) { delete(d, "caution") }},
 		{"a simulated coverage above 1", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["coverage"] = 1.2 }},
 		{"null simulated tests", mustSimulation(t), schema.Simulation, func(d obj) { d["tests"] = nil }},
 		{"a coverage where no study gave an interval", mustSimulation(t), schema.Simulation, func(d obj) { first(d["intervals"])["studies"] = 0 }},
