@@ -72,7 +72,7 @@ func (t *OutcomeLimits) evaluate(ctx context.Context, pi1, pi2 []float64, pairs 
 	chunks := ev.chunks(8 * max(cfg.workers, 2))
 	err = parallel(ctx, cfg.workers, len(chunks)-1, func(c int) error {
 		ev.run(chunks[c], chunks[c+1])
-		rep.add(chunks[c+1] - chunks[c])
+		rep.Add(chunks[c+1] - chunks[c])
 		return nil
 	})
 	if err != nil {

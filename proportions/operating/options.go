@@ -2,8 +2,8 @@ package operating
 
 import (
 	"fmt"
-	"sync"
 
+	"github.com/propscope/propscope/internal/workpool"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -80,23 +80,9 @@ func (c config) stepsOr(def int) (int, error) {
 }
 
 // reporter serialises progress calls from several workers.
-type reporter struct {
-	mu          sync.Mutex
-	f           Progress
-	done, total int
-}
+type reporter = workpool.Reporter
 
-func newReporter(f Progress, total int) *reporter { return &reporter{f: f, total: total} }
-
-func (r *reporter) add(k int) {
-	if r == nil || r.f == nil {
-		return
-	}
-	r.mu.Lock()
-	r.done += k
-	r.f(r.done, r.total)
-	r.mu.Unlock()
-}
+func newReporter(f Progress, total int) *reporter { return workpool.NewReporter(f, total) }
 
 // evenly returns k evenly spaced values from lo to hi inclusive, computed
 // as lo + i·(hi − lo)/(k − 1) so that the ends are exact.

@@ -188,7 +188,7 @@ func (d Decision) PowerContext(ctx context.Context, n1, n2 int, pi1, pi2 float64
 		})
 		sums[i] = s
 		if err == nil {
-			rep.add(1)
+			rep.Add(1)
 		}
 		return err
 	})
@@ -220,7 +220,7 @@ func (d Decision) windowPower(ctx context.Context, n1, n2 int, b1, b2 *binomial,
 		}
 		power += b1.p[x1] * s
 	}
-	rep.add(b1.hi - b1.lo + 1)
+	rep.Add(b1.hi - b1.lo + 1)
 	return min(power, 1), nil
 }
 
@@ -272,7 +272,7 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 		for x1 := range rowRuns {
 			rowRuns[x1] = runsOf(rej[x1*(n2+1) : (x1+1)*(n2+1)])
 		}
-		rep.add(n1 + 1)
+		rep.Add(n1 + 1)
 		return newRegionFromRuns(d, n1, n2, rowRuns), nil
 	}
 	err := parallel(ctx, cfg.workers, n1+1, func(x1 int) error {
@@ -294,7 +294,7 @@ func NewRejectionRegion(ctx context.Context, d Decision, n1, n2 int, opts ...Run
 			runs = append(runs, int32(n2+1))
 		}
 		rowRuns[x1] = runs
-		rep.add(1)
+		rep.Add(1)
 		return nil
 	})
 	if err != nil {

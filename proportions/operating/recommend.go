@@ -127,7 +127,7 @@ func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...RunOp
 		sum := s.summarise(inside)
 		rec.Ranking = append(rec.Ranking, Ranked{Method: m.Key, MethodName: m.Name,
 			HoldsLevel: sum.Min >= d.Level-cfg.tolerance, Summary: sum})
-		rep.add(1)
+		rep.Add(1)
 	}
 	slices.SortStableFunc(rec.Ranking, func(a, b Ranked) int { return compareRanked(a, b, d.Level) })
 	anyHolds := rec.Ranking[0].HoldsLevel

@@ -4,10 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
-	"sync"
-	"sync/atomic"
 
+	"github.com/propscope/propscope/internal/workpool"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -93,7 +91,7 @@ func NewOutcomeLimits(ctx context.Context, m proportions.IntervalMethod, d Desig
 	}
 	finish := func(x1 int) error {
 		rowCuts[x1] = t.finishRow(x1)
-		rep.add(1)
+		rep.Add(1)
 		return nil
 	}
 	err = parallel(ctx, cfg.workers, half+1, func(x1 int) error {
@@ -325,36 +323,5 @@ const ctxStride = 256
 // parallel runs job(i) for i in [0, n) on the given number of workers
 // (GOMAXPROCS when 0), stopping at the first error or when ctx ends.
 func parallel(ctx context.Context, workers, n int, job func(i int) error) error {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = min(workers, n)
-	var next atomic.Int64
-	var once sync.Once
-	var first error
-	var failed atomic.Bool
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for !failed.Load() {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				err := ctx.Err()
-				if err == nil {
-					err = job(i)
-				}
-				if err != nil {
-					failed.Store(true)
-					once.Do(func() { first = err })
-					return
-				}
-			}
-		}()
-	}
-	wg.Wait()
-	return first
+	return workpool.Run(ctx, workers, n, job)
 }

@@ -4,10 +4,8 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
-	"sync"
-	"sync/atomic"
 
+	"github.com/propscope/propscope/internal/workpool"
 	"github.com/propscope/propscope/proportions"
 	"github.com/propscope/propscope/proportions/clusters"
 	"github.com/propscope/propscope/proportions/operating"
@@ -129,7 +127,7 @@ func (r *runner) run(ctx context.Context, stream uint64, p Plan, workers int, pr
 			return err
 		}
 		tallies[i] = t
-		prog.add(n)
+		prog.Add(n)
 		return nil
 	})
 	if err != nil {
@@ -223,55 +221,10 @@ func draw(s *sampler, d Design, k int, rate, a, b float64, fixed bool) clusters.
 // cores when workers ≤ 0) and returns the first error; the others stop at
 // their next job.
 func parallel(ctx context.Context, workers, n int, job func(i int) error) error {
-	if workers <= 0 {
-		workers = runtime.GOMAXPROCS(0)
-	}
-	workers = max(1, min(workers, n))
-	var next atomic.Int64
-	var once sync.Once
-	var first error
-	var failed atomic.Bool
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for !failed.Load() {
-				i := int(next.Add(1) - 1)
-				if i >= n {
-					return
-				}
-				err := ctx.Err()
-				if err == nil {
-					err = job(i)
-				}
-				if err != nil {
-					failed.Store(true)
-					once.Do(func() { first = err })
-					return
-				}
-			}
-		}()
-	}
-	wg.Wait()
-	return first
+	return workpool.Run(ctx, workers, n, job)
 }
 
 // progress serialises progress reports from the workers.
-type progress struct {
-	mu          sync.Mutex
-	f           operating.Progress
-	done, total int
-}
+type progress = workpool.Reporter
 
-func newProgress(f operating.Progress, total int) *progress { return &progress{f: f, total: total} }
-
-func (p *progress) add(k int) {
-	if p == nil || p.f == nil {
-		return
-	}
-	p.mu.Lock()
-	p.done += k
-	p.f(p.done, p.total)
-	p.mu.Unlock()
-}
+func newProgress(f operating.Progress, total int) *progress { return workpool.NewReporter(f, total) }
