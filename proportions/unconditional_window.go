@@ -4,12 +4,11 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"slices"
 	"sync"
-	"sync/atomic"
 
 	"github.com/propscope/propscope/internal/special"
+	"github.com/propscope/propscope/internal/workpool"
 )
 
 // Deciding every outcome of a design at once, for the unconditional exact
@@ -213,26 +212,13 @@ func windowStatistics(ctx context.Context, w OutcomeWindow, delta float64, stat 
 			out[j] = statisticKey(observedStatistic(c, delta, stat, side), stat, side)
 		}
 	}
-	workers := min(runtime.GOMAXPROCS(0), rows)
+	workers := 0 // every core
 	if len(keys) < windowParallelOutcomes {
 		workers = 1
 	}
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1) - 1)
-				if i >= rows || ctx.Err() != nil {
-					return
-				}
-				row(w.X1From + i)
-			}
-		}()
+	if err := workpool.Run(ctx, workers, rows, func(i int) error { row(w.X1From + i); return nil }); err != nil {
+		return err
 	}
-	wg.Wait()
 	return ctx.Err()
 }
 
@@ -351,7 +337,11 @@ func (p *sideProbe) exceedsOnGrid(reg *region) bool {
 // critical returns the key of the least extreme statistic the test
 // rejects among keys (ok false when it rejects none); it sorts keys.
 func (p *sideProbe) critical(keys []float64, mk memoryKey, m *DecisionMemory) (float64, bool, error) {
-	slices.Sort(keys)
+	// A design of 2000 per group has four million keys: a plain sort would
+	// run for hundreds of milliseconds without seeing a cancel.
+	if err := workpool.SortFloats(p.ctx, 0, keys); err != nil {
+		return 0, false, err
+	}
 	cands := slices.Compact(keys) // ascending: the most extreme last
 	guess, ok := m.get(mk)
 	if ok {

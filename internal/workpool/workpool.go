@@ -7,6 +7,7 @@ package workpool
 import (
 	"context"
 	"runtime"
+	"slices"
 	"sync"
 	"sync/atomic"
 )
@@ -73,4 +74,67 @@ func (r *Reporter) Add(k int) {
 	r.done += k
 	r.f(r.done, r.total)
 	r.mu.Unlock()
+}
+
+// sortChunk is the length of the pieces SortFloats sorts one at a time:
+// about a millisecond of work each, so a cancel is seen within that.
+const sortChunk = 1 << 15
+
+// SortFloats sorts keys in increasing order like slices.Sort, on up to
+// workers goroutines, checking ctx between pieces of about a millisecond
+// of work (a plain sort of millions of keys runs for hundreds of
+// milliseconds without a check). It returns ctx's error, with keys in an
+// unspecified order, when ctx ends first. NaN keys are not allowed.
+func SortFloats(ctx context.Context, workers int, keys []float64) error {
+	n := len(keys)
+	if n <= sortChunk {
+		slices.Sort(keys)
+		return ctx.Err()
+	}
+	pieces := (n + sortChunk - 1) / sortChunk
+	err := Run(ctx, workers, pieces, func(i int) error {
+		slices.Sort(keys[i*sortChunk : min((i+1)*sortChunk, n)])
+		return nil
+	})
+	if err != nil {
+		return err
+	}
+	// Merge runs of width w pairwise into buf, then swap, until one run.
+	buf := make([]float64, n)
+	src, dst := keys, buf
+	for w := sortChunk; w < n; w *= 2 {
+		pairs := (n + 2*w - 1) / (2 * w)
+		err := Run(ctx, workers, pairs, func(i int) error {
+			lo := i * 2 * w
+			mid, hi := min(lo+w, n), min(lo+2*w, n)
+			return mergeRuns(ctx, dst[lo:hi], src[lo:mid], src[mid:hi])
+		})
+		if err != nil {
+			return err
+		}
+		src, dst = dst, src
+	}
+	if &src[0] != &keys[0] {
+		copy(keys, src)
+	}
+	return ctx.Err()
+}
+
+// mergeRuns merges the sorted runs a and b into dst (len(a)+len(b)),
+// checking ctx every sortChunk elements.
+func mergeRuns(ctx context.Context, dst, a, b []float64) error {
+	i, j := 0, 0
+	for k := range dst {
+		if k%sortChunk == 0 && ctx.Err() != nil {
+			return ctx.Err()
+		}
+		if j >= len(b) || (i < len(a) && a[i] <= b[j]) {
+			dst[k] = a[i]
+			i++
+		} else {
+			dst[k] = b[j]
+			j++
+		}
+	}
+	return nil
 }

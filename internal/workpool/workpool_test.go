@@ -3,6 +3,8 @@ package workpool
 import (
 	"context"
 	"errors"
+	"math/rand/v2"
+	"slices"
 	"sync/atomic"
 	"testing"
 )
@@ -61,4 +63,29 @@ func TestReporterTotals(t *testing.T) {
 	NewReporter(nil, 3).Add(1)
 	var none *Reporter
 	none.Add(1)
+}
+
+// TestSortFloatsSorts compares with slices.Sort on lengths around the piece
+// size, with ties and negative values; a cancelled context is reported.
+func TestSortFloatsSorts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for _, n := range []int{0, 1, 7, sortChunk, sortChunk + 1, 3*sortChunk + 17, 9 * sortChunk} {
+		keys := make([]float64, n)
+		for i := range keys {
+			keys[i] = float64(rng.IntN(1000)) - 500 + rng.Float64()*float64(i%2)
+		}
+		want := slices.Clone(keys)
+		slices.Sort(want)
+		if err := SortFloats(context.Background(), 3, keys); err != nil {
+			t.Fatal(err)
+		}
+		if !slices.Equal(keys, want) {
+			t.Fatalf("n = %d: not sorted like slices.Sort", n)
+		}
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if err := SortFloats(ctx, 2, make([]float64, 4*sortChunk)); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled sort: %v", err)
+	}
 }
