@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -45,23 +44,7 @@ var trayLabels = proportions.Labels{First: "coated", Second: "bare", Event: "ger
 // TestClusterGolden compares the clustered card's three forms with
 // reviewed files (go test ./notebookui -update rewrites them).
 func TestClusterGolden(t *testing.T) {
-	c := clusterFixture(t, trayLabels)
-	for name, got := range map[string]string{"trays.html": c.HTML(), "trays.md": c.Markdown(), "trays.txt": c.Text()} {
-		path := filepath.Join("..", "testdata", "golden", "notebookui", name)
-		if *update {
-			if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			continue
-		}
-		want, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatalf("%v (run go test ./notebookui -update to create it)", err)
-		}
-		if got != string(want) {
-			t.Errorf("%s differs from the golden file; run go test ./notebookui -update and review the diff.\ngot:\n%s", name, got)
-		}
-	}
+	checkGolden(t, "trays", clusterFixture(t, trayLabels))
 }
 
 // The card words the clustering as the analysis holds it: the effective

@@ -3,8 +3,6 @@ package notebookui
 import (
 	"encoding/json"
 	"html"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -39,27 +37,7 @@ func segmentsFixture(t testing.TB) SegmentsCard {
 }
 
 func TestSegmentsGolden(t *testing.T) {
-	c := segmentsFixture(t)
-	for name, got := range map[string]string{
-		"segments.html": c.HTML(),
-		"segments.md":   c.Markdown(),
-		"segments.txt":  c.Text(),
-	} {
-		path := filepath.Join("..", "testdata", "golden", "notebookui", name)
-		if *update {
-			if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			continue
-		}
-		want, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatalf("%v (run go test ./notebookui -update to create it)", err)
-		}
-		if got != string(want) {
-			t.Errorf("%s differs from the golden file; run go test ./notebookui -update and review the diff.\ngot:\n%s", name, got)
-		}
-	}
+	checkGolden(t, "segments", segmentsFixture(t))
 }
 
 // The card states the number of segments, m and the adjustment in every

@@ -3,8 +3,6 @@ package notebookui
 import (
 	"encoding/json"
 	"html"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -38,27 +36,7 @@ func blockedTrial(t *testing.T) strata.Analysis {
 // TestStrataGolden compares the stratified card's three forms with
 // reviewed files (go test ./notebookui -update rewrites them).
 func TestStrataGolden(t *testing.T) {
-	c := NewStrataCard(blockedTrial(t))
-	for name, got := range map[string]string{
-		"blocked-germination.html": c.HTML(),
-		"blocked-germination.md":   c.Markdown(),
-		"blocked-germination.txt":  c.Text(),
-	} {
-		path := filepath.Join("..", "testdata", "golden", "notebookui", name)
-		if *update {
-			if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-				t.Fatal(err)
-			}
-			continue
-		}
-		want, err := os.ReadFile(path)
-		if err != nil {
-			t.Fatalf("%v (run go test ./notebookui -update to create it)", err)
-		}
-		if got != string(want) {
-			t.Errorf("%s differs from the golden file; run go test ./notebookui -update and review the diff.\ngot:\n%s", name, got)
-		}
-	}
+	checkGolden(t, "blocked-germination", NewStrataCard(blockedTrial(t)))
 }
 
 // The card shows the overall answer, every block (the lost one flagged),

@@ -25,13 +25,12 @@ func fixtureCard() ResultCard {
 
 // TestGolden compares the card's three forms with reviewed files. Run
 // `go test ./notebookui -update` after an intended change and read the diff.
-func TestGolden(t *testing.T) {
-	c := fixtureCard()
-	for name, got := range map[string]string{
-		"germination.html": c.HTML(),
-		"germination.md":   c.Markdown(),
-		"germination.txt":  c.Text(),
-	} {
+// checkGolden compares a card's HTML, Markdown and text with the golden
+// files base.html, base.md and base.txt in testdata/golden/notebookui, or
+// rewrites them under -update.
+func checkGolden(t *testing.T, base string, c Displayable) {
+	t.Helper()
+	for name, got := range map[string]string{base + ".html": c.HTML(), base + ".md": c.Markdown(), base + ".txt": c.Text()} {
 		path := filepath.Join("..", "testdata", "golden", "notebookui", name)
 		if *update {
 			if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
@@ -50,6 +49,10 @@ func TestGolden(t *testing.T) {
 			t.Errorf("%s differs from the golden file; run go test ./notebookui -update and review the diff.\ngot:\n%s", name, got)
 		}
 	}
+}
+
+func TestGolden(t *testing.T) {
+	checkGolden(t, "germination", fixtureCard())
 }
 
 // TestCardShowsTheAnalysis checks the key numbers, worded by hand from the
