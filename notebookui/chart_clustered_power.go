@@ -5,8 +5,6 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/go-echarts/go-echarts/v2/charts"
-	"github.com/go-echarts/go-echarts/v2/opts"
 	"github.com/propscope/propscope/proportions/planning"
 )
 
@@ -58,19 +56,7 @@ func ClusteredPowerChart(g planning.ClusteredPowerGrid, options ...ChartOption) 
 		legend = append(legend, map[string]any{"name": name, "icon": markerShape(i)})
 		table.Rows = append(table.Rows, row)
 	}
-	ch := charts.NewLine()
-	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
-	ch.SetGlobalOptions(
-		charts.WithXAxisOpts(opts.XAxis{Type: "value", Name: axisName("clusters per group", "clusters"), NameLocation: "middle", NameGap: 30,
-			Scale: opts.Bool(true), MinInterval: 1}),
-		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
-	)
-	option := optionOf(ch)
-	axisFormatter(option, "yAxis", percentAxisLabel)
-	option["series"] = series
-	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(clusteredPowerTooltip)}
+	option := powerOverSizes(title, subtitle, axisName("clusters per group", "clusters"), series, legend, clusteredPowerTooltip)
 	notes := []string{g.Caution, "Power by the normal approximation at the effective sizes clusters × size ÷ design effect (" + strings.TrimSuffix(g.Citation, ".") + ")."}
 	return newChart("clustered-power", title, subtitle, s.heightOr(defaultHeight), option, table, notes)
 }

@@ -124,19 +124,7 @@ func powerBySize(curves []planning.PowerCurve, s chartSettings) (*Chart, error) 
 		legend = append(legend, map[string]any{"name": c.Basis, "icon": markerShape(i)})
 		table.Rows = append(table.Rows, row)
 	}
-	ch := charts.NewLine()
-	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
-	ch.SetGlobalOptions(
-		charts.WithXAxisOpts(opts.XAxis{Type: "value", Name: axisName("group 1 size n1", "units"), NameLocation: "middle", NameGap: 30,
-			Scale: opts.Bool(true), MinInterval: 1}),
-		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44}),
-		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
-	)
-	option := optionOf(ch)
-	axisFormatter(option, "yAxis", percentAxisLabel)
-	option["series"] = series
-	option["legend"] = legendAt(legend)
-	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(powerBySizeTooltip)}
+	option := powerOverSizes(title, subtitle, axisName("group 1 size n1", "units"), series, legend, powerBySizeTooltip)
 	notes := []string{curves[0].Caution}
 	if len(curves) > 1 {
 		notes = append([]string{"Exact power moves up and down as n grows (the attainable significance levels jump with the discrete outcomes): " +
@@ -245,4 +233,25 @@ func targetLine(target, alpha float64, withAlpha bool) map[string]any {
 			"label":     map[string]any{"formatter": "α = " + fmtP(alpha), "position": "insideEndTop", "color": ColorGrey}})
 	}
 	return map[string]any{"silent": true, "symbol": []string{"none", "none"}, "data": data}
+}
+
+// powerOverSizes is the option of a chart of power curves over a whole
+// number on the x axis (units or clusters per group): power from 0 to 100%
+// on the y axis, one series per curve with its legend entry, and the given
+// tooltip callback (a constant of this package, never user text).
+func powerOverSizes(title, subtitle, xName string, series, legend []any, tooltip string) map[string]any {
+	ch := charts.NewLine()
+	ch.SetGlobalOptions(commonGlobals(title, subtitle)...)
+	ch.SetGlobalOptions(
+		charts.WithXAxisOpts(opts.XAxis{Type: "value", Name: xName, NameLocation: "middle", NameGap: 30,
+			Scale: opts.Bool(true), MinInterval: 1}),
+		charts.WithYAxisOpts(opts.YAxis{Type: "value", Min: 0, Max: 1, Name: axisName("power", "%"), NameLocation: "middle", NameGap: 44}),
+		charts.WithGridOpts(opts.Grid{Left: "24", Right: "40", Top: "100", Bottom: "56", ContainLabel: opts.Bool(true)}),
+	)
+	option := optionOf(ch)
+	axisFormatter(option, "yAxis", percentAxisLabel)
+	option["series"] = series
+	option["legend"] = legendAt(legend)
+	option["tooltip"] = map[string]any{"show": true, "confine": true, "trigger": "axis", "formatter": jsFunc(tooltip)}
+	return option
 }
