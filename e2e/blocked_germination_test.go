@@ -3,25 +3,11 @@ package e2e
 import (
 	"context"
 	"testing"
-
-	"github.com/propscope/propscope/e2e/nbrun"
 )
 
 func init() {
 	pageChecks["blocked-germination"] = checkBlockedGermination
-	outputChecks["blocked-germination"] = func(t *testing.T, r nbrun.Result) {
-		outs, err := nbrun.Outputs(r.Executed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		kinds := map[string]int{}
-		for _, o := range outs {
-			kinds[o.Kind]++
-		}
-		if kinds["strata-card"] != 1 || kinds["chart"] != 1 {
-			t.Errorf("want one strata-card and one chart output, got %v", kinds)
-		}
-	}
+	outputChecks["blocked-germination"] = wantOutputKinds(map[string]int{"strata-card": 1, "chart": 1})
 }
 
 // checkBlockedGermination asserts what a reader of the blocked trial sees:

@@ -3,25 +3,11 @@ package e2e
 import (
 	"context"
 	"testing"
-
-	"github.com/propscope/propscope/e2e/nbrun"
 )
 
 func init() {
 	pageChecks["grafting-bayes"] = checkGrafting
-	outputChecks["grafting-bayes"] = func(t *testing.T, r nbrun.Result) {
-		outs, err := nbrun.Outputs(r.Executed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		kinds := map[string]int{}
-		for _, o := range outs {
-			kinds[o.Kind]++
-		}
-		if kinds["bayes-card"] != 1 || kinds["chart"] != 1 {
-			t.Errorf("want one bayes-card and one chart output, got %v", kinds)
-		}
-	}
+	outputChecks["grafting-bayes"] = wantOutputKinds(map[string]int{"bayes-card": 1, "chart": 1})
 }
 
 // checkGrafting asserts what a reader of the grafting notebook sees: the

@@ -6,10 +6,11 @@ import (
 
 	"encoding/json"
 	"fmt"
-	"github.com/chromedp/chromedp"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/chromedp/chromedp"
 
 	"github.com/propscope/propscope/notebookui"
 	"github.com/propscope/propscope/proportions"

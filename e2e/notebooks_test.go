@@ -207,3 +207,25 @@ func genericChecks(t *testing.T, ctx context.Context) {
 		t.Errorf("the setup cell runs off the right edge: %q", wide)
 	}
 }
+
+// wantOutputKinds returns an output check that the executed notebook
+// displayed exactly the given number of outputs of each kind (the Kind of
+// notebookui's displayables: "result-card", "chart", ...); kinds not named
+// (the chart engine's one-off output) are not counted.
+func wantOutputKinds(want map[string]int) func(t *testing.T, r nbrun.Result) {
+	return func(t *testing.T, r nbrun.Result) {
+		outs, err := nbrun.Outputs(r.Executed)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := map[string]int{}
+		for _, o := range outs {
+			got[o.Kind]++
+		}
+		for kind, n := range want {
+			if got[kind] != n {
+				t.Errorf("want %d %s output(s), got %v", n, kind, got)
+			}
+		}
+	}
+}

@@ -3,25 +3,11 @@ package e2e
 import (
 	"context"
 	"testing"
-
-	"github.com/propscope/propscope/e2e/nbrun"
 )
 
 func init() {
 	pageChecks["seed-trays"] = checkSeedTrays
-	outputChecks["seed-trays"] = func(t *testing.T, r nbrun.Result) {
-		outs, err := nbrun.Outputs(r.Executed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		kinds := map[string]int{}
-		for _, o := range outs {
-			kinds[o.Kind]++
-		}
-		if kinds["cluster-card"] != 1 || kinds["result-card"] != 1 || kinds["chart"] != 1 {
-			t.Errorf("want one cluster-card, one result-card and one chart output, got %v", kinds)
-		}
-	}
+	outputChecks["seed-trays"] = wantOutputKinds(map[string]int{"cluster-card": 1, "result-card": 1, "chart": 1})
 }
 
 // checkSeedTrays asserts what a reader of the seed-trays notebook sees: the

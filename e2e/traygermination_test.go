@@ -3,25 +3,11 @@ package e2e
 import (
 	"context"
 	"testing"
-
-	"github.com/propscope/propscope/e2e/nbrun"
 )
 
 func init() {
 	pageChecks["tray-germination"] = checkTrayGermination
-	outputChecks["tray-germination"] = func(t *testing.T, r nbrun.Result) {
-		outs, err := nbrun.Outputs(r.Executed)
-		if err != nil {
-			t.Fatal(err)
-		}
-		kinds := map[string]int{}
-		for _, o := range outs {
-			kinds[o.Kind]++
-		}
-		if kinds["result-card"] != 1 || kinds["cluster-card"] != 1 || kinds["chart"] != 1 {
-			t.Errorf("want one result-card, one cluster-card and one chart output, got %v", kinds)
-		}
-	}
+	outputChecks["tray-germination"] = wantOutputKinds(map[string]int{"result-card": 1, "cluster-card": 1, "chart": 1})
 }
 
 // checkTrayGermination asserts what a reader of the tray notebook sees: the
