@@ -126,6 +126,7 @@ func segmentsCardFor(t testing.TB, first, second, event string) SegmentsCard {
 	c.Result.Segments[3].Value = event // the empty segment, in the flagged table
 	return c
 }
+
 // bayesBase is a Bayesian analysis with an equivalence region, computed
 // once (its numbers do not depend on the labels, which each fuzz input
 // sets; the posterior chart, which integrates its curves anew each time,
