@@ -4,11 +4,10 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"runtime"
 	"strconv"
 	"strings"
-	"sync"
 
+	"github.com/propscope/propscope/internal/workpool"
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -257,28 +256,12 @@ const chunk = 4096
 // parallelChunks calls work on [lo, hi) chunks of [0, n) on every core
 // and returns ctx's error if ctx ended before every chunk was done.
 func parallelChunks(ctx context.Context, n int, work func(lo, hi int)) error {
-	var next int
-	var mu sync.Mutex
-	take := func() (int, bool) {
-		mu.Lock()
-		defer mu.Unlock()
-		if next >= n || ctx.Err() != nil {
-			return 0, false
-		}
-		lo := next
-		next += chunk
-		return lo, true
+	chunks := (n + chunk - 1) / chunk
+	if err := workpool.Run(ctx, 0, chunks, func(i int) error {
+		work(i*chunk, min((i+1)*chunk, n))
+		return nil
+	}); err != nil {
+		return err
 	}
-	var wg sync.WaitGroup
-	for range runtime.GOMAXPROCS(0) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for lo, ok := take(); ok; lo, ok = take() {
-				work(lo, min(lo+chunk, n))
-			}
-		}()
-	}
-	wg.Wait()
 	return ctx.Err()
 }
