@@ -61,6 +61,7 @@ type cdfPanel struct {
 	below, above float64            // mass left of the panel (summed from the left) and right of it (from the right)
 	mass         float64            // the panel's own mass
 	anti         [chebN + 1]float64 // Chebyshev coefficients of the mass from the panel's start, 0 there
+	deg          int                // the highest coefficient kept (see truncate)
 }
 
 // cdfTable is one posterior's distribution function tabulated in the
@@ -117,13 +118,14 @@ func newCDFTable(p Posterior) cdfTable {
 	if !(total > 0) || math.IsInf(total, 0) {
 		return cdfTable{}
 	}
-	var cum float64
+	var cum, dropped float64
 	for i := range t.panels {
 		pn := &t.panels[i]
 		pn.mass /= total
 		for j := range pn.anti {
 			pn.anti[j] /= total
 		}
+		dropped = math.Max(dropped, pn.truncate())
 		pn.below = cum
 		cum += pn.mass
 	}
@@ -135,8 +137,30 @@ func newCDFTable(p Posterior) cdfTable {
 	t.lo, t.hi = lo, hi
 	// normalising by the window's mass instead of 1 moves a value by at
 	// most the truncated mass
-	t.err = errSum/total + float64(len(t.panels))*4*0x1p-52 + 2*tail
+	t.err = errSum/total + float64(len(t.panels))*4*0x1p-52 + 2*tail + dropped
 	return t
+}
+
+// truncTol is the total size of the trailing coefficients a panel may
+// drop, as a share of the posterior's mass: below the rounding of any
+// value (the table's error estimate is at least a few times 2⁻⁵²), and it
+// is added to that estimate. Near the mode a panel keeps about 14 of its 21
+// coefficients, in the tails fewer: the evaluation, most of the cost of a
+// tail integral, shortens with them.
+const truncTol = 1e-15
+
+// truncate keeps the coefficients up to the last one after which the
+// absolute values sum to at most truncTol, and returns that sum (a bound on
+// the change of any value, since |Tⱼ| ≤ 1).
+func (pn *cdfPanel) truncate() float64 {
+	var tail float64
+	pn.deg = chebN
+	for pn.deg > 1 && tail+math.Abs(pn.anti[pn.deg]) <= truncTol {
+		tail += math.Abs(pn.anti[pn.deg])
+		pn.anti[pn.deg] = 0
+		pn.deg--
+	}
+	return tail
 }
 
 // fit interpolates the density on [start, start+h] and integrates the
@@ -210,14 +234,14 @@ func (t *cdfTable) tailsAt(s float64) (below, above float64) {
 	}
 	pn := &t.panels[i]
 	u := math.Min(1, 2*(s-pn.start)/pn.h-1)
-	m := clenshaw(&pn.anti, u)
+	m := clenshaw(pn.anti[:pn.deg+1], u)
 	return pn.below + m, pn.above + (pn.mass - m)
 }
 
 // clenshaw evaluates Σ cⱼTⱼ(u).
-func clenshaw(c *[chebN + 1]float64, u float64) float64 {
+func clenshaw(c []float64, u float64) float64 {
 	var b1, b2 float64
-	for j := chebN; j >= 1; j-- {
+	for j := len(c) - 1; j >= 1; j-- {
 		b1, b2 = 2*u*b1-b2+c[j], b1
 	}
 	return u*b1 - b2 + c[0]

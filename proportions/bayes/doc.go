@@ -34,4 +34,11 @@
 // still used for the rates' own intervals and where no table is made)
 // stops about 10⁻⁹ short at 10⁶ trials. The error estimate reported is the
 // quadrature's estimate plus the table's plus the truncation bounds.
+//
+// Searches: a quantile is found by Newton's method on the distribution
+// function, started from the Cornish–Fisher expansion with the effect's
+// exact skewness (see Effect.start); the highest-density interval by
+// Newton's method in both ends with the density's exact slope from the
+// same pass over the nodes. Each stops when the step, or the step that
+// quadratic convergence predicts next, is within the search tolerance.
 package bayes

@@ -126,15 +126,18 @@ func (r *fixedRule) integrate(g func(o, oc float64) float64, bound float64) (v, 
 }
 
 // integrate2 is integrate for two integrands computed together (sharing
-// the work of each node), with their bounds.
-func (r *fixedRule) integrate2(g func(o, oc float64) (float64, float64), bound1, bound2 float64) (v1, err1, v2, err2 float64) {
+// the work of each node), with their bounds, and a third integrand summed
+// on the 20-node rule alone, without an error estimate (the density's
+// slope, which only steers a search).
+func (r *fixedRule) integrate2(g func(o, oc float64) (float64, float64, float64), bound1, bound2 float64) (v1, err1, v2, err2, v3 float64) {
 	for i := range r.panels {
 		p := &r.panels[i]
 		var s1, s2 float64
 		for _, nd := range p.n20 {
-			a, b := g(nd.o, nd.oc)
+			a, b, c := g(nd.o, nd.oc)
 			s1 += nd.w * a
 			s2 += nd.w * b
+			v3 += nd.w * c
 		}
 		v1 += s1
 		v2 += s2
@@ -143,14 +146,14 @@ func (r *fixedRule) integrate2(g func(o, oc float64) (float64, float64), bound1,
 		}
 		var t1, t2 float64
 		for _, nd := range p.n10 {
-			a, b := g(nd.o, nd.oc)
+			a, b, _ := g(nd.o, nd.oc)
 			t1 += nd.w * a
 			t2 += nd.w * b
 		}
 		err1 += math.Abs(s1 - t1)
 		err2 += math.Abs(s2 - t2)
 	}
-	return v1, err1 + r.loose*bound1, v2, err2 + r.loose*bound2
+	return v1, err1 + r.loose*bound1, v2, err2 + r.loose*bound2, v3
 }
 
 // integrateLogOdds is integrate for an integrand given as a function of

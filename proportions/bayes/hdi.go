@@ -3,6 +3,8 @@ package bayes
 import (
 	"math"
 
+	"github.com/propscope/propscope/internal/special"
+
 	"github.com/propscope/propscope/proportions"
 )
 
@@ -47,17 +49,27 @@ func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, 
 		return (logf(v+h) - logf(v-h)) / (2 * h)
 	}
 	L, U := lo, hi
+	if e.Scale != proportions.Difference {
+		L, U = e.logNormalShift(level, lo, hi)
+	}
 	ok := false
-	// the slopes of log f enter only the Jacobian: taken by differences
-	// at the start and every fourth step (a chord method), they cost four
+	// the slopes of log f enter only the Jacobian: from the same pass as
+	// the tails and densities when the inner distribution function is
+	// tabulated (Newton's method); otherwise taken by differences at the
+	// start and every fourth step (a chord method), as they cost four
 	// densities where the rest of a step costs two passes
-	var dL0, dU0 float64
+	var dL0, dU0, prevStep float64
+	prevExact := false
 	for i := 0; i < 30; i++ {
-		below, e1, fL := e.tailDensity(L, false)
-		above, e2, fU := e.tailDensity(U, true)
+		below, e1, fL, sL := e.tailDensity(L, false)
+		above, e2, fU, sU := e.tailDensity(U, true)
 		g1 := below + above - (1 - level)
 		g2 := math.Log(fU) - math.Log(fL)
-		if i%4 == 0 {
+		exact := !math.IsNaN(sL+sU) && fL > 0 && fU > 0
+		switch {
+		case exact: // the slopes from the same pass: Newton's method
+			dL0, dU0 = sL/fL, sU/fU
+		case i%4 == 0:
 			dL0, dU0 = dlogf(L), dlogf(U)
 		}
 		// Jacobian of (g1, g2) in (L, U)
@@ -73,13 +85,26 @@ func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, 
 		for k := 0; k < 30 && !(nL < nU && e.inSupport(nL) && e.inSupport(nU)); k++ {
 			dL, dU = dL/2, dU/2
 			nL, nU = L-dL, U-dU
+			exact = false
 		}
 		if !(nL < nU && e.inSupport(nL) && e.inSupport(nU)) {
 			break
 		}
 		L, U = nL, nU
 		eerr = math.Max(eerr, math.Max(e1/math.Max(fL, 1e-300), e2/math.Max(fU, 1e-300)))
-		if math.Abs(dL)+math.Abs(dU) <= 1e-11*sd {
+		// Newton's method with the exact Jacobian converges
+		// quadratically: the next step is about K·d² for this step d,
+		// with K measured from this step and the last (d/d₋₁²). When ten
+		// times that prediction is within the tolerance 10⁻¹¹·sd, this
+		// step's end is the answer and another pass would only confirm
+		// it.
+		step := math.Abs(dL) + math.Abs(dU)
+		predicted := math.Inf(1)
+		if exact && prevExact && prevStep > 0 {
+			predicted = step / (prevStep * prevStep) * step * step
+		}
+		prevStep, prevExact = step, exact
+		if step <= 1e-11*sd || 10*predicted <= 1e-11*sd {
 			ok = true
 			break
 		}
@@ -96,6 +121,44 @@ func (e *Effect) highestDensityFrom(level, lo, hi, eerr float64) (lower, upper, 
 	}
 	return e.shortestBySearch(level)
 }
+
+// logNormalShift moves the equal-tailed interval [lo, hi] of a ratio by
+// the difference between the highest-density and the equal-tailed
+// interval of a log-normal law with the same mean and variance of the log
+// (see Effect.cumulants), to start the highest-density search nearer its
+// answer. For the log-normal law with log-scale mean m and sd s, the
+// density of E is ∝ exp(−(y − m)²/(2s²) − y) at y = log v, so equal
+// densities at the ends mean a + b = −2s for their standard scores a, b,
+// and Φ(b) − Φ(a) = level fixes b (Newton's method on the normal law).
+// Without usable moments it returns [lo, hi].
+func (e *Effect) logNormalShift(level, lo, hi float64) (float64, float64) {
+	_, k2, _ := e.cumulants()
+	s := math.Sqrt(k2)
+	z := normalQuantile((1 + level) / 2)
+	if !(s > 0) || math.IsInf(s, 0) {
+		return lo, hi
+	}
+	b := z
+	for range 50 {
+		a := -2*s - b
+		pa, _ := special.NormalUpperTail(a)
+		pb, _ := special.NormalUpperTail(b)
+		g := pa - pb - level
+		d := g / (normalDensity(b) + normalDensity(a))
+		b -= d
+		if math.Abs(d) < 1e-12 {
+			break
+		}
+	}
+	a := -2*s - b
+	L, U := lo*math.Exp(s*(a+z)), hi*math.Exp(s*(b-z))
+	if !(L > 0 && L < U) || math.IsInf(U, 0) || math.IsNaN(L+U) {
+		return lo, hi
+	}
+	return L, U
+}
+
+func normalDensity(x float64) float64 { return math.Exp(-x*x/2) / math.Sqrt(2*math.Pi) }
 
 // shortestBySearch minimises Q(u + level) − Q(u) over u in [0, 1 − level]
 // by golden-section search (the width is convex in u for a density with
