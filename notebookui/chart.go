@@ -31,6 +31,10 @@ type Chart struct {
 	option   map[string]any
 	table    dataTable
 	notes    []string
+	// optionJSON is the option marshalled once, when the chart is sealed
+	// (the ID, the HTML and the JSON form all start from it; the option is
+	// not changed after that).
+	optionJSON []byte
 }
 
 // dataTable is the data behind a chart, shown beside it for readers who
@@ -157,9 +161,9 @@ func substituteCode(b []byte, asCode bool) ([]byte, error) {
 // (tooltip and label formatters, custom renderers) as strings holding their
 // source. Tests and tools read the chart's data from it.
 func (c *Chart) OptionJSON() ([]byte, error) {
-	b, err := json.Marshal(c.option)
+	b, err := c.marshalledOption()
 	if err != nil {
-		return nil, fmt.Errorf("chart %s: %w", c.id, err)
+		return nil, err
 	}
 	out, err := substituteCode(b, false)
 	if err != nil {
@@ -173,9 +177,9 @@ func (c *Chart) OptionJSON() ([]byte, error) {
 // "</script>" cannot end the script element), and this package's
 // callbacks, and nothing else, as code.
 func (c *Chart) optionScript() (string, error) {
-	b, err := json.Marshal(c.option) // escapes <, > and & inside strings
+	b, err := c.marshalledOption() // json.Marshal escapes <, > and & inside strings
 	if err != nil {
-		return "", fmt.Errorf("chart %s: %w", c.id, err)
+		return "", err
 	}
 	out, err := substituteCode(b, true)
 	if err != nil {
@@ -184,23 +188,39 @@ func (c *Chart) optionScript() (string, error) {
 	return string(out), nil
 }
 
-// chartID derives the identifier from the kind and the option's content.
-func chartID(kind string, option map[string]any) (string, error) {
-	b, err := json.Marshal(option)
-	if err != nil {
-		return "", err
+// marshalledOption returns the option's JSON, marshalled when the chart
+// was sealed (or now, for a chart that was not).
+func (c *Chart) marshalledOption() ([]byte, error) {
+	if c.optionJSON != nil {
+		return c.optionJSON, nil
 	}
-	sum := sha256.Sum256(append([]byte(kind+"\x00"), b...))
-	return "propscope-" + kind + "-" + hex.EncodeToString(sum[:6]), nil
+	b, err := json.Marshal(c.option)
+	if err != nil {
+		return nil, fmt.Errorf("chart %s: %w", c.id, err)
+	}
+	return b, nil
 }
 
-// newChart finishes a chart: it fixes the ID from the content.
-func newChart(kind, title, subtitle string, height int, option map[string]any, table dataTable, notes []string) (*Chart, error) {
-	id, err := chartID(kind, option)
+// seal marshals the option once and derives the identifier from the kind
+// and that content. A chart builder that changes the option after newChart
+// seals the chart again.
+func (c *Chart) seal() error {
+	b, err := json.Marshal(c.option)
 	if err != nil {
-		return nil, fmt.Errorf("%s chart: %w", kind, err)
+		return fmt.Errorf("%s chart: %w", c.kind, err)
 	}
-	return &Chart{id: id, kind: kind, title: title, subtitle: subtitle, height: height, option: option, table: table, notes: notes}, nil
+	sum := sha256.Sum256(append([]byte(c.kind+"\x00"), b...))
+	c.id, c.optionJSON = "propscope-"+c.kind+"-"+hex.EncodeToString(sum[:6]), b
+	return nil
+}
+
+// newChart finishes a chart: it seals it (see seal).
+func newChart(kind, title, subtitle string, height int, option map[string]any, table dataTable, notes []string) (*Chart, error) {
+	c := &Chart{kind: kind, title: title, subtitle: subtitle, height: height, option: option, table: table, notes: notes}
+	if err := c.seal(); err != nil {
+		return nil, err
+	}
+	return c, nil
 }
 
 // chartRuntime is the script around each chart. It draws every element

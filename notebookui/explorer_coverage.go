@@ -62,8 +62,8 @@ func coverageSliceChart(sl []CoverageSlice, s sliceSettings) (*Chart, error) {
 				"label":     map[string]any{"show": len(sl) == 1, "formatter": fmtPct(c.At.Coverage), "position": "top", "color": paletteColor(i)}}}}
 		}
 	}
-	// The marks changed the content: derive the identifier again.
-	if ch.id, err = chartID(ch.kind, ch.option); err != nil {
+	// The marks changed the content: seal it again (option JSON and ID).
+	if err := ch.seal(); err != nil {
 		return nil, err
 	}
 	return ch, nil
