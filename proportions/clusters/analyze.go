@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/propscope/propscope/internal/jsonlist"
 	"github.com/propscope/propscope/proportions"
@@ -32,6 +33,14 @@ const (
 	// clusters) are themselves uncertain; the cluster-level t test is the
 	// safer guide.
 	WarnFewClusters = "few-clusters"
+	// WarnDesignEffectBelowOne: a group's Rao–Scott design effect is below
+	// 1 (its clusters' counts vary less than independent units' would), so
+	// the Rao–Scott interval and test count its units as worth more than
+	// independent ones and are narrower than the unit-level answers. With
+	// few clusters this is mostly chance; the design-effect methods (which
+	// take a negative correlation as 0) and the cluster-level t do not do
+	// it.
+	WarnDesignEffectBelowOne = "design-effect-below-one"
 )
 
 // ClusteredThreshold is the design effect above which an analysis warns
@@ -133,7 +142,7 @@ func Analyze(d Data, opts ...proportions.Option) (Analysis, error) {
 	a.Interval, a.Test = ZouDonner.IntervalAt(s, ivConf), DonnerTest.Run(s, h)
 	a.ClusterLevel, a.ClusterLevelTest = ClusterLevelT.IntervalAt(s, ivConf), ClusterLevelTTest.Run(s, h)
 	a.Naive = FlagIgnoredClusters(naive, d)
-	a.Warnings = a.warnings()
+	a.Warnings = a.warnings(s)
 	a.Conclusion = a.conclusion()
 	return a, nil
 }
@@ -170,7 +179,7 @@ func plural(word string, n int) string {
 	return word + "s"
 }
 
-func (a Analysis) warnings() []proportions.Warning {
+func (a Analysis) warnings(s Summary) []proportions.Warning {
 	var w []proportions.Warning
 	d1, d2 := a.DesignEffects[0].Value, a.DesignEffects[1].Value
 	if max(d1, d2) > ClusteredThreshold {
@@ -188,12 +197,32 @@ func (a Analysis) warnings() []proportions.Warning {
 			"The intracluster correlation estimate is negative (%.3f): units of one %s differ more than chance would make them; the design effect takes it as 0.",
 			a.Correlation.Estimate, a.Data.By)})
 	}
+	if below := raoScottBelowOne(a.Data, s); below != "" {
+		w = append(w, proportions.Warning{Code: WarnDesignEffectBelowOne, Message: below})
+	}
 	if m := min(len(a.Data.Group1), len(a.Data.Group2)); m < FewClusters {
 		w = append(w, proportions.Warning{Code: WarnFewClusters, Message: fmt.Sprintf(
 			"A group has only %d %s: the clustered intervals and tests estimate the variation between %s from few values; the %s-level t test is the safer guide.",
 			m, plural(a.Data.By, m), plural(a.Data.By, 2), a.Data.By)})
 	}
 	return w
+}
+
+// raoScottBelowOne says which groups have a Rao–Scott design effect below
+// 1 and what that does, or "" when none has.
+func raoScottBelowOne(d Data, s Summary) string {
+	var parts []string
+	for i, g := range []GroupSummary{s.Group1, s.Group2} {
+		if rs := raoScottDesignEffect(g); rs < 1 {
+			parts = append(parts, fmt.Sprintf("%.2f in %s (%d units counted as about %s)",
+				rs, []string{d.First, d.Second}[i], g.Trials, roundCount(float64(g.Trials)/rs)))
+		}
+	}
+	if len(parts) == 0 {
+		return ""
+	}
+	return fmt.Sprintf("The Rao–Scott design effect is below 1, %s: the %s' counts vary less than independent units' would, so the Rao–Scott interval and test count the units as worth more than independent ones and are narrower than the unit-level answers. With few %s this is most likely chance; the design-effect methods (which take a negative correlation as 0) and the %s-level t do not narrow this way.",
+		strings.Join(parts, " and "), plural(d.By, 2), plural(d.By, 2), d.By)
 }
 
 // FlagIgnoredClusters returns a unit-level analysis of the pooled counts

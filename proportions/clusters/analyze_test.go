@@ -104,3 +104,75 @@ func TestFlagIgnoredClustersWithoutEstimate(t *testing.T) {
 		t.Errorf("warning %+v; original warnings %d, flagged %d", w, len(a.Warnings), len(f.Warnings))
 	}
 }
+
+// Clusters whose counts vary less than independent units' would (every
+// tray within one seed of its group's rate: binomial chance alone would
+// spread 10-seed trays by about ±1.6) get a Rao–Scott design effect below
+// 1; the Rao–Scott interval is then narrower than the unit-level Newcombe
+// interval on the same counts, and the analysis says so, naming the group.
+// The trays of trayTrial vary more than chance and get no such warning.
+func TestDesignEffectBelowOneWarned(t *testing.T) {
+	var g1, g2 []Cluster
+	for i, x := range []int64{5, 6, 5, 6, 5, 6, 5, 6} {
+		g1 = append(g1, Cluster{Value: fmt.Sprintf("a%d", i+1), Events: x, Trials: 10})
+	}
+	for i, x := range []int64{3, 4, 3, 4, 3, 4, 3, 4} {
+		g2 = append(g2, Cluster{Value: fmt.Sprintf("b%d", i+1), Events: x, Trials: 10})
+	}
+	d, err := New("tray", proportions.Labels{First: "primed", Second: "bare", Event: "germinated"}, g1, g2)
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := Summarize(d)
+	if d1 := raoScottDesignEffect(s.Group1); !(d1 < 1) {
+		t.Fatalf("Rao–Scott design effect of the even trays %v, want below 1", d1)
+	}
+	var rs proportions.Interval
+	for _, iv := range a.Intervals {
+		if iv.Method == RaoScottNewcombe.Key {
+			rs = iv
+		}
+	}
+	if rs.Method == "" {
+		t.Fatal("no Rao–Scott Newcombe interval")
+	}
+	unit, err := proportions.Newcombe.Interval(d.Totals(), 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(rs.Upper-rs.Lower < unit.Upper-unit.Lower) {
+		t.Errorf("Rao–Scott Newcombe %v is not narrower than unit-level Newcombe %v", rs, unit)
+	}
+	var msg string
+	for _, w := range a.Warnings {
+		if w.Code == WarnDesignEffectBelowOne {
+			msg = w.Message
+		}
+	}
+	if msg == "" {
+		t.Fatalf("no %s warning: %v", WarnDesignEffectBelowOne, a.Warnings)
+	}
+	for _, want := range []string{"in primed", "in bare", "80 units counted as about", "trays' counts vary less"} {
+		if !strings.Contains(msg, want) {
+			t.Errorf("warning %q lacks %q", msg, want)
+		}
+	}
+	b, err := json.Marshal(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(b), `"design-effect-below-one"`) {
+		t.Error("the warning's code is not in the JSON form")
+	}
+	over, err := Analyze(trayTrial(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if hasCode(over.Warnings, WarnDesignEffectBelowOne) {
+		t.Errorf("trays that vary more than chance warned as below one: %v", over.Warnings)
+	}
+}
