@@ -8,11 +8,8 @@ import "math"
 // (1964), Handbook of Mathematical Functions, NBS, formula 6.4.12), to
 // about 1e-15 relative.
 func Trigamma(x float64) float64 {
-	if !(x > 0) || math.IsInf(x, 1) {
-		if math.IsInf(x, 1) {
-			return 0
-		}
-		return math.NaN()
+	if v, edge := polygammaEdge(x); edge {
+		return v
 	}
 	var s float64
 	for ; x < 10; x++ {
@@ -30,11 +27,8 @@ func Trigamma(x float64) float64 {
 // series ψ″(x) ~ −1/x² − 1/x³ − Σ (2k+1)·B₂ₖ/x^(2k+2) (Abramowitz and
 // Stegun 6.4.13), to about 1e-15 relative.
 func Tetragamma(x float64) float64 {
-	if !(x > 0) || math.IsInf(x, 1) {
-		if math.IsInf(x, 1) {
-			return 0
-		}
-		return math.NaN()
+	if v, edge := polygammaEdge(x); edge {
+		return v
 	}
 	var s float64
 	for ; x < 10; x++ {
@@ -43,4 +37,16 @@ func Tetragamma(x float64) float64 {
 	r := 1 / (x * x)
 	series := -r - r/x - r*r*(3.0/6+r*(-5.0/30+r*(7.0/42+r*(-9.0/30+r*(11*5.0/66+r*(-13*691.0/2730+r*15*7.0/6))))))
 	return s + series
+}
+
+// polygammaEdge returns the value of ψ′ and ψ″ outside (0, ∞): 0 at +∞ and
+// NaN at or below 0 and for NaN; edge is false for an x the series serve.
+func polygammaEdge(x float64) (v float64, edge bool) {
+	switch {
+	case math.IsInf(x, 1):
+		return 0, true
+	case !(x > 0):
+		return math.NaN(), true
+	}
+	return 0, false
 }
