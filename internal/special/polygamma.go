@@ -5,8 +5,8 @@ import "math"
 // Trigamma returns ψ′(x) = d²/dx² log Γ(x) for x > 0 (NaN otherwise): the
 // recurrence ψ′(x) = ψ′(x+1) + 1/x² up to x ≥ 10, then the asymptotic
 // series ψ′(x) ~ 1/x + 1/(2x²) + Σ B₂ₖ/x^(2k+1) (Abramowitz M, Stegun IA
-// (1964), Handbook of Mathematical Functions, NBS, formula 6.4.12), to
-// about 1e-15 relative.
+// (1964), Handbook of Mathematical Functions, NBS, formula 6.4.12; the
+// formula number recalled from memory), to about 1e-15 relative.
 func Trigamma(x float64) float64 {
 	if v, edge := polygammaEdge(x); edge {
 		return v
