@@ -228,7 +228,7 @@ type ClusteredPowerGrid struct {
 // 200 entries, a cluster size below 1, fewer than 2 clusters, or more
 // than MaxTrials units in a group.
 func ClusteredPowerByClusters(p Plan, rho, sizeVariation float64, sizes []float64, clusters []int64) (ClusteredPowerGrid, error) {
-	if _, err := checkedModel(p); err != nil {
+	if _, err := checkedModel(p, reads{}); err != nil {
 		return ClusteredPowerGrid{}, err
 	}
 	if len(sizes) == 0 || len(clusters) == 0 || len(sizes) > maxPowerGrid || len(clusters) > maxPowerGrid {

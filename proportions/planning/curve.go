@@ -38,7 +38,7 @@ type PowerCurve struct {
 // sizes, always ending at n1To), with n2 = ⌈r·n1⌉. Plan.Power is not used.
 // Errors are those of Power, and ErrPlan for an empty range.
 func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
-	if _, err := checkedModel(d); err != nil {
+	if _, err := checkedModel(d, reads{}); err != nil {
 		return PowerCurve{}, err
 	}
 	sizes, err := sizeGrid(n1From, n1To, d.allocation())
@@ -58,7 +58,7 @@ func PowerByTrials(d Plan, n1From, n1To int64) (PowerCurve, error) {
 // spaced from rate1From to rate1To (both in (0, 1)), π2 = Plan.Rate2
 // fixed. Plan.Rate1 and Power are not used.
 func PowerByDifference(d Plan, n1, n2 int64, rate1From, rate1To float64, points int) (PowerCurve, error) {
-	if err := d.validate(); err != nil { // Rate1 too, when given: it is echoed
+	if err := d.validate(reads{}); err != nil { // Rate1 too, when given: it is echoed
 		return PowerCurve{}, err
 	}
 	if err := validateSizes(n1, n2); err != nil {

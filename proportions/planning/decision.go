@@ -14,7 +14,7 @@ import (
 // questions (SampleSize, DetectableDifference). Errors wrap ErrPlan,
 // ErrMargin, ErrAlternative or ErrUnsupported.
 func (d Plan) Validate() error {
-	_, err := checkedModel(d)
+	_, err := checkedModel(d, reads{})
 	return err
 }
 
@@ -41,7 +41,7 @@ func (d Plan) Enrolled(n int64) int64 { return enrolled(n, d.Dropout) }
 // wrap ErrUnsupported for a test that cannot carry out the plan, and the
 // errors of Plan validation.
 func (d Plan) TestHypotheses(m proportions.TestMethod) ([]proportions.Hypothesis, error) {
-	if err := d.validate(); err != nil {
+	if err := d.validate(reads{}); err != nil {
 		return nil, err
 	}
 	if m.Run == nil {

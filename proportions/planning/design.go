@@ -221,9 +221,10 @@ const (
 	maxAllocation = 100
 )
 
-// validate checks every field except the rates and the power, which not
-// every question uses (validateRate, validatePower).
-func (d Plan) validate() error {
+// validate checks every field the planning function reads: the shared
+// ones, the second rate, and the first rate and the power when r says the
+// function reads them; the others only when they are set (validateEchoed).
+func (d Plan) validate(r reads) error {
 	if d.Goal < Equality || d.Goal > Equivalence {
 		return fmt.Errorf("goal %d: %w; use Equality, Superiority, NonInferiority or Equivalence", int(d.Goal), proportions.ErrPlan)
 	}
@@ -254,7 +255,17 @@ func (d Plan) validate() error {
 	if err := validateRate("second group's", d.Rate2); err != nil {
 		return err
 	}
-	return d.validateEchoed()
+	if r.rate1 {
+		if err := validateRate("first group's", d.Rate1); err != nil {
+			return err
+		}
+	}
+	if r.power {
+		if err := d.validatePower(); err != nil {
+			return err
+		}
+	}
+	return d.validateEchoed(r)
 }
 
 func validateRate(which string, p float64) error {

@@ -49,10 +49,7 @@ type DetectableResult struct {
 // no rate on any side reaches the power, and the errors of Power for
 // bad input.
 func DetectableDifference(d Plan, n1, n2 int64) (DetectableResult, error) {
-	if err := d.validate(); err != nil {
-		return DetectableResult{}, err
-	}
-	if err := d.validatePower(); err != nil {
+	if err := d.validate(reads{power: true}); err != nil {
 		return DetectableResult{}, err
 	}
 	if err := validateSizes(n1, n2); err != nil {

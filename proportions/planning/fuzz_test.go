@@ -4,6 +4,7 @@ import (
 	"encoding/json"
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -67,6 +68,47 @@ func TestPlanningEdgeInputs(t *testing.T) {
 	unset := NewPlan(Equality, 0, 0.35)
 	if _, err := PowerByDifference(unset, 100, 100, 0.1, 0.9, 5); err != nil {
 		t.Errorf("unset first rate in PowerByDifference: %v", err)
+	}
+}
+
+// TestPlanErrorsSayWhetherTheFieldIsUsed checks the wording of the errors
+// for a bad first rate and a bad power: a function that reads the field
+// must not call it unused (SampleSize said "the field is not used here"
+// of the very rate it needs), and one that only echoes it must say that
+// 0 is allowed.
+func TestPlanErrorsSayWhetherTheFieldIsUsed(t *testing.T) {
+	const unused = "not used here"
+	badRate := NewPlan(Equality, 5e-324, 0.35)
+	badPower := NewPlan(Equality, 0.30, 0.35)
+	badPower.Power = 1.5
+	for _, c := range []struct {
+		name   string
+		err    func() error
+		echoed bool
+	}{
+		{"SampleSize, first rate", func() error { _, err := SampleSize(badRate); return err }, false},
+		{"Power, first rate", func() error { _, err := Power(badRate, 100, 100); return err }, false},
+		{"PowerByTrials, first rate", func() error { _, err := PowerByTrials(badRate, 10, 20); return err }, false},
+		{"Validate, first rate", badRate.Validate, false},
+		{"SampleSize, power", func() error { _, err := SampleSize(badPower); return err }, false},
+		{"DetectableDifference, power", func() error { _, err := DetectableDifference(badPower, 100, 100); return err }, false},
+		{"PowerByDifference, first rate", func() error { _, err := PowerByDifference(badRate, 100, 100, 0.1, 0.9, 5); return err }, true},
+		{"DetectableDifference, first rate", func() error {
+			d := badRate
+			d.Power = 0.8
+			_, err := DetectableDifference(d, 100, 100)
+			return err
+		}, true},
+		{"Power, power", func() error { _, err := Power(badPower, 100, 100); return err }, true},
+	} {
+		err := c.err()
+		if !errors.Is(err, proportions.ErrPlan) {
+			t.Errorf("%s: %v, want an error wrapping ErrPlan", c.name, err)
+			continue
+		}
+		if got := strings.Contains(err.Error(), unused); got != c.echoed {
+			t.Errorf("%s: %q; says the field is unused: %v, want %v", c.name, err, got, c.echoed)
+		}
 	}
 }
 

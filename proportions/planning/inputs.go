@@ -27,18 +27,24 @@ const (
 	MaxPlanningPower = proportions.MaxLevel
 )
 
-// validateEchoed checks the fields a planning function may not use but
+// reads names the optional fields of Plan that a planning function reads
+// beyond those every function reads; the others it only echoes in its
+// result. It decides how validate words an error: a field the function
+// reads must be valid, a field it only echoes may also be left at 0.
+type reads struct{ rate1, power bool }
+
+// validateEchoed checks the fields a planning function does not read but
 // still echoes in its result (Rate1 for the power curve against π1 and the
 // detectable difference, Power for the power at given sizes): each must be
 // left at 0 or be valid, so that every result marshals and means what it
-// says.
-func (d Plan) validateEchoed() error {
-	if d.Rate1 != 0 {
+// says. The fields in r are checked by validate without that note.
+func (d Plan) validateEchoed(r reads) error {
+	if d.Rate1 != 0 && !r.rate1 {
 		if err := validateRate("first group's", d.Rate1); err != nil {
 			return fmt.Errorf("%w (the field is not used here: leave it 0 or give a valid rate)", err)
 		}
 	}
-	if d.Power != 0 {
+	if d.Power != 0 && !r.power {
 		if err := d.validatePower(); err != nil {
 			return fmt.Errorf("%w (the field is not used here: leave it 0 or give a valid power)", err)
 		}

@@ -77,11 +77,8 @@ type SampleSizeResult struct {
 // finite sample size exists (equal rates in a test of equality or
 // superiority, a true effect on the wrong side of the margin).
 func SampleSize(d Plan) (SampleSizeResult, error) {
-	m, err := checkedModel(d)
+	m, err := checkedModel(d, reads{rate1: true, power: true})
 	if err != nil {
-		return SampleSizeResult{}, err
-	}
-	if err := d.validatePower(); err != nil {
 		return SampleSizeResult{}, err
 	}
 	if err := m.reachable(); err != nil {
@@ -116,12 +113,11 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 	return res, nil
 }
 
-// checkedModel validates the plan (except the power) and builds its model.
-func checkedModel(d Plan) (model, error) {
-	if err := d.validate(); err != nil {
-		return model{}, err
-	}
-	if err := validateRate("first group's", d.Rate1); err != nil {
+// checkedModel validates the plan for a function that reads the fields r
+// names (the first rate always: the model needs it) and builds its model.
+func checkedModel(d Plan, r reads) (model, error) {
+	r.rate1 = true
+	if err := d.validate(r); err != nil {
 		return model{}, err
 	}
 	return newModel(d, d.Rate1, d.Rate2, d.allocation()), nil
@@ -162,7 +158,7 @@ type PowerResult struct {
 // (except ErrUnreachable: a plan that cannot reach any power simply has
 // power at most α) and ErrPlan for group sizes below 1 or above MaxTrials.
 func Power(d Plan, n1, n2 int64) (PowerResult, error) {
-	if _, err := checkedModel(d); err != nil {
+	if _, err := checkedModel(d, reads{}); err != nil {
 		return PowerResult{}, err
 	}
 	if err := validateSizes(n1, n2); err != nil {
