@@ -360,9 +360,10 @@ func (e *Effect) approx() (m, sd float64) {
 // s = μ + σ·(z + (z² − 1)·γ/6) with z the normal quantile (Cornish EA,
 // Fisher RA (1938), "Moments and cumulants in the specification of
 // distributions", Revue de l'Institut International de Statistique 5:307–
-// 320; the reference recalled from memory), from the exact cumulants of the two posteriors: of a beta rate for
-// the difference; of log π, ψ⁽ᵏ⁾(α) − ψ⁽ᵏ⁾(α+β), for the ratio; of the log
-// odds, ψ⁽ᵏ⁾(α) + (−1)ᵏ⁺¹·ψ⁽ᵏ⁾(β), for the odds ratio. The two groups'
+// 320; the reference recalled from memory), from the exact cumulants of
+// the two posteriors: of a beta rate for the difference; of log π,
+// ψ⁽ᵏ⁾(α) − ψ⁽ᵏ⁾(α+β), for the ratio; of the log odds,
+// ψ⁽ᵏ⁾(α) + (−1)ᵏ⁺¹·ψ⁽ᵏ⁾(β), for the odds ratio. The two groups'
 // cumulants subtract (odd orders) or add (even). It only starts the
 // search: with the skewness the start is off by the square of what a
 // normal start is, which saves a step of Newton's method.
