@@ -593,3 +593,34 @@ func betterOf(a proportions.Alternative) proportions.Better {
 	}
 	return proportions.HigherIsBetter
 }
+
+// TestDetectableSidesAtExtremeRates: with π2 within 10⁻⁹ of 0 or 1 (the
+// rates a plan accepts go to 10⁻¹² and 1 − 10⁻¹²), a side of the
+// detectable range stays on its side of π2: Above above it, Below below
+// it, and an equivalence range holds π2. The search once started at 10⁻⁹
+// and 1 − 10⁻⁹, so an "above" rate came out below π2 = 1 − 10⁻¹².
+func TestDetectableSidesAtExtremeRates(t *testing.T) {
+	for _, p2 := range []float64{MinPlanningRate, 1e-10, 1 - 1e-10, MaxPlanningRate} {
+		for _, goal := range []Goal{Equality, Equivalence} {
+			d := NewPlan(goal, 0.5, p2)
+			if goal == Equivalence {
+				d.Margin = 0.1
+			}
+			for _, n := range [][2]int64{{10, 1_000_000_000}, {1_000_000_000, 1_000_000_000}, {proportions.MaxTrials, proportions.MaxTrials}} {
+				res, err := DetectableDifference(d, n[0], n[1])
+				if err != nil {
+					if !errors.Is(err, proportions.ErrUnreachable) {
+						t.Errorf("%v at %v: %v", d, n, err)
+					}
+					continue
+				}
+				if res.Below.Found && !(res.Below.Rate1 < p2 || goal == Equivalence && res.Below.Rate1 <= p2) {
+					t.Errorf("%v at %v: below side %v is not below π2 = %v", d, n, res.Below.Rate1, p2)
+				}
+				if res.Above.Found && !(res.Above.Rate1 > p2 || goal == Equivalence && res.Above.Rate1 >= p2) {
+					t.Errorf("%v at %v: above side %v is not above π2 = %v", d, n, res.Above.Rate1, p2)
+				}
+			}
+		}
+	}
+}
