@@ -624,3 +624,24 @@ func TestDetectableSidesAtExtremeRates(t *testing.T) {
 		}
 	}
 }
+
+// TestPowerCurveHoldsAtMostMaxCurvePoints: a range of group sizes longer
+// than MaxCurvePoints is walked in equal steps ending at its last size,
+// and the curve, that last size included, holds at most MaxCurvePoints
+// points (2001 sizes once gave 2001 points, and so did 4000).
+func TestPowerCurveHoldsAtMostMaxCurvePoints(t *testing.T) {
+	d := NewPlan(Equality, 0.6, 0.5)
+	for _, to := range []int64{MaxCurvePoints, MaxCurvePoints + 1, 2*MaxCurvePoints - 1, 2 * MaxCurvePoints, 2*MaxCurvePoints + 1, 1_000_003, proportions.MaxTrials / 2} {
+		c, err := PowerByTrials(d, 1, to)
+		if err != nil {
+			t.Fatalf("1 to %d: %v", to, err)
+		}
+		n := len(c.Points)
+		if n > MaxCurvePoints || c.Points[0].N1 != 1 || c.Points[n-1].N1 != to {
+			t.Errorf("1 to %d: %d points from %d to %d, want at most %d from 1 to %d", to, n, c.Points[0].N1, c.Points[n-1].N1, MaxCurvePoints, to)
+		}
+		if to == MaxCurvePoints && n != MaxCurvePoints {
+			t.Errorf("1 to %d: %d points, want every size", to, n)
+		}
+	}
+}
