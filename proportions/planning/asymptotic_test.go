@@ -645,3 +645,27 @@ func TestPowerCurveHoldsAtMostMaxCurvePoints(t *testing.T) {
 		}
 	}
 }
+
+// TestGroupTwoIsRTimesGroupOne: group 2 gets ⌈r·n1⌉ units at every size.
+// Rounding up once forgave 10⁻⁹ of the size as rounding noise, so above
+// 10⁹ units group 2 came out short (equal allocation gave n2 = n1 − 216731
+// at n1 ≈ 2.2·10¹⁴).
+func TestGroupTwoIsRTimesGroupOne(t *testing.T) {
+	d := NewPlan(Equivalence, 1e-12, 1e-12)
+	d.Scale, d.Margin, d.Power = proportions.Ratio, 1.25, 0.5
+	res, err := SampleSize(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.N2 != res.N1 || res.N1 < 1e12 {
+		t.Errorf("equal allocation: %d and %d units, want equal groups of over 10¹² units", res.N1, res.N2)
+	}
+	for _, n := range []int64{999_999_999, 1_000_000_001, 123_456_789_012, proportions.MaxTrials} {
+		for _, r := range []float64{1, 0.5, 0.25} {
+			want := int64(math.Ceil(r * float64(n))) // exact: r·n is a whole or half number
+			if got := groupTwoSize(n, r); got != want {
+				t.Errorf("⌈%v·%d⌉ = %d, got %d", r, n, want, got)
+			}
+		}
+	}
+}
