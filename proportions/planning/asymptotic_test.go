@@ -669,3 +669,35 @@ func TestGroupTwoIsRTimesGroupOne(t *testing.T) {
 		}
 	}
 }
+
+// TestSampleSizeReachesItsPower: SampleSize promises a power of at least
+// the target at the sizes it returns. The formula's n1, rounded up, fell
+// short where the plan is extreme: the bisection of equivalence stops
+// within 10⁻¹⁰ of n1 (power 0.49999999599 for a target of 0.5 at n1 ≈
+// 4·10⁶), and at rates within 10⁻⁶ of 1 the null rates carry few digits
+// (0.99899296 for 0.999). The plans are from a sweep over the edges of the
+// accepted ranges.
+func TestSampleSizeReachesItsPower(t *testing.T) {
+	plan := func(goal Goal, scale proportions.Scale, p1, p2, margin, alpha, power, alloc float64) Plan {
+		d := NewPlan(goal, p1, p2)
+		d.Scale, d.Margin, d.Alpha, d.Power, d.Allocation = scale, margin, alpha, power, alloc
+		return d
+	}
+	for _, d := range []Plan{
+		plan(Equivalence, proportions.Ratio, 1e-12, 1e-6, 1e-12, 0.05, 0.5, 3.3),
+		plan(Superiority, proportions.Ratio, 0.999999999999, 0.999999, 1.000000000001, 1e-12, 0.999, 3.3),
+		plan(Superiority, proportions.Ratio, 1e-6, 1e-12, 2, 1e-12, 0.8, 1),
+		plan(Equivalence, proportions.Difference, 1e-12, 1e-12, -1e-12, 1e-12, 0.5, 1),
+		plan(Equivalence, proportions.Ratio, 1e-12, 1e-12, 1.25, 0.05, 0.5, 1),
+	} {
+		res, err := SampleSize(d)
+		if err != nil {
+			t.Errorf("%v: %v", d, err)
+			continue
+		}
+		pw, err := Power(d, res.N1, res.N2)
+		if err != nil || res.Power < d.Power || pw.Power < d.Power {
+			t.Errorf("%v: power %v (Power says %v, %v) at %d + %d, below the target %v", d, res.Power, pw.Power, err, res.N1, res.N2, d.Power)
+		}
+	}
+}
