@@ -2,6 +2,7 @@ package operating
 
 import (
 	"context"
+	"errors"
 	"strings"
 	"testing"
 
@@ -50,5 +51,13 @@ func TestCheckAnalysisSkipsLargeDesigns(t *testing.T) {
 	before := len(a.Warnings)
 	if err := CheckAnalysis(context.Background(), &a); err != nil || len(a.Warnings) != before {
 		t.Errorf("large design: err %v, %d → %d warnings", err, before, len(a.Warnings))
+	}
+}
+
+// TestCheckAnalysisNil: a nil analysis is an error wrapping ErrEmptyInput,
+// not a nil-pointer panic.
+func TestCheckAnalysisNil(t *testing.T) {
+	if err := CheckAnalysis(context.Background(), nil); !errors.Is(err, proportions.ErrEmptyInput) {
+		t.Errorf("got %v, want an error wrapping ErrEmptyInput", err)
 	}
 }
