@@ -61,3 +61,14 @@ func TestCheckAnalysisNil(t *testing.T) {
 		t.Errorf("got %v, want an error wrapping ErrEmptyInput", err)
 	}
 }
+
+// TestDesignNegativeSize: a negative group size is a negative count
+// (ErrNegativeCount), as in proportions, not a group without trials.
+func TestDesignNegativeSize(t *testing.T) {
+	if _, err := NewDesign(-1, 3, 0.95); !errors.Is(err, proportions.ErrNegativeCount) {
+		t.Errorf("NewDesign(-1, 3): got %v, want an error wrapping ErrNegativeCount", err)
+	}
+	if _, err := NewDesign(3, 0, 0.95); !errors.Is(err, proportions.ErrNoTrials) {
+		t.Errorf("NewDesign(3, 0): got %v, want an error wrapping ErrNoTrials", err)
+	}
+}
