@@ -33,7 +33,9 @@ const (
 	// below the nominal level by more than the tolerance.
 	WarnUndercoverage = "undercoverage"
 	// WarnSkipped: a registered method was not run because the data exceed
-	// its TrialLimit.
+	// its TrialLimit or its cost guard, or (Yates' test, asked for with
+	// WithYatesTest) because it tests a difference of 0 only and the
+	// analysis tests another null.
 	WarnSkipped = "method-skipped"
 )
 

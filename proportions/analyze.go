@@ -218,7 +218,14 @@ func (a *Analysis) testsOf(ctx context.Context, f methodFilter, c Counts, h Hypo
 	out := make([]TestResult, 0, len(asymptoticTests)+len(exactTests))
 	for _, l := range [...][]TestMethod{asymptoticTests, exactTests, ratioTests} {
 		for _, m := range l {
-			if m.Scale != Difference || (!m.Margins && h.Null != 0) || (m.ContinuityCorrected && !s.YatesTest) {
+			if m.Scale != Difference || (m.ContinuityCorrected && !s.YatesTest) {
+				continue
+			}
+			if !m.Margins && h.Null != 0 {
+				if m.ContinuityCorrected { // asked for by name (WithYatesTest): say why it is missing
+					a.Warnings = append(a.Warnings, Warning{Code: WarnSkipped, Message: fmt.Sprintf(
+						"%s was not computed: it tests equal rates only, and this analysis tests a difference of %s percentage points.", m.Name, FormatPoints(h.Null, 1))})
+				}
 				continue
 			}
 			if !a.admit(f, m.Key, m.Name, m.Exact, m.TrialLimit) {

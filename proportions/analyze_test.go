@@ -354,3 +354,42 @@ func TestAnalysisListsAreSeparate(t *testing.T) {
 		*l = (*l)[:len(before[i])]
 	}
 }
+
+// TestYatesAskedForWithAMargin: Yates' test, asked for by name with
+// WithYatesTest(true), tests equal rates only; with a non-zero null the
+// analysis leaves it out and says so in a warning, rather than dropping
+// what was asked for without a word.
+func TestYatesAskedForWithAMargin(t *testing.T) {
+	c, err := NewComparison(30, 100, 20, 100, Labels{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(c, WithYatesTest(true), WithNull(0.1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range a.Tests {
+		if r.Method == YatesTest.Key {
+			t.Fatalf("Yates' test ran at a null of 0.1: %v", r)
+		}
+	}
+	said := false
+	for _, w := range a.Warnings {
+		if w.Code == WarnSkipped && strings.Contains(w.Message, YatesTest.Name) && strings.Contains(w.Message, "+10.0 percentage points") {
+			said = true
+		}
+	}
+	if !said {
+		t.Errorf("no warning says Yates' test was left out for the null: %v", a.Warnings)
+	}
+	// Not asked for: no warning about it.
+	a, err = Analyze(c, WithNull(0.1))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range a.Warnings {
+		if strings.Contains(w.Message, YatesTest.Name) {
+			t.Errorf("a warning names Yates' test, which was not asked for: %v", w)
+		}
+	}
+}

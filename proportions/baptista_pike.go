@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"math"
 
 	"github.com/propscope/propscope/internal/root"
@@ -48,21 +49,50 @@ var BaptistaPike = IntervalMethod{
 	TrialLimit:    baptistaPikeTrialLimit,
 	PointEstimate: conditionalMLE,
 	Limits:        baptistaPikeLimits,
+	LimitsContext: baptistaPikeLimitsContext,
+	Cost:          baptistaPikeCost,
 }
 
 func baptistaPikeLimits(c Counts, conf Confidence) (lower, upper float64) {
+	return baptistaPikeLimitsOf(nil, c, conf)
+}
+
+// baptistaPikeLimitsContext is baptistaPikeLimits with cancellation: the
+// walks and sweeps look at ctx as they go (see noncentralHypergeom), so it
+// returns ctx's error within milliseconds of ctx ending.
+func baptistaPikeLimitsContext(ctx context.Context, c Counts, conf Confidence) (lower, upper float64, err error) {
+	lower, upper = baptistaPikeLimitsOf(ctx, c, conf)
+	if err := ctx.Err(); err != nil {
+		return 0, 0, err
+	}
+	return lower, upper, nil
+}
+
+// baptistaPikeLimitsOf computes the limits; a nil ctx never stops.
+func baptistaPikeLimitsOf(ctx context.Context, c Counts, conf Confidence) (lower, upper float64) {
 	flip := Counts{X1: c.N1 - c.X1, N1: c.N1, X2: c.N2 - c.X2, N2: c.N2}
 	// Exchanging events and non-events maps ψ to 1/ψ and keeps the
 	// ordering of tables, so the upper limit is the reciprocal of the
 	// flipped table's lower limit.
-	return baptistaPikeLower(c, conf.Alpha()), 1 / baptistaPikeLower(flip, conf.Alpha())
+	return baptistaPikeLower(ctx, c, conf.Alpha()), 1 / baptistaPikeLower(ctx, flip, conf.Alpha())
+}
+
+// baptistaPikeCost estimates a Baptista–Pike interval with its conditional
+// maximum-likelihood estimate: the sweeps add a logarithmic factor to the
+// walks of Cornfield's interval, 4000·(s + 1)·log₂(s + 2) steps for a
+// spread s (conditionalSpread); measured 0.22 ms a table at 2000 per
+// group and 1.4 s at 10¹⁰ per group near one half.
+func baptistaPikeCost(c Counts, _ Confidence) Cost {
+	s := conditionalSpread(c)
+	return Cost{Steps: 4000 * (s + 1) * math.Log2(s+2)}
 }
 
 // baptistaPikeLower returns inf{ψ : p(ψ) > α}, sweeping t = log ψ upward
 // through the stretches between jumps of p, from a point below which
 // p ≤ α is guaranteed.
-func baptistaPikeLower(c Counts, alpha float64) float64 {
+func baptistaPikeLower(ctx context.Context, c Counts, alpha float64) float64 {
 	d := newNoncentralHypergeom(c)
+	d.ctx = ctx
 	x := c.X1
 	if x == d.lo {
 		return 0
@@ -107,7 +137,7 @@ type sterneSet struct {
 func (d noncentralHypergeom) sterneSetAt(x int64, t float64) sterneSet {
 	s := sterneSet{x: x, j: d.lo - 1, u: d.hi + 1, dU: math.Inf(1)}
 	dk := 0.0 // D(k+1) while scanning down
-	for k := x - 1; k >= d.lo; k-- {
+	for k := x - 1; k >= d.lo && !d.stoppedAt(x-k); k-- {
 		next := dk
 		dk -= math.Log(special.HypergeomRatio(k, d.n1, d.n2, d.m))
 		if dk+float64(k-x)*t <= 0 {
@@ -117,7 +147,7 @@ func (d noncentralHypergeom) sterneSetAt(x int64, t float64) sterneSet {
 		s.dNext = dk
 	}
 	dk = 0
-	for k := x + 1; k <= d.hi; k++ {
+	for k := x + 1; k <= d.hi && !d.stoppedAt(k-x); k++ {
 		dk += math.Log(special.HypergeomRatio(k-1, d.n1, d.n2, d.m))
 		if dk+float64(k-x)*t <= 0 {
 			s.u, s.dU = k, dk
@@ -143,13 +173,13 @@ func (s sterneSet) nextJump() float64 {
 
 // advance moves the set past the jump at t.
 func (d noncentralHypergeom) advance(s sterneSet, t float64) sterneSet {
-	for s.j+1 < s.x && s.dNext/float64(s.x-s.j-1) <= t {
+	for s.j+1 < s.x && s.dNext/float64(s.x-s.j-1) <= t && !d.stoppedAt(s.j) {
 		s.j++
 		if s.j+1 < s.x {
 			s.dNext += math.Log(special.HypergeomRatio(s.j, d.n1, d.n2, d.m))
 		}
 	}
-	for !math.IsInf(s.dU, 1) && -s.dU/float64(s.u-s.x) <= t {
+	for !math.IsInf(s.dU, 1) && -s.dU/float64(s.u-s.x) <= t && !d.stoppedAt(s.u) {
 		if s.u == d.hi {
 			s.u, s.dU = d.hi+1, math.Inf(1)
 			break
@@ -180,6 +210,9 @@ func (d noncentralHypergeom) setProbability(t float64, s sterneSet) float64 {
 //
 // since j(t) grows with t, lower tails fall and upper tails rise with t.
 func (d noncentralHypergeom) firstAccepted(x int64, t1, t2, alpha float64, depth int) (float64, bool) {
+	if d.stopped() {
+		return t2, false
+	}
 	s1, s2 := d.sterneSetAt(x, t1), d.sterneSetAt(x, t2)
 	if jumps := (s2.j - s1.j) + (s2.u - s1.u); jumps <= 16 || depth >= 48 {
 		return d.sweepLower(s1, t1, t2, alpha)
@@ -214,7 +247,7 @@ func (d noncentralHypergeom) lowerTail(t float64, j int64) float64 {
 // one.
 func (d noncentralHypergeom) sweepLower(s sterneSet, ta, tb, alpha float64) (float64, bool) {
 	t := ta
-	for t < tb {
+	for t < tb && !d.stopped() {
 		next := math.Min(math.Max(s.nextJump(), t), tb)
 		pl := d.setProbability(t, s)
 		if pl > alpha {

@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"math"
 
 	"github.com/propscope/propscope/internal/root"
@@ -46,7 +47,23 @@ func conditionalMLE(c Counts) float64 {
 // A limit is 0 or ∞ when x1 is the smallest or largest value the margins
 // allow.
 func conditionalTailLimits(c Counts, conf Confidence, w float64) (lower, upper float64) {
+	return conditionalTailLimitsOf(newNoncentralHypergeom(c), c, conf, w)
+}
+
+// conditionalTailLimitsContext is conditionalTailLimits with cancellation:
+// the walks look at ctx as they go (see noncentralHypergeom), so it returns
+// ctx's error within milliseconds of ctx ending.
+func conditionalTailLimitsContext(ctx context.Context, c Counts, conf Confidence, w float64) (lower, upper float64, err error) {
 	d := newNoncentralHypergeom(c)
+	d.ctx = ctx
+	lower, upper = conditionalTailLimitsOf(d, c, conf, w)
+	if err := ctx.Err(); err != nil {
+		return 0, 0, err
+	}
+	return lower, upper, nil
+}
+
+func conditionalTailLimitsOf(d noncentralHypergeom, c Counts, conf Confidence, w float64) (lower, upper float64) {
 	half := conf.Alpha() / 2
 	lower, upper = 0, math.Inf(1)
 	t0, se := adjustedLogOddsRatio(c)
@@ -64,6 +81,24 @@ func conditionalTailLimits(c Counts, conf Confidence, w float64) (lower, upper f
 		}, t0, step))
 	}
 	return lower, upper
+}
+
+// conditionalSpread is about the standard deviation of X1 given the
+// margins near the estimate, (1/(x1+½) + 1/(n1−x1+½) + 1/(x2+½) +
+// 1/(n2−x2+½))^(−1/2): the walks of the conditional methods visit about
+// 18 of them per evaluation, whatever ψ the root searches try.
+func conditionalSpread(c Counts) float64 {
+	a, b := float64(c.X1)+0.5, float64(c.N1-c.X1)+0.5
+	e, f := float64(c.X2)+0.5, float64(c.N2-c.X2)+0.5
+	return math.Sqrt(1 / (1/a + 1/b + 1/e + 1/f))
+}
+
+// cornfieldCost estimates a Cornfield interval with its conditional
+// maximum-likelihood estimate: about 4000 steps per unit of spread (from
+// 1.9 to 3.7 µs per unit measured between 20 and 10¹⁰ per group, 0.13 s
+// for a table of 10¹⁰ per group near one half).
+func cornfieldCost(c Counts, _ Confidence) Cost {
+	return Cost{Steps: 4000 * (conditionalSpread(c) + 1)}
 }
 
 // CornfieldExact is the exact conditional interval for the odds ratio: the
@@ -93,6 +128,10 @@ var CornfieldExact = IntervalMethod{
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 1)
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return conditionalTailLimitsContext(ctx, c, conf, 1)
+	},
+	Cost: cornfieldCost,
 }
 
 // CornfieldMidP is the mid-p version of the exact conditional interval:
@@ -119,6 +158,10 @@ var CornfieldMidP = IntervalMethod{
 	Limits: func(c Counts, conf Confidence) (float64, float64) {
 		return conditionalTailLimits(c, conf, 0.5)
 	},
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return conditionalTailLimitsContext(ctx, c, conf, 0.5)
+	},
+	Cost: cornfieldCost,
 }
 
 // exactConditionalTrialLimit is the largest n1 + n2 for the conditional

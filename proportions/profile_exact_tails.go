@@ -1,5 +1,7 @@
 package proportions
 
+import "context"
+
 // ProfileExactTails is the "exact" interval for π1 − π2 from profile-
 // likelihood tail areas: the nuisance parameter is set to its restricted
 // maximum-likelihood value rather than maximised over, and the lower limit
@@ -37,7 +39,11 @@ var ProfileExactTails = IntervalMethod{
 	Definition: "lower: the δ with P(D ≥ d) = α/2, upper: the δ with P(D ≤ d) = α/2, D = X1/n1 − X2/n2 for binomials at the MLE (π̃1, π̃2) under π1 − π2 = δ, d the observed difference",
 	Symmetric:  true,
 	TrialLimit: profileTailTrialLimit,
-	Limits:     profileExactTailsLimits,
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return profileTailLimitsContext(ctx, c, conf, 1)
+	},
+	Cost:   profileTailCost,
+	Limits: profileExactTailsLimits,
 }
 
 func profileExactTailsLimits(c Counts, conf Confidence) (lower, upper float64) {

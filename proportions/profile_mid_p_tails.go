@@ -1,5 +1,7 @@
 package proportions
 
+import "context"
+
 // ProfileMidPTails is the mid-p interval for π1 − π2 from profile-
 // likelihood tail areas: as ProfileExactTails, but the tables tied with
 // the observed difference count half, so the lower limit is the δ with
@@ -24,7 +26,11 @@ var ProfileMidPTails = IntervalMethod{
 	Definition: "lower: the δ with P(D > d) + ½P(D = d) = α/2, upper: the δ with P(D < d) + ½P(D = d) = α/2, D = X1/n1 − X2/n2 for binomials at the MLE (π̃1, π̃2) under π1 − π2 = δ",
 	Symmetric:  true,
 	TrialLimit: profileTailTrialLimit,
-	Limits:     profileMidPTailsLimits,
+	LimitsContext: func(ctx context.Context, c Counts, conf Confidence) (float64, float64, error) {
+		return profileTailLimitsContext(ctx, c, conf, 0.5)
+	},
+	Cost:   profileTailCost,
+	Limits: profileMidPTailsLimits,
 }
 
 func profileMidPTailsLimits(c Counts, conf Confidence) (lower, upper float64) {

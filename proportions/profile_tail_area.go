@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"math"
 	"math/bits"
 
@@ -33,14 +34,44 @@ import (
 // profileTailLimits returns the limits of the profile tail-area interval
 // with tie weight w.
 func profileTailLimits(c Counts, conf Confidence, w float64) (lower, upper float64) {
+	return profileTailLimitsOf(nil, c, conf, w)
+}
+
+// profileTailLimitsContext is profileTailLimits with cancellation: each
+// tail evaluation looks at ctx as it walks (see profileTails), so it
+// returns ctx's error within milliseconds of ctx ending.
+func profileTailLimitsContext(ctx context.Context, c Counts, conf Confidence, w float64) (lower, upper float64, err error) {
+	lower, upper = profileTailLimitsOf(ctx, c, conf, w)
+	if err := ctx.Err(); err != nil {
+		return 0, 0, err
+	}
+	return lower, upper, nil
+}
+
+// profileTailCost estimates a profile tail-area interval: about 5000
+// steps per standard deviation √(n·p·(1−p)) of each group at the observed
+// rates, for the evaluations near the limits, and 260 per √n of each group
+// for the few the root search makes far from them (measured: 4.7 ms at
+// 10⁶ per group near one half, 0.5 s at 10¹⁰, 52 ms at 10¹⁰ with every
+// trial an event).
+func profileTailCost(c Counts, _ Confidence) Cost {
+	sd := func(x, n int64) float64 {
+		p := float64(x) / float64(n)
+		return math.Sqrt(float64(n) * p * (1 - p))
+	}
+	return Cost{Steps: 5000*(sd(c.X1, c.N1)+sd(c.X2, c.N2)+1) + 260*(math.Sqrt(float64(c.N1))+math.Sqrt(float64(c.N2)))}
+}
+
+// profileTailLimitsOf computes the limits; a nil ctx never stops.
+func profileTailLimitsOf(ctx context.Context, c Counts, conf Confidence, w float64) (lower, upper float64) {
 	half := conf.Alpha() / 2
 	// above(δ) − α/2 rises with δ; below(δ) − α/2 falls.
 	fl := func(delta float64) float64 {
-		a, t, _ := profileTails(c, delta)
+		a, t, _ := profileTails(ctx, c, delta)
 		return a + w*t - half
 	}
 	fu := func(delta float64) float64 {
-		_, t, b := profileTails(c, delta)
+		_, t, b := profileTails(ctx, c, delta)
 		return b + w*t - half
 	}
 	d := c.P1() - c.P2()
@@ -122,8 +153,10 @@ func polishedCrossing(f func(float64) float64, a, b, fa, fb float64) float64 {
 }
 
 // profileTails returns P(D > d), P(D = d) and P(D < d) at the restricted
-// fit of δ (see above).
-func profileTails(c Counts, delta float64) (above, tie, below float64) {
+// fit of δ (see above). Once ctx (nil: never) has ended it stops within
+// stopEvery counts and returns meaningless sums, which the caller
+// discards.
+func profileTails(ctx context.Context, c Counts, delta float64) (above, tie, below float64) {
 	f := fitRestricted(c, delta)
 	i0, i1, b1 := binomialWindow(c.N1, f.p1, f.q1)
 	j0, j1, b2 := binomialWindow(c.N2, f.p2, f.q2)
@@ -135,6 +168,9 @@ func profileTails(c Counts, delta float64) (above, tie, below float64) {
 	j, bj := j0, b2 // next j to add and its probability
 	cum, total1 := 0.0, 0.0
 	for i := i0; i <= i1; i++ {
+		if ctx != nil && (i-i0)%stopEvery == 0 && ctx.Err() != nil {
+			break
+		}
 		for j <= j1 && compareTables(c, i, j) > 0 {
 			cum += bj
 			bj *= binomialStep(c.N2, j, r2)
@@ -146,6 +182,9 @@ func profileTails(c Counts, delta float64) (above, tie, below float64) {
 		}
 		total1 += b1
 		b1 *= binomialStep(c.N1, i, r1)
+	}
+	if ctx != nil && ctx.Err() != nil {
+		return above, tie, 0
 	}
 	// The window sums are 1 up to the terms left out; below is the rest.
 	below = math.Max(0, total1*windowSum(j0, j1, b2, c.N2, r2)-above-tie)

@@ -19,8 +19,21 @@ func restrictedVariance(c Counts, delta float64) float64 {
 // happens inside −1 < δ < 1 only when δ = 0 and every trial had the same
 // outcome (all events or none), and then p1 − p2 = δ too; the statistic is
 // 0/0 there and is defined as 0 (no evidence either way, p = 1).
+//
+// A null within about 10⁻²⁷¹ of 0 with every trial alike gives a variance
+// of order |δ|/n, which underflows (to 0 at δ = 5e−324), while the
+// numerator −δ does not: the statistic was ±Inf and the test rejected a
+// null its own interval contained. There both are scaled by 2⁵⁰⁰, which
+// gives the true z, of order √(|δ|·n), near 0.
 func scoreZ(c Counts, delta, k float64) float64 {
-	return signedScore(c.P1()-c.P2()-delta, k*restrictedVariance(c, delta))
+	f := fitRestricted(c, delta)
+	num, v := c.P1()-c.P2()-delta, k*f.variance(c)
+	if v < 0x1p-900 && num != 0 && math.Abs(num) < 0x1p-900 {
+		const s = 0x1p500
+		scaled := (f.p1*s)*(f.q1*s)/float64(c.N1) + (f.p2*s)*(f.q2*s)/float64(c.N2)
+		return signedScore(num*s, k*scaled)
+	}
+	return signedScore(num, v)
 }
 
 // FarringtonManningZ returns the score statistic for H0: π1 − π2 = delta

@@ -31,8 +31,12 @@ const checkGrid = 21
 // nominal. The
 // check depends on the design and on the region only; it reads the methods
 // from the registry by key. Exact (conservative) methods are not checked.
-// Above CheckLimit trials in a group it adds nothing and returns nil.
+// Above CheckLimit trials in a group it adds nothing and returns nil; a
+// nil analysis is an error wrapping proportions.ErrEmptyInput.
 func CheckAnalysis(ctx context.Context, a *proportions.Analysis) error {
+	if a == nil {
+		return fmt.Errorf("no analysis to check (nil): %w; pass the address of an analysis made by proportions.Analyze", proportions.ErrEmptyInput)
+	}
 	n1, n2 := a.Comparison.First.Trials, a.Comparison.Second.Trials
 	if n1 > CheckLimit || n2 > CheckLimit || len(a.DifferenceIntervals) == 0 {
 		return nil

@@ -2,6 +2,7 @@ package operating
 
 import (
 	"context"
+	"errors"
 	"strings"
 	"testing"
 
@@ -50,5 +51,24 @@ func TestCheckAnalysisSkipsLargeDesigns(t *testing.T) {
 	before := len(a.Warnings)
 	if err := CheckAnalysis(context.Background(), &a); err != nil || len(a.Warnings) != before {
 		t.Errorf("large design: err %v, %d → %d warnings", err, before, len(a.Warnings))
+	}
+}
+
+// TestCheckAnalysisNil: a nil analysis is an error wrapping ErrEmptyInput,
+// not a nil-pointer panic.
+func TestCheckAnalysisNil(t *testing.T) {
+	if err := CheckAnalysis(context.Background(), nil); !errors.Is(err, proportions.ErrEmptyInput) {
+		t.Errorf("got %v, want an error wrapping ErrEmptyInput", err)
+	}
+}
+
+// TestDesignNegativeSize: a negative group size is a negative count
+// (ErrNegativeCount), as in proportions, not a group without trials.
+func TestDesignNegativeSize(t *testing.T) {
+	if _, err := NewDesign(-1, 3, 0.95); !errors.Is(err, proportions.ErrNegativeCount) {
+		t.Errorf("NewDesign(-1, 3): got %v, want an error wrapping ErrNegativeCount", err)
+	}
+	if _, err := NewDesign(3, 0, 0.95); !errors.Is(err, proportions.ErrNoTrials) {
+		t.Errorf("NewDesign(3, 0): got %v, want an error wrapping ErrNoTrials", err)
 	}
 }

@@ -46,7 +46,9 @@ func validateSizes(n1, n2 int) error {
 	for i, n := range [2]int{n1, n2} {
 		which := [2]string{"first", "second"}[i]
 		switch {
-		case n < 1:
+		case n < 0:
+			return fmt.Errorf("%s group: %d trials: %w; a design needs at least 1 trial per group", which, n, proportions.ErrNegativeCount)
+		case n == 0:
 			return fmt.Errorf("%s group: %d trials: %w; a design needs at least 1 trial per group", which, n, proportions.ErrNoTrials)
 		case n > MaxDesignTrials:
 			return fmt.Errorf("%s group: %d trials: %w; exact operating characteristics are computed for at most %d trials per group", which, n, proportions.ErrTooLarge, MaxDesignTrials)

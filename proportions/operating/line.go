@@ -15,16 +15,23 @@ import (
 //
 // At θ = no effect this is the line π1 = π2. Errors wrap
 // proportions.ErrNull for θ outside the scale's open parameter space
-// (−1 < δ < 1, 0 < ρ, ψ < ∞).
+// (−1 < δ < 1, 0 < ρ, ψ < ∞), ErrUnsupported for another scale,
+// ErrEmptyInput for k below 2 and ErrTooLarge for k above 1000001 (the
+// most points WithSteps allows).
 func EffectLine(f proportions.Scale, theta float64, k int) ([][2]float64, error) {
-	if f == proportions.SingleRate {
-		return nil, fmt.Errorf("effect line for one proportion: %w; use the difference, ratio or odds ratio", proportions.ErrUnsupported)
+	if f != proportions.Difference && f != proportions.Ratio && f != proportions.OddsRatio {
+		return nil, fmt.Errorf("effect line for the %s: %w; use the difference, ratio or odds ratio", f, proportions.ErrUnsupported)
 	}
 	if err := proportions.ValidateNull(f, theta); err != nil {
 		return nil, err
 	}
 	if k < 2 {
 		return nil, fmt.Errorf("%d points: %w; a line needs at least 2", k, proportions.ErrEmptyInput)
+	}
+	if k > maxSteps {
+		// k is a length to allocate: 2^40 points asked for 16 TB and
+		// ended the program with an out-of-memory crash.
+		return nil, fmt.Errorf("%d points: %w; a line holds at most %d", k, proportions.ErrTooLarge, maxSteps)
 	}
 	lo, hi := 0.0, 1.0
 	switch f {

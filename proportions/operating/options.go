@@ -73,11 +73,14 @@ func (c config) stepsOr(def int) (int, error) {
 	if k == 0 {
 		k = def
 	}
-	if k < 2 || k > 1_000_001 {
-		return 0, fmt.Errorf("%d steps: %w; use between 2 and 1000001 points", k, proportions.ErrEmptyInput)
+	if k < 2 || k > maxSteps {
+		return 0, fmt.Errorf("%d steps: %w; use between 2 and %d points", k, proportions.ErrEmptyInput, maxSteps)
 	}
 	return k, nil
 }
+
+// maxSteps is the most points of a slice, a size curve or an effect line.
+const maxSteps = 1_000_001
 
 // reporter serialises progress calls from several workers.
 type reporter = workpool.Reporter

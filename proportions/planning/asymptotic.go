@@ -278,10 +278,13 @@ func effectOf(f proportions.Scale, p1, p2 float64) float64 {
 	return p1 - p2
 }
 
-// ceilSize rounds a real group size up, forgiving rounding noise of a few
-// ulps so that an exact integer solution stays that integer; at least 1.
+// ceilSize rounds a real group size up, forgiving rounding noise so that
+// an exact integer solution stays that integer; at least 1. The noise
+// forgiven is 10⁻⁹ of x but never more than 10⁻⁶ of a unit: a share of x
+// alone forgave whole units above 10⁹ (group 2 came out 2·10⁵ units short
+// of ⌈r·n1⌉ at n1 ≈ 2·10¹⁴).
 func ceilSize(x float64) int64 {
-	n := int64(math.Ceil(x - 1e-9*math.Max(1, x)))
+	n := int64(math.Ceil(x - math.Min(1e-9*math.Max(1, x), 1e-6)))
 	return max(n, 1)
 }
 

@@ -593,3 +593,111 @@ func betterOf(a proportions.Alternative) proportions.Better {
 	}
 	return proportions.HigherIsBetter
 }
+
+// TestDetectableSidesAtExtremeRates: with π2 within 10⁻⁹ of 0 or 1 (the
+// rates a plan accepts go to 10⁻¹² and 1 − 10⁻¹²), a side of the
+// detectable range stays on its side of π2: Above above it, Below below
+// it, and an equivalence range holds π2. The search once started at 10⁻⁹
+// and 1 − 10⁻⁹, so an "above" rate came out below π2 = 1 − 10⁻¹².
+func TestDetectableSidesAtExtremeRates(t *testing.T) {
+	for _, p2 := range []float64{MinPlanningRate, 1e-10, 1 - 1e-10, MaxPlanningRate} {
+		for _, goal := range []Goal{Equality, Equivalence} {
+			d := NewPlan(goal, 0.5, p2)
+			if goal == Equivalence {
+				d.Margin = 0.1
+			}
+			for _, n := range [][2]int64{{10, 1_000_000_000}, {1_000_000_000, 1_000_000_000}, {proportions.MaxTrials, proportions.MaxTrials}} {
+				res, err := DetectableDifference(d, n[0], n[1])
+				if err != nil {
+					if !errors.Is(err, proportions.ErrUnreachable) {
+						t.Errorf("%v at %v: %v", d, n, err)
+					}
+					continue
+				}
+				if res.Below.Found && !(res.Below.Rate1 < p2 || goal == Equivalence && res.Below.Rate1 <= p2) {
+					t.Errorf("%v at %v: below side %v is not below π2 = %v", d, n, res.Below.Rate1, p2)
+				}
+				if res.Above.Found && !(res.Above.Rate1 > p2 || goal == Equivalence && res.Above.Rate1 >= p2) {
+					t.Errorf("%v at %v: above side %v is not above π2 = %v", d, n, res.Above.Rate1, p2)
+				}
+			}
+		}
+	}
+}
+
+// TestPowerCurveHoldsAtMostMaxCurvePoints: a range of group sizes longer
+// than MaxCurvePoints is walked in equal steps ending at its last size,
+// and the curve, that last size included, holds at most MaxCurvePoints
+// points (2001 sizes once gave 2001 points, and so did 4000).
+func TestPowerCurveHoldsAtMostMaxCurvePoints(t *testing.T) {
+	d := NewPlan(Equality, 0.6, 0.5)
+	for _, to := range []int64{MaxCurvePoints, MaxCurvePoints + 1, 2*MaxCurvePoints - 1, 2 * MaxCurvePoints, 2*MaxCurvePoints + 1, 1_000_003, proportions.MaxTrials / 2} {
+		c, err := PowerByTrials(d, 1, to)
+		if err != nil {
+			t.Fatalf("1 to %d: %v", to, err)
+		}
+		n := len(c.Points)
+		if n > MaxCurvePoints || c.Points[0].N1 != 1 || c.Points[n-1].N1 != to {
+			t.Errorf("1 to %d: %d points from %d to %d, want at most %d from 1 to %d", to, n, c.Points[0].N1, c.Points[n-1].N1, MaxCurvePoints, to)
+		}
+		if to == MaxCurvePoints && n != MaxCurvePoints {
+			t.Errorf("1 to %d: %d points, want every size", to, n)
+		}
+	}
+}
+
+// TestGroupTwoIsRTimesGroupOne: group 2 gets ⌈r·n1⌉ units at every size.
+// Rounding up once forgave 10⁻⁹ of the size as rounding noise, so above
+// 10⁹ units group 2 came out short (equal allocation gave n2 = n1 − 216731
+// at n1 ≈ 2.2·10¹⁴).
+func TestGroupTwoIsRTimesGroupOne(t *testing.T) {
+	d := NewPlan(Equivalence, 1e-12, 1e-12)
+	d.Scale, d.Margin, d.Power = proportions.Ratio, 1.25, 0.5
+	res, err := SampleSize(d)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res.N2 != res.N1 || res.N1 < 1e12 {
+		t.Errorf("equal allocation: %d and %d units, want equal groups of over 10¹² units", res.N1, res.N2)
+	}
+	for _, n := range []int64{999_999_999, 1_000_000_001, 123_456_789_012, proportions.MaxTrials} {
+		for _, r := range []float64{1, 0.5, 0.25} {
+			want := int64(math.Ceil(r * float64(n))) // exact: r·n is a whole or half number
+			if got := groupTwoSize(n, r); got != want {
+				t.Errorf("⌈%v·%d⌉ = %d, got %d", r, n, want, got)
+			}
+		}
+	}
+}
+
+// TestSampleSizeReachesItsPower: SampleSize promises a power of at least
+// the target at the sizes it returns. The formula's n1, rounded up, fell
+// short where the plan is extreme: the bisection of equivalence stops
+// within 10⁻¹⁰ of n1 (power 0.49999999599 for a target of 0.5 at n1 ≈
+// 4·10⁶), and at rates within 10⁻⁶ of 1 the null rates carry few digits
+// (0.99899296 for 0.999). The plans are from a sweep over the edges of the
+// accepted ranges.
+func TestSampleSizeReachesItsPower(t *testing.T) {
+	plan := func(goal Goal, scale proportions.Scale, p1, p2, margin, alpha, power, alloc float64) Plan {
+		d := NewPlan(goal, p1, p2)
+		d.Scale, d.Margin, d.Alpha, d.Power, d.Allocation = scale, margin, alpha, power, alloc
+		return d
+	}
+	for _, d := range []Plan{
+		plan(Equivalence, proportions.Ratio, 1e-12, 1e-6, 1e-12, 0.05, 0.5, 3.3),
+		plan(Superiority, proportions.Ratio, 0.999999999999, 0.999999, 1.000000000001, 1e-12, 0.999, 3.3),
+		plan(Superiority, proportions.Ratio, 1e-6, 1e-12, 2, 1e-12, 0.8, 1),
+		plan(Equivalence, proportions.Difference, 1e-12, 1e-12, -1e-12, 1e-12, 0.5, 1),
+		plan(Equivalence, proportions.Ratio, 1e-12, 1e-12, 1.25, 0.05, 0.5, 1),
+	} {
+		res, err := SampleSize(d)
+		if err != nil {
+			t.Errorf("%v: %v", d, err)
+			continue
+		}
+		pw, err := Power(d, res.N1, res.N2)
+		if err != nil || res.Power < d.Power || pw.Power < d.Power {
+			t.Errorf("%v: power %v (Power says %v, %v) at %d + %d, below the target %v", d, res.Power, pw.Power, err, res.N1, res.N2, d.Power)
+		}
+	}
+}

@@ -135,10 +135,15 @@ func ClusteredSampleSize(p Plan, c Clustering) (ClusteredSizeResult, error) {
 	r := p.allocation()
 	k1 := max(ceilSize(ind.Unrounded*de/c.Size), 2)
 	k2 := max(ceilSize(r*ind.Unrounded*de/c.Size), 2)
-	n1, n2 := ceilSize(float64(k1)*c.Size), ceilSize(float64(k2)*c.Size)
-	if n1 > proportions.MaxTrials || n2 > proportions.MaxTrials {
-		return ClusteredSizeResult{}, fmt.Errorf("clustered sample size of %d and %d units: %w; at most %d units per group", n1, n2, proportions.ErrTooLarge, proportions.MaxTrials)
+	// The units are checked as real numbers before they become integers:
+	// clusters of 10¹⁵ units can hold more than an int64 (4·10¹⁹ units
+	// once wrapped around to a study of 1 unit per group).
+	u1, u2 := float64(k1)*c.Size, float64(k2)*c.Size
+	if !(u1 <= float64(proportions.MaxTrials) && u2 <= float64(proportions.MaxTrials)) {
+		return ClusteredSizeResult{}, fmt.Errorf("clustered sample size of %.4g and %.4g units (%d and %d clusters of %s): %w; at most %d units per group",
+			u1, u2, k1, k2, formatSize(c.Size), proportions.ErrTooLarge, proportions.MaxTrials)
 	}
+	n1, n2 := ceilSize(u1), ceilSize(u2)
 	e1, err := enrolledUnits(n1, p.Dropout)
 	if err != nil {
 		return ClusteredSizeResult{}, err

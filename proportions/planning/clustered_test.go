@@ -101,3 +101,17 @@ func TestClusteredPlanRefusesBadInput(t *testing.T) {
 		t.Errorf("equal rates: %v", err)
 	}
 }
+
+// TestClusteredSampleSizeBeyondAnyStudy: clusters of 10¹⁵ units (a size
+// the clustering accepts) with a strong correlation need more units than
+// an int64 holds; that is an error wrapping ErrTooLarge, not a study of
+// 1 unit per group (the product wrapped around and was clamped to 1).
+func TestClusteredSampleSizeBeyondAnyStudy(t *testing.T) {
+	d := NewPlan(Equality, 0.5, 0.45)
+	for _, c := range []Clustering{{Size: 1e15, Correlation: 0.99, SizeVariation: 5}, {Size: 1e14, Correlation: 0.99, SizeVariation: 5}} {
+		res, err := ClusteredSampleSize(d, c)
+		if !errors.Is(err, proportions.ErrTooLarge) {
+			t.Errorf("%v: got %v (%d and %d units), want an error wrapping ErrTooLarge", c, err, res.N1, res.N2)
+		}
+	}
+}

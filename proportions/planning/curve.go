@@ -89,7 +89,11 @@ func sizeGrid(n1From, n1To int64, r float64) ([][2]int64, error) {
 	if err := checkGroupTwo(n1To, r); err != nil {
 		return nil, err
 	}
-	step := max(1, (n1To-n1From+MaxCurvePoints-1)/MaxCurvePoints)
+	// A step of ⌈span/(MaxCurvePoints − 1)⌉ gives at most MaxCurvePoints − 1
+	// steps, so the sizes, n1To appended when a step misses it, number at
+	// most MaxCurvePoints.
+	span := n1To - n1From
+	step := max(1, (span+MaxCurvePoints-2)/(MaxCurvePoints-1))
 	var out [][2]int64
 	for n := n1From; n <= n1To; n += step {
 		out = append(out, [2]int64{n, groupTwoSize(n, r)})

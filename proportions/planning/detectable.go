@@ -58,8 +58,10 @@ func DetectableDifference(d Plan, n1, n2 int64) (DetectableResult, error) {
 	sr := rateSearch{d: d, r: float64(n2) / float64(n1), n1: float64(n1), z: d.critical(), zp: special.NormalQuantile(d.Power)}
 	method, cite, _ := describeMethod(d)
 	res := DetectableResult{Plan: d, Approximation: method, Citation: cite, N1: n1, N2: n2, Caution: Caution}
-	const edge = 1e-9 // keep π1 inside (0, 1)
-	lo, hi := edge, 1-edge
+	// π1 is sought among the rates a plan accepts, which hold π2: an edge
+	// further in (10⁻⁹ once) put a side on the wrong side of a π2 near 0
+	// or 1.
+	lo, hi := MinPlanningRate, MaxPlanningRate
 	switch d.Goal {
 	case Equivalence:
 		centre := d.Rate2

@@ -182,6 +182,9 @@ func ExactSampleSize(ctx context.Context, d Plan, m proportions.TestMethod, s Se
 	if err != nil {
 		return ExactSampleSizeResult{}, err
 	}
+	if err := s.validate(d); err != nil {
+		return ExactSampleSizeResult{}, err
+	}
 	if maxN := s.maxN1(d); asym.Unrounded > 1.5*float64(maxN) {
 		return ExactSampleSizeResult{}, fmt.Errorf("the normal approximation needs n1 = %d: %w; the exact search stops at n1 = %d (Search.MaxN1); at such sizes the approximation is close",
 			asym.N1, proportions.ErrTooLarge, maxN)

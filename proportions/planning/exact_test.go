@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
+	"github.com/propscope/propscope/proportions/operating"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -421,5 +422,57 @@ func TestExactResultsPrintAndMarshal(t *testing.T) {
 	wide.Allocation = 30
 	if _, err := ExactSampleSize(context.Background(), wide, proportions.PearsonChiSquareTest, Search{}); err != nil {
 		t.Errorf("allocation 50: %v", err)
+	}
+}
+
+// TestExactSearchBoundsCheckedFirst: a bad Search is refused before any
+// work with an error wrapping ErrPlan that names the bound at fault and
+// the cap the search really has. A horizon past the cap once ran the scan
+// up to the cap and then failed on "group 1 size 2001"; a negative MaxN1
+// was reported as a plan too large (ErrTooLarge); From past the cap said
+// "cap 0" where the cap was MaxExactTrials.
+func TestExactSearchBoundsCheckedFirst(t *testing.T) {
+	d := NewPlan(Equality, 0.6, 0.4)
+	cases := []struct {
+		s    Search
+		want string
+	}{
+		{Search{From: 1990, Horizon: 2100}, "horizon 2100"},
+		{Search{MaxN1: -1}, "MaxN1 -1"},
+		{Search{From: 3000}, "2000"},
+		{Search{From: -5}, "From -5"},
+		{Search{From: 50, Horizon: 40}, "horizon 40"},
+	}
+	for _, tc := range cases {
+		var calls int
+		ctx, cancel := context.WithCancel(context.Background())
+		_, err := ExactSampleSize(ctx, d, proportions.PearsonChiSquareTest, tc.s, operating.WithProgress(func(done, total int) { calls++ }))
+		cancel()
+		if !errors.Is(err, proportions.ErrPlan) || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("%+v: got %v, want an error wrapping ErrPlan that says %q", tc.s, err, tc.want)
+		}
+		if calls > 0 {
+			t.Errorf("%+v: %d progress reports before the refusal, want none", tc.s, calls)
+		}
+	}
+}
+
+// TestExactSearchLargeCap: a cap far above MaxExactTrials is lowered to
+// the largest size the engine takes in one step, not one size at a time
+// (MaxN1 = 2^26 spent 2.8 s lowering it before any work, and MaxTrials
+// hours), and the search then answers as with the default cap.
+func TestExactSearchLargeCap(t *testing.T) {
+	d := NewPlan(Equality, 0.6, 0.4)
+	d.Allocation = 0.5
+	want, err := ExactSampleSize(context.Background(), d, proportions.PearsonChiSquareTest, Search{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	got, err := ExactSampleSize(context.Background(), d, proportions.PearsonChiSquareTest, Search{MaxN1: proportions.MaxTrials})
+	if err != nil || got.First != want.First || got.Stable != want.Stable {
+		t.Errorf("MaxN1 = MaxTrials: first %+v, stable %+v (%v); default cap: %+v, %+v", got.First, got.Stable, err, want.First, want.Stable)
+	}
+	if n := (Search{MaxN1: proportions.MaxTrials}).maxN1(d); n != 2*MaxExactTrials {
+		t.Errorf("cap %d with n2/n1 = 0.5, want %d (group 2 then holds %d)", n, 2*MaxExactTrials, MaxExactTrials)
 	}
 }

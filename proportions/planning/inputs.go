@@ -68,7 +68,7 @@ func enrolledUnits(n int64, share float64) (int64, error) {
 		return 0, fmt.Errorf("enrolling %d units with an outcome at a drop-out share of %v needs %.3g units: %w; at most %d units per group can be enrolled",
 			n, share, x, proportions.ErrTooLarge, proportions.MaxTrials)
 	}
-	// ceilSize forgives rounding noise of about 1e−9 of x, which must not
+	// ceilSize forgives rounding noise (up to 1e−6 of a unit), which must not
 	// take the enrolment below the analysed size.
 	return max(n, ceilSize(x)), nil
 }

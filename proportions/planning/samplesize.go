@@ -30,7 +30,10 @@ type SampleSizeResult struct {
 	Formula       string `json:"formula"`
 	// Unrounded is the formula's real-valued n1 before rounding up.
 	Unrounded float64 `json:"n1_unrounded"`
-	// N1 and N2 are the units per group with an outcome (after drop-out).
+	// N1 and N2 are the units per group with an outcome (after drop-out):
+	// N1 is the smallest whole size from ⌈Unrounded⌉ up at which the power
+	// reaches the target (one or a few units more than ⌈Unrounded⌉ where
+	// rounding would leave it just short), N2 = ⌈r·N1⌉.
 	N1    int64 `json:"n1"`
 	N2    int64 `json:"n2"`
 	Total int64 `json:"total"`
@@ -88,7 +91,10 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 	if n > float64(proportions.MaxTrials) || math.IsNaN(n) {
 		return SampleSizeResult{}, fmt.Errorf("sample size %.3g per group: %w; the plan needs more than %d units per group", n, proportions.ErrTooLarge, proportions.MaxTrials)
 	}
-	n1 := ceilSize(n)
+	n1 := reachTarget(d, m.r, ceilSize(n))
+	if n1 > proportions.MaxTrials {
+		return SampleSizeResult{}, fmt.Errorf("sample size %d per group: %w; the plan needs more than %d units per group", n1, proportions.ErrTooLarge, proportions.MaxTrials)
+	}
 	if err := checkGroupTwo(n1, m.r); err != nil {
 		return SampleSizeResult{}, err
 	}
@@ -111,6 +117,37 @@ func SampleSize(d Plan) (SampleSizeResult, error) {
 	res.Power = powerAtSizes(d, n1, n2)
 	res.Notes = planNotes(d, n1, n2)
 	return res, nil
+}
+
+// reachTarget returns the smallest n1 from n1 up at which the power at
+// the whole sizes n1 and ⌈r·n1⌉ reaches the plan's target, so that the
+// result keeps its promise of at least that power. The formula's n1
+// rounded up can fall short: the bisection of equivalence stops within
+// 10⁻¹⁰ of n1, and at rates near 0 or 1 the null rates carry few digits,
+// so the power is noisy from one size to the next. It gallops up from n1
+// and bisects back, a few dozen power evaluations at most; above
+// MaxTrials it returns a size the caller refuses.
+func reachTarget(d Plan, r float64, n1 int64) int64 {
+	reaches := func(n int64) bool { return powerAtSizes(d, n, groupTwoSize(n, r)) >= d.Power }
+	if reaches(n1) {
+		return n1
+	}
+	lo, hi := n1, n1+1 // the power at lo falls short; hi is to be checked
+	for step := int64(1); !reaches(hi); step *= 2 {
+		if hi > proportions.MaxTrials {
+			return hi
+		}
+		lo, hi = hi, n1+2*step
+	}
+	for hi-lo > 1 {
+		mid := lo + (hi-lo)/2
+		if reaches(mid) {
+			hi = mid
+		} else {
+			lo = mid
+		}
+	}
+	return hi
 }
 
 // checkedModel validates the plan for a function that reads the fields r

@@ -38,10 +38,38 @@ func (s Search) maxN1(d Plan) int64 {
 	if maxN == 0 {
 		maxN = DefaultMaxN1
 	}
+	// Group 2, ⌈r·n1⌉, stays within MaxExactTrials up to about
+	// MaxExactTrials/r: start there (a cap far above it was once lowered
+	// one size at a time, for hours at MaxTrials) and step over the rounding.
+	if limit := float64(MaxExactTrials)/d.allocation() + 1; float64(maxN) > limit {
+		maxN = int64(limit)
+	}
 	for maxN > 1 && d.SecondGroupSize(maxN) > MaxExactTrials {
 		maxN--
 	}
 	return maxN
+}
+
+// validate checks the bounds of the search against the cap it really has
+// (maxN1), before any work: From 0 (meaning 1) or from 1 to the cap,
+// MaxN1 0 (the default) or positive, and Horizon 0 (the default) or from
+// From to the cap. Errors wrap ErrPlan and name the bound at fault.
+func (s Search) validate(d Plan) error {
+	maxN := s.maxN1(d)
+	from := max(s.From, 1)
+	var bad string
+	switch {
+	case s.MaxN1 < 0:
+		bad = fmt.Sprintf("MaxN1 %d", s.MaxN1)
+	case s.From < 0 || from > maxN:
+		bad = fmt.Sprintf("From %d", s.From)
+	case s.Horizon < 0 || s.Horizon > 0 && (s.Horizon < from || s.Horizon > maxN):
+		bad = fmt.Sprintf("horizon %d", s.Horizon)
+	default:
+		return nil
+	}
+	return fmt.Errorf("search %s: %w; the search can visit n1 from 1 to %d here (MaxN1, default %d, lowered so that group 2 stays within %d units): give From and a horizon in that range (0 for the defaults) and MaxN1 of 0 or more",
+		bad, proportions.ErrPlan, maxN, DefaultMaxN1, MaxExactTrials)
 }
 
 // powerFunc is exact power at group sizes (n1, n2).
@@ -63,14 +91,10 @@ type scanResult struct {
 // cost, sizeCost(n1), to prog; once the horizon is known (or widened) the
 // estimate of the rest is revised to the sizes left.
 func scan(ctx context.Context, d Plan, s Search, power powerFunc, prog *progress, sizeCost func(n1 int64) float64) (scanResult, error) {
-	from, maxN := s.From, s.maxN1(d)
-	if from == 0 {
-		from = 1
+	if err := s.validate(d); err != nil {
+		return scanResult{}, err
 	}
-	if from < 1 || maxN < from || maxN > proportions.MaxTrials || s.Horizon < 0 || (s.Horizon > 0 && s.Horizon < from) {
-		return scanResult{}, fmt.Errorf("search from %d, horizon %d, cap %d: %w; give 1 ≤ From ≤ MaxN1 and a horizon of 0 (default) or at least From",
-			s.From, s.Horizon, s.MaxN1, proportions.ErrPlan)
-	}
+	from, maxN := max(s.From, 1), s.maxN1(d)
 	res := scanResult{from: from}
 	at := func(n1 int64) (float64, error) {
 		n2 := d.SecondGroupSize(n1)
