@@ -35,12 +35,19 @@ type Effect struct {
 
 // NewEffect returns the posterior of the effect on the scale (Difference,
 // Ratio or OddsRatio; an error wrapping proportions.ErrUnsupported for
-// another scale).
+// another scale). Posteriors the integrals cannot handle are refused as by
+// Analyze (proportions.ErrTooLarge above 10⁸ units, ErrPrior for a shape
+// below 0.05 or one that is not a number).
 func NewEffect(scale proportions.Scale, first, second Posterior) (*Effect, error) {
 	switch scale {
 	case proportions.Difference, proportions.Ratio, proportions.OddsRatio:
 	default:
 		return nil, fmt.Errorf("posterior of the %v scale: %w; use the difference, the ratio or the odds ratio", scale, proportions.ErrUnsupported)
+	}
+	for i, p := range [2]Posterior{first, second} {
+		if err := checkPosterior([2]string{"first", "second"}[i], p); err != nil {
+			return nil, err
+		}
 	}
 	e := &Effect{Scale: scale, First: first, Second: second, outerFirst: first.Variance() < second.Variance()}
 	out, in := e.outer()
@@ -523,10 +530,11 @@ func resolvable(ge, f float64) float64 {
 
 // EqualTailed returns the interval holding the given posterior
 // probability with equal probability (1 − level)/2 beyond each end, and
-// the larger error estimate of its ends.
+// the larger error estimate of its ends. The level lies from
+// proportions.MinLevel to proportions.MaxLevel, as in Analyze.
 func (e *Effect) EqualTailed(level float64) (lower, upper, err float64, fail error) {
-	if !(level > 0 && level < 1) {
-		return 0, 0, 0, fmt.Errorf("interval probability %v: %w; use a probability strictly between 0 and 1, such as 0.95", level, proportions.ErrLevel)
+	if err := proportions.ValidateLevel(level); err != nil {
+		return 0, 0, 0, fmt.Errorf("interval probability: %w", err)
 	}
 	lower, e1, _ := e.Quantile((1 - level) / 2)
 	upper, e2, _ := e.Quantile((1 + level) / 2)
