@@ -175,13 +175,17 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...propor
 	if a.Crude, err = proportions.AnalyzeContext(ctx, crude, opts...); err != nil {
 		return Analysis{}, err
 	}
-	a.Strata = strataRows(b, ts, ivConf)
+	if a.Strata, err = strataRows(ctx, b, ts, ivConf); err != nil {
+		return Analysis{}, err
+	}
 	a.Test = cochranMantelHaenszel(ts, s.Alternative, false)
 	a.Test.decide(s.Level)
 	corrected := cochranMantelHaenszel(ts, s.Alternative, true)
 	corrected.decide(s.Level)
 	a.Tests = []Test{a.Test, corrected}
-	a.Interval = stratifiedScore(ts, ivConf)
+	if a.Interval, err = stratifiedScore(ctx, ts, ivConf); err != nil {
+		return Analysis{}, err
+	}
 	or := mhOddsRatio(ts, ivConf)
 	a.Estimates = []Estimate{a.Interval, satoDifference(ts, ivConf), greenlandRobinsDifference(ts, ivConf), mhRatio(ts, ivConf), or}
 	if err := a.addExact(ctx, ts, s, conf, ivConf, or.Estimate); err != nil {
@@ -215,11 +219,17 @@ func settings(opts []proportions.Option) (s proportions.Settings, conf, ivConf p
 	return s, conf, ivConf, nil
 }
 
-// strataRows returns one Stratum per row of b, used or not.
-func strataRows(b proportions.Breakdown, ts []table, conf proportions.Confidence) []Stratum {
+// strataRows returns one Stratum per row of b, used or not, or ctx's error
+// (it looks every strataPerCheck rows: a score interval per row).
+func strataRows(ctx context.Context, b proportions.Breakdown, ts []table, conf proportions.Confidence) ([]Stratum, error) {
 	total := sum(ts, table.weight)
 	out := make([]Stratum, len(b.Rows))
 	for i, r := range b.Rows {
+		if i%strataPerCheck == strataPerCheck-1 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		s := Stratum{Value: r.Value, Counts: r.Counts, Difference: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), OddsRatio: math.NaN()}
 		if !r.Empty() {
 			t := newTable(r.Value, r.Counts)
@@ -230,7 +240,7 @@ func strataRows(b proportions.Breakdown, ts []table, conf proportions.Confidence
 		}
 		out[i] = s
 	}
-	return out
+	return out, nil
 }
 
 // addExact runs the exact conditional test and interval unless the scope
