@@ -304,3 +304,18 @@ func plainTotal(t *testing.T, data string, cells bool) int64 {
 	}
 	return total
 }
+
+// TestRepeatedColumnNamesSayWhere checks the error for a wanted column
+// whose name occurs twice: a CSV's names its header line, while the same
+// error reached through a SQL table or a Parquet file (FindColumns over
+// their column names) said "line 1", which they do not have.
+func TestRepeatedColumnNamesSayWhere(t *testing.T) {
+	_, err := FindColumns([]string{"stratum", "group", "GROUP", "group"}, "stratum", "group")
+	if !errors.Is(err, ErrMalformedRow) || strings.Contains(err.Error(), "line") {
+		t.Errorf("FindColumns: error %v, want one wrapping ErrMalformedRow without a line", err)
+	}
+	_, err = ReadCSV(strings.NewReader("group,outcome,group\na,1,b\n"), CSVSpec{})
+	if !errors.Is(err, ErrMalformedRow) || !strings.HasPrefix(err.Error(), "line 1") {
+		t.Errorf("ReadCSV: error %v, want one wrapping ErrMalformedRow that names line 1", err)
+	}
+}

@@ -97,6 +97,9 @@ func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
 		return nil, csvError(err)
 	}
 	cols, err := FindColumns(header, want...)
+	if errors.Is(err, ErrMalformedRow) {
+		return nil, fmt.Errorf("line 1 (the header): %w", err) // FindColumns serves SQL and Parquet too, which have no lines
+	}
 	if err != nil {
 		return nil, err
 	}
@@ -215,7 +218,7 @@ func findColumn(names []string, want string) (int, error) {
 	for k, i := range found {
 		cols[k] = fmt.Sprintf("%d (%q)", i+1, names[i])
 	}
-	return 0, fmt.Errorf("line 1: %w: the header names column %q %d times (columns %s); each column name must occur once",
+	return 0, fmt.Errorf("%w: the column names hold %q %d times (columns %s); each column name must occur once",
 		ErrMalformedRow, want, len(found), strings.Join(cols, ", "))
 }
 
