@@ -319,3 +319,23 @@ func TestRepeatedColumnNamesSayWhere(t *testing.T) {
 		t.Errorf("ReadCSV: error %v, want one wrapping ErrMalformedRow that names line 1", err)
 	}
 }
+
+// TestUnusableDelimiterIsNamed checks that a delimiter encoding/csv cannot
+// use (a quote, a line break, a negative rune) is refused by naming the
+// delimiter and the allowed ones, where the reader's own error blamed the
+// first row ("malformed row: csv: invalid field or comment delimiter").
+func TestUnusableDelimiterIsNamed(t *testing.T) {
+	for _, comma := range []rune{'"', '\n', '\r', -1, 0xFFFD} {
+		_, err := ReadCSV(strings.NewReader("group,outcome\na,1\nb,0\n"), CSVSpec{Comma: comma})
+		if !errors.Is(err, ErrMalformedRow) || !strings.Contains(err.Error(), "delimiter (Comma) must be") {
+			t.Errorf("Comma %q: error %v, want one naming the delimiter and what is allowed", comma, err)
+		}
+		_, err = ReadBreakdownCSV(strings.NewReader("stratum,group,outcome\nx,a,1\n"), BreakdownSpec{Comma: comma})
+		if !errors.Is(err, ErrMalformedRow) || !strings.Contains(err.Error(), "delimiter (Comma) must be") {
+			t.Errorf("breakdown, Comma %q: error %v, want one naming the delimiter and what is allowed", comma, err)
+		}
+	}
+	if _, err := ReadCSV(strings.NewReader("group|outcome\na|1\nb|0\n"), CSVSpec{Comma: '|'}); err != nil {
+		t.Errorf("Comma '|': %v", err)
+	}
+}

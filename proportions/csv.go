@@ -7,6 +7,7 @@ import (
 	"io"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Default CSV column names.
@@ -79,6 +80,10 @@ type csvTable struct {
 // openCSV reads the header of r and finds the columns named in want (see
 // [FindColumns]). comma 0 detects the delimiter from the header.
 func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
+	if comma != 0 && !validComma(comma) {
+		return nil, fmt.Errorf("delimiter %q: %w; the delimiter (Comma) must be one character other than a double quote, a line break or U+FFFD, such as ',', ';' or '\\t', or 0 to detect it from the header",
+			comma, ErrMalformedRow)
+	}
 	ends := newLineEnds(r)
 	if comma == 0 {
 		var err error
@@ -104,6 +109,13 @@ func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
 		return nil, err
 	}
 	return &csvTable{cr: cr, cols: cols}, nil
+}
+
+// validComma reports whether encoding/csv accepts r as a delimiter; it
+// refuses the others only when the first row is read, with a message that
+// blamed the row ("malformed row: invalid field or comment delimiter").
+func validComma(r rune) bool {
+	return r != '"' && r != '\r' && r != '\n' && utf8.ValidRune(r) && r != utf8.RuneError
 }
 
 // next returns the next row and its place ("line 7") for error messages;
