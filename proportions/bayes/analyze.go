@@ -347,7 +347,7 @@ func sensitivityRow(c proportions.Comparison, p1, p2 Prior, s settings) (Sensiti
 	q1, q2 := p1.Update(c.First.Events, c.First.Trials), p2.Update(c.Second.Events, c.Second.Trials)
 	row := SensitivityRow{Priors: [2]Prior{p1, p2}}
 	var errMax, er float64
-	diff, _ := NewEffect(proportions.Difference, q1, q2)
+	diff := newEffect(proportions.Difference, q1, q2)
 	row.ProbabilityFirstHigher, _, er, _ = probabilityFirstHigher(q1, q2, diff)
 	errMax = er
 	med, em, err := diff.Quantile(0.5)

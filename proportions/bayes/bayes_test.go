@@ -378,3 +378,25 @@ func TestExtremePosteriorsAreRefused(t *testing.T) {
 		t.Errorf("shape 0.05 at the largest level: %v", err)
 	}
 }
+
+// TestPosteriorsAtTheLimitRun checks a posterior right at the largest
+// strength Analyze accepts (10⁸ units, Jeffreys' prior included): the
+// expected loss works on posteriors one shape larger, which the limit
+// alone would refuse, and a refused posterior there was a nil effect and
+// a crash. It must give a result that marshals.
+func TestPosteriorsAtTheLimitRun(t *testing.T) {
+	c, err := proportions.NewComparison(49_999_999, 99_999_999, 50_010_000, 99_999_999, proportions.Labels{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(c, WithPrior(Jeffreys()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := json.Marshal(a); err != nil {
+		t.Error(err)
+	}
+	if !(a.ExpectedLoss.First > 0 && a.ExpectedLoss.Second >= 0) {
+		t.Errorf("expected loss %+v: the first group, lower by 10⁻⁴, must lose something", a.ExpectedLoss)
+	}
+}

@@ -49,13 +49,21 @@ func NewEffect(scale proportions.Scale, first, second Posterior) (*Effect, error
 			return nil, err
 		}
 	}
+	return newEffect(scale, first, second), nil
+}
+
+// newEffect is NewEffect for a scale it accepts and posteriors that Analyze
+// checked, or that differ from checked ones by a shape of 1 (the expected
+// loss, the sensitivity rows): those never fail, so their callers need no
+// error to ignore.
+func newEffect(scale proportions.Scale, first, second Posterior) *Effect {
 	e := &Effect{Scale: scale, First: first, Second: second, outerFirst: first.Variance() < second.Variance()}
 	out, in := e.outer()
 	e.lo, e.hi, e.tail = out.window()
 	e.innerMax = in.maxDensity()
 	e.rule = newFixedRule(out, e.lo, e.hi)
 	e.inner = newCDFTable(in)
-	return e, nil
+	return e
 }
 
 // onScale returns the posterior of another effect of the same two rates,
