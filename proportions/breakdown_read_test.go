@@ -9,6 +9,7 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+	"time"
 )
 
 // unitRow is one generated unit: its breakdown value, group and outcome.
@@ -337,5 +338,44 @@ func TestUnusableDelimiterIsNamed(t *testing.T) {
 	}
 	if _, err := ReadCSV(strings.NewReader("group|outcome\na|1\nb|0\n"), CSVSpec{Comma: '|'}); err != nil {
 		t.Errorf("Comma '|': %v", err)
+	}
+}
+
+// endlessRows is a CSV of one header and rows without end, as a pipe
+// from a process that never stops would give.
+type endlessRows struct{ header bool }
+
+func (e *endlessRows) Read(p []byte) (int, error) {
+	if !e.header {
+		e.header = true
+		return copy(p, "group,outcome\n"), nil
+	}
+	const row = "a,1\nb,0\n"
+	n := 0
+	for n+len(row) <= len(p) {
+		n += copy(p[n:], row)
+	}
+	return n, nil
+}
+
+// TestReadCSVCancel checks that a cancel stops ReadCSVContext on a source
+// without end, which ReadCSV (taking no context) read for ever. Best of
+// three attempts, each cancelled 30 ms in, must return the context's error
+// within 200 ms (a loose bound for a shared machine).
+func TestReadCSVCancel(t *testing.T) {
+	best := time.Hour
+	for range 3 {
+		ctx, cancel := context.WithTimeout(context.Background(), 30*time.Millisecond)
+		start := time.Now()
+		_, err := ReadCSVContext(ctx, &endlessRows{}, CSVSpec{})
+		late := time.Since(start) - 30*time.Millisecond
+		cancel()
+		if !errors.Is(err, context.DeadlineExceeded) {
+			t.Fatalf("err %v, want the context's error", err)
+		}
+		best = min(best, late)
+	}
+	if best > 200*time.Millisecond {
+		t.Errorf("returned %v after the cancel, want within 200 ms", best)
 	}
 }

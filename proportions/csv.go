@@ -1,6 +1,7 @@
 package proportions
 
 import (
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -38,8 +39,17 @@ type CSVSpec struct {
 // delimiter (see [CSVSpec]). Errors wrap ErrEmptyInput (no header or no
 // rows), ErrMissingColumn, ErrMalformedRow (with the line number; also for a
 // header that names the group or outcome column twice), ErrOutcomeValue
-// (with the line number), ErrGroupCount or ErrUnknownGroup.
+// (with the line number), ErrGroupCount or ErrUnknownGroup. It is
+// ReadCSVContext without a deadline.
 func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
+	return ReadCSVContext(context.Background(), r, spec)
+}
+
+// ReadCSVContext is ReadCSV that a cancel stops: it looks at ctx every
+// few thousand rows (well under a millisecond of work) and returns its
+// error, so a reader of a file of billions of rows, or of a pipe that
+// never ends, can be stopped.
+func ReadCSVContext(ctx context.Context, r io.Reader, spec CSVSpec) (Comparison, error) {
 	groupCol := defaultString(spec.GroupColumn, DefaultGroupColumn)
 	outcomeCol := defaultString(spec.OutcomeColumn, DefaultOutcomeColumn)
 	counter, err := newOutcomeReader(spec.RecordSpec)
@@ -51,7 +61,12 @@ func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 		return Comparison{}, err
 	}
 	gi, oi := table.cols[0], table.cols[1]
-	for {
+	for rows := 0; ; rows++ {
+		if rows%rowsPerContextCheck == 0 {
+			if err := ctx.Err(); err != nil {
+				return Comparison{}, err
+			}
+		}
 		row, where, err := table.next()
 		if errors.Is(err, io.EOF) {
 			break
