@@ -142,7 +142,8 @@ func (a Analysis) Used() int {
 // analysis is proportions.Analyze of Breakdown.Crude with the same
 // options. Rows with a group without trials are kept, flagged and left
 // out of the stratified methods; a breakdown with no row that has both
-// groups is refused with an error wrapping ErrNoTrials. Analyze is
+// groups is refused with an error wrapping ErrNoTrials, and one filled in
+// by hand is checked as NewBreakdown checks it (its errors). Analyze is
 // AnalyzeContext with context.Background().
 func Analyze(b proportions.Breakdown, opts ...proportions.Option) (Analysis, error) {
 	return AnalyzeContext(context.Background(), b, opts...)
@@ -161,6 +162,11 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...propor
 	}
 	if len(b.Rows) == 0 {
 		return Analysis{}, fmt.Errorf("stratified analysis: %w; the breakdown has no rows (build it with proportions.NewBreakdown)", proportions.ErrEmptyInput)
+	}
+	// a breakdown filled in by hand skipped NewBreakdown's checks, and
+	// negative counts or more events than trials gave wrong answers silently
+	if _, err := proportions.NewBreakdown(b.By, b.Labels(), b.Rows); err != nil {
+		return Analysis{}, fmt.Errorf("stratified analysis: %w", err)
 	}
 	ts := usable(b)
 	if len(ts) == 0 {
