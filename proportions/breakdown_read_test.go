@@ -379,3 +379,27 @@ func TestReadCSVCancel(t *testing.T) {
 		t.Errorf("returned %v after the cancel, want within 200 ms", best)
 	}
 }
+
+// TestSkipNeverCountsBelowZero checks that Tally.Skip with a negative
+// number of rows leaves the count of skipped rows alone: it made
+// Breakdown.SkippedRows negative (−5 rows left out), a count no source can
+// have.
+func TestSkipNeverCountsBelowZero(t *testing.T) {
+	tl, err := NewTally(BreakdownSpec{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tl.Skip(2)
+	tl.Skip(-5)
+	tl.Skip(0)
+	if err := errors.Join(tl.AddUnit("v", "a", "1"), tl.AddUnit("v", "b", "0")); err != nil {
+		t.Fatal(err)
+	}
+	b, err := tl.Breakdown()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b.SkippedRows != 2 {
+		t.Errorf("SkippedRows %d, want the 2 rows skipped", b.SkippedRows)
+	}
+}
