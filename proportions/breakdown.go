@@ -118,6 +118,10 @@ func (b Breakdown) Comparison(i int) (Comparison, error) {
 
 // Crude returns the comparison of the pooled counts, summed over every row:
 // the analysis that ignores the breakdown.
+//
+// A pooled group of more than MaxTrials trials is an error wrapping
+// ErrTooLarge: the sums are checked as they grow, since 8192 rows of
+// MaxTrials trials overflow int64 and came out as a negative count.
 func (b Breakdown) Crude() (Comparison, error) {
 	var s Counts
 	for _, r := range b.Rows {
@@ -125,6 +129,17 @@ func (b Breakdown) Crude() (Comparison, error) {
 		s.N1 += r.Counts.N1
 		s.X2 += r.Counts.X2
 		s.N2 += r.Counts.N2
+		// Each row's counts are at most MaxTrials = 2⁵⁰, so checking after
+		// every row keeps the sums far from int64's limit of 2⁶³.
+		for _, n := range [2]struct {
+			which  string
+			trials int64
+		}{{"first", s.N1}, {"second", s.N2}} {
+			if n.trials > MaxTrials {
+				return Comparison{}, fmt.Errorf("pooled over every %s: %s group: more than %d trials: %w; at most %d trials per group are supported, so analyse the %ss separately",
+					b.By, n.which, MaxTrials, ErrTooLarge, MaxTrials, b.By)
+			}
+		}
 	}
 	c, err := NewComparison(s.X1, s.N1, s.X2, s.N2, b.Labels())
 	if err != nil {

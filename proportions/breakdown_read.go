@@ -217,9 +217,13 @@ func addCSVRow(t *Tally, layout Layout, row []string, at []int, names []string) 
 
 // ParseCount reads a count written as a whole number (spaces around it
 // allowed); anything else is an error wrapping ErrMalformedRow that names
-// the column. Signs are kept, so a negative count reaches the count checks.
+// the column, and a whole number beyond int64 one wrapping ErrTooLarge.
+// Signs are kept, so a negative count reaches the count checks.
 func ParseCount(s, column string) (int64, error) {
 	n, err := strconv.ParseInt(strings.TrimSpace(s), 10, 64)
+	if errors.Is(err, strconv.ErrRange) {
+		return 0, fmt.Errorf("column %q: %q: %w; a count may be at most %d", column, s, ErrTooLarge, MaxTrials)
+	}
 	if err != nil {
 		return 0, fmt.Errorf("column %q: %q: %w; a count must be a whole number", column, s, ErrMalformedRow)
 	}

@@ -9,6 +9,7 @@ import (
 	"math/rand/v2"
 	"strings"
 	"testing"
+	"time"
 )
 
 // unitRow is one generated unit: its breakdown value, group and outcome.
@@ -303,4 +304,102 @@ func plainTotal(t *testing.T, data string, cells bool) int64 {
 		total += n
 	}
 	return total
+}
+
+// TestRepeatedColumnNamesSayWhere checks the error for a wanted column
+// whose name occurs twice: a CSV's names its header line, while the same
+// error reached through a SQL table or a Parquet file (FindColumns over
+// their column names) said "line 1", which they do not have.
+func TestRepeatedColumnNamesSayWhere(t *testing.T) {
+	_, err := FindColumns([]string{"stratum", "group", "GROUP", "group"}, "stratum", "group")
+	if !errors.Is(err, ErrMalformedRow) || strings.Contains(err.Error(), "line") {
+		t.Errorf("FindColumns: error %v, want one wrapping ErrMalformedRow without a line", err)
+	}
+	_, err = ReadCSV(strings.NewReader("group,outcome,group\na,1,b\n"), CSVSpec{})
+	if !errors.Is(err, ErrMalformedRow) || !strings.HasPrefix(err.Error(), "line 1") {
+		t.Errorf("ReadCSV: error %v, want one wrapping ErrMalformedRow that names line 1", err)
+	}
+}
+
+// TestUnusableDelimiterIsNamed checks that a delimiter encoding/csv cannot
+// use (a quote, a line break, a negative rune) is refused by naming the
+// delimiter and the allowed ones, where the reader's own error blamed the
+// first row ("malformed row: csv: invalid field or comment delimiter").
+func TestUnusableDelimiterIsNamed(t *testing.T) {
+	for _, comma := range []rune{'"', '\n', '\r', -1, 0xFFFD} {
+		_, err := ReadCSV(strings.NewReader("group,outcome\na,1\nb,0\n"), CSVSpec{Comma: comma})
+		if !errors.Is(err, ErrMalformedRow) || !strings.Contains(err.Error(), "delimiter (Comma) must be") {
+			t.Errorf("Comma %q: error %v, want one naming the delimiter and what is allowed", comma, err)
+		}
+		_, err = ReadBreakdownCSV(strings.NewReader("stratum,group,outcome\nx,a,1\n"), BreakdownSpec{Comma: comma})
+		if !errors.Is(err, ErrMalformedRow) || !strings.Contains(err.Error(), "delimiter (Comma) must be") {
+			t.Errorf("breakdown, Comma %q: error %v, want one naming the delimiter and what is allowed", comma, err)
+		}
+	}
+	if _, err := ReadCSV(strings.NewReader("group|outcome\na|1\nb|0\n"), CSVSpec{Comma: '|'}); err != nil {
+		t.Errorf("Comma '|': %v", err)
+	}
+}
+
+// endlessRows is a CSV of one header and rows without end, as a pipe
+// from a process that never stops would give.
+type endlessRows struct{ header bool }
+
+func (e *endlessRows) Read(p []byte) (int, error) {
+	if !e.header {
+		e.header = true
+		return copy(p, "group,outcome\n"), nil
+	}
+	const row = "a,1\nb,0\n"
+	n := 0
+	for n+len(row) <= len(p) {
+		n += copy(p[n:], row)
+	}
+	return n, nil
+}
+
+// TestReadCSVCancel checks that a cancel stops ReadCSVContext on a source
+// without end, which ReadCSV (taking no context) read for ever. Best of
+// three attempts, each cancelled 30 ms in, must return the context's error
+// within 200 ms (a loose bound for a shared machine).
+func TestReadCSVCancel(t *testing.T) {
+	best := time.Hour
+	for range 3 {
+		ctx, cancel := context.WithTimeout(context.Background(), 30*time.Millisecond)
+		start := time.Now()
+		_, err := ReadCSVContext(ctx, &endlessRows{}, CSVSpec{})
+		late := time.Since(start) - 30*time.Millisecond
+		cancel()
+		if !errors.Is(err, context.DeadlineExceeded) {
+			t.Fatalf("err %v, want the context's error", err)
+		}
+		best = min(best, late)
+	}
+	if best > 200*time.Millisecond {
+		t.Errorf("returned %v after the cancel, want within 200 ms", best)
+	}
+}
+
+// TestSkipNeverCountsBelowZero checks that Tally.Skip with a negative
+// number of rows leaves the count of skipped rows alone: it made
+// Breakdown.SkippedRows negative (−5 rows left out), a count no source can
+// have.
+func TestSkipNeverCountsBelowZero(t *testing.T) {
+	tl, err := NewTally(BreakdownSpec{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tl.Skip(2)
+	tl.Skip(-5)
+	tl.Skip(0)
+	if err := errors.Join(tl.AddUnit("v", "a", "1"), tl.AddUnit("v", "b", "0")); err != nil {
+		t.Fatal(err)
+	}
+	b, err := tl.Breakdown()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b.SkippedRows != 2 {
+		t.Errorf("SkippedRows %d, want the 2 rows skipped", b.SkippedRows)
+	}
 }

@@ -2,6 +2,8 @@ package proportions
 
 import (
 	"errors"
+	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -37,5 +39,40 @@ func TestNewBreakdownChecksRows(t *testing.T) {
 		if _, err := NewBreakdown("", Labels{}, tc.rows); !errors.Is(err, tc.want) {
 			t.Errorf("NewBreakdown(%v) error %v, want %v", tc.rows, err, tc.want)
 		}
+	}
+}
+
+// TestCrudeRefusesSumsBeyondMaxTrials checks that pooling rows whose
+// trials add up beyond MaxTrials is refused as too large: 8192 rows of
+// MaxTrials trials wrapped int64 around and were reported as a negative
+// count.
+func TestCrudeRefusesSumsBeyondMaxTrials(t *testing.T) {
+	for _, n := range []int{2, 8200} {
+		rows := make([]BreakdownRow, n)
+		for i := range rows {
+			rows[i] = BreakdownRow{Value: strconv.Itoa(i), Counts: Counts{X1: 1, N1: MaxTrials, X2: 1, N2: MaxTrials}}
+		}
+		b, err := NewBreakdown("batch", Labels{}, rows)
+		if err != nil {
+			t.Fatal(err)
+		}
+		_, err = b.Crude()
+		if !errors.Is(err, ErrTooLarge) || errors.Is(err, ErrNegativeCount) {
+			t.Errorf("%d rows of %d trials: error %v, want one wrapping ErrTooLarge only", n, MaxTrials, err)
+		}
+	}
+}
+
+// TestHugeCountsAreTooLargeNotMalformed checks that a whole number beyond
+// int64 in a count column is reported as too large (with the limit), not
+// as "not a whole number", which it is.
+func TestHugeCountsAreTooLargeNotMalformed(t *testing.T) {
+	csv := "stratum,group,events,trials\nx,a,1,99999999999999999999\nx,b,1,2\n"
+	_, err := ReadBreakdownCSV(strings.NewReader(csv), BreakdownSpec{Layout: CellRows})
+	if !errors.Is(err, ErrTooLarge) || strings.Contains(err.Error(), "whole number") {
+		t.Errorf("error %v, want one wrapping ErrTooLarge that does not call the count not whole", err)
+	}
+	if _, err := ParseCount("2.5", "events"); !errors.Is(err, ErrMalformedRow) {
+		t.Errorf("2.5: error %v, want one wrapping ErrMalformedRow", err)
 	}
 }

@@ -1,12 +1,14 @@
 package proportions
 
 import (
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 )
 
 // Default CSV column names.
@@ -37,8 +39,17 @@ type CSVSpec struct {
 // delimiter (see [CSVSpec]). Errors wrap ErrEmptyInput (no header or no
 // rows), ErrMissingColumn, ErrMalformedRow (with the line number; also for a
 // header that names the group or outcome column twice), ErrOutcomeValue
-// (with the line number), ErrGroupCount or ErrUnknownGroup.
+// (with the line number), ErrGroupCount or ErrUnknownGroup. It is
+// ReadCSVContext without a deadline.
 func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
+	return ReadCSVContext(context.Background(), r, spec)
+}
+
+// ReadCSVContext is ReadCSV that a cancel stops: it looks at ctx every
+// few thousand rows (well under a millisecond of work) and returns its
+// error, so a reader of a file of billions of rows, or of a pipe that
+// never ends, can be stopped.
+func ReadCSVContext(ctx context.Context, r io.Reader, spec CSVSpec) (Comparison, error) {
 	groupCol := defaultString(spec.GroupColumn, DefaultGroupColumn)
 	outcomeCol := defaultString(spec.OutcomeColumn, DefaultOutcomeColumn)
 	counter, err := newOutcomeReader(spec.RecordSpec)
@@ -50,7 +61,12 @@ func ReadCSV(r io.Reader, spec CSVSpec) (Comparison, error) {
 		return Comparison{}, err
 	}
 	gi, oi := table.cols[0], table.cols[1]
-	for {
+	for rows := 0; ; rows++ {
+		if rows%rowsPerContextCheck == 0 {
+			if err := ctx.Err(); err != nil {
+				return Comparison{}, err
+			}
+		}
 		row, where, err := table.next()
 		if errors.Is(err, io.EOF) {
 			break
@@ -79,6 +95,10 @@ type csvTable struct {
 // openCSV reads the header of r and finds the columns named in want (see
 // [FindColumns]). comma 0 detects the delimiter from the header.
 func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
+	if comma != 0 && !validComma(comma) {
+		return nil, fmt.Errorf("delimiter %q: %w; the delimiter (Comma) must be one character other than a double quote, a line break or U+FFFD, such as ',', ';' or '\\t', or 0 to detect it from the header",
+			comma, ErrMalformedRow)
+	}
 	ends := newLineEnds(r)
 	if comma == 0 {
 		var err error
@@ -97,10 +117,20 @@ func openCSV(r io.Reader, comma rune, want ...string) (*csvTable, error) {
 		return nil, csvError(err)
 	}
 	cols, err := FindColumns(header, want...)
+	if errors.Is(err, ErrMalformedRow) {
+		return nil, fmt.Errorf("line 1 (the header): %w", err) // FindColumns serves SQL and Parquet too, which have no lines
+	}
 	if err != nil {
 		return nil, err
 	}
 	return &csvTable{cr: cr, cols: cols}, nil
+}
+
+// validComma reports whether encoding/csv accepts r as a delimiter; it
+// refuses the others only when the first row is read, with a message that
+// blamed the row ("malformed row: invalid field or comment delimiter").
+func validComma(r rune) bool {
+	return r != '"' && r != '\r' && r != '\n' && utf8.ValidRune(r) && r != utf8.RuneError
 }
 
 // next returns the next row and its place ("line 7") for error messages;
@@ -215,7 +245,7 @@ func findColumn(names []string, want string) (int, error) {
 	for k, i := range found {
 		cols[k] = fmt.Sprintf("%d (%q)", i+1, names[i])
 	}
-	return 0, fmt.Errorf("line 1: %w: the header names column %q %d times (columns %s); each column name must occur once",
+	return 0, fmt.Errorf("%w: the column names hold %q %d times (columns %s); each column name must occur once",
 		ErrMalformedRow, want, len(found), strings.Join(cols, ", "))
 }
 

@@ -144,8 +144,14 @@ func (t *Tally) groupIndex(g string) (int, error) {
 
 // Skip records n source rows left out because a column they need was NULL
 // (only on request: BreakdownSpec.SkipNulls). The count is reported in
-// [Breakdown.SkippedRows], so nothing is dropped silently.
-func (t *Tally) Skip(n int64) { t.skipped += n }
+// [Breakdown.SkippedRows], so nothing is dropped silently. A count of
+// rows left out cannot go down: n ≤ 0 changes nothing (a negative n made
+// SkippedRows negative).
+func (t *Tally) Skip(n int64) {
+	if n > 0 {
+		t.skipped += n
+	}
+}
 
 // Breakdown returns the counts as a breakdown, one row per value in the
 // order first met; a value where one group never occurs is kept as an

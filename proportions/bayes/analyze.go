@@ -37,8 +37,8 @@ func WithPriors(first, second Prior) Option {
 	return func(s *settings) { s.prior1, s.prior2 = first, second }
 }
 
-// WithLevel sets the posterior probability inside the intervals, strictly
-// between 0 and 1 (default 0.95).
+// WithLevel sets the posterior probability inside the intervals, from
+// proportions.MinLevel to proportions.MaxLevel (default 0.95).
 func WithLevel(level float64) Option { return func(s *settings) { s.level = level } }
 
 // WithMargin sets the margin δ of P(π1 − π2 > δ), in (−1, 1) (default 0).
@@ -148,7 +148,10 @@ type Analysis struct {
 
 // Analyze runs the Bayesian analysis of a comparison. Bad options return
 // an error wrapping ErrPrior, ErrRegion, ErrBatch or proportions.ErrLevel,
-// ErrMargin, ErrBetter, saying what is allowed.
+// ErrMargin, ErrBetter, saying what is allowed. A posterior the integrals
+// cannot handle in about a second is refused before any work (see
+// checkPosterior): one of more than 10⁸ units (counts plus prior strength)
+// wraps proportions.ErrTooLarge, one with a shape below 0.05 wraps ErrPrior.
 func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 	s := settings{prior1: DefaultPrior(), prior2: DefaultPrior(), level: DefaultLevel, batch: DefaultBatch}
 	for _, o := range options {
@@ -162,8 +165,8 @@ func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 			return Analysis{}, err
 		}
 	}
-	if !(s.level > 0 && s.level < 1) {
-		return Analysis{}, fmt.Errorf("interval probability %v: %w; use a probability strictly between 0 and 1, such as 0.95", s.level, proportions.ErrLevel)
+	if err := proportions.ValidateLevel(s.level); err != nil {
+		return Analysis{}, fmt.Errorf("interval probability: %w", err)
 	}
 	if !(s.margin > -1 && s.margin < 1) {
 		return Analysis{}, fmt.Errorf("margin %v: %w; a margin on the difference lies strictly between −1 and 1", s.margin, proportions.ErrMargin)
@@ -183,6 +186,9 @@ func Analyze(c proportions.Comparison, options ...Option) (Analysis, error) {
 	for i, g := range []proportions.Group{c.First, c.Second} {
 		p := []Prior{s.prior1, s.prior2}[i]
 		post[i] = p.Update(g.Events, g.Trials)
+		if err := checkPosterior(g.Label, post[i]); err != nil {
+			return Analysis{}, err
+		}
 		gp := GroupPosterior{Group: g, Prior: p, Posterior: post[i], Mean: post[i].Mean()}
 		gp.Lower, gp.Upper = rateInterval(post[i], s.level)
 		a.Groups[i] = gp
@@ -341,7 +347,7 @@ func sensitivityRow(c proportions.Comparison, p1, p2 Prior, s settings) (Sensiti
 	q1, q2 := p1.Update(c.First.Events, c.First.Trials), p2.Update(c.Second.Events, c.Second.Trials)
 	row := SensitivityRow{Priors: [2]Prior{p1, p2}}
 	var errMax, er float64
-	diff, _ := NewEffect(proportions.Difference, q1, q2)
+	diff := newEffect(proportions.Difference, q1, q2)
 	row.ProbabilityFirstHigher, _, er, _ = probabilityFirstHigher(q1, q2, diff)
 	errMax = er
 	med, em, err := diff.Quantile(0.5)

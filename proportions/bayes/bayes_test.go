@@ -1,6 +1,7 @@
 package bayes
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"math/rand/v2"
@@ -330,5 +331,72 @@ func TestBadInput(t *testing.T) {
 	}
 	if _, err := Analyze(proportions.Comparison{First: proportions.Group{Events: 3, Trials: 2}, Second: proportions.Group{Trials: 1}}); !errors.Is(err, proportions.ErrEventsExceedTrials) {
 		t.Errorf("bad counts: %v", err)
+	}
+}
+
+// TestExtremePosteriorsAreRefused checks that the posteriors whose integrals
+// took minutes (10¹⁰ units per group) or gave infinite densities (a prior
+// shape of 10⁻³⁰ with no events), and levels whose intervals came out NaN
+// (1 − 10⁻¹⁶), are refused with the sentinel that names the problem, and
+// that the edges of the allowed range still give a result that marshals.
+func TestExtremePosteriorsAreRefused(t *testing.T) {
+	large, _ := proportions.NewComparison(5e9, 1e10, 5.1e9, 1e10, proportions.Labels{})
+	small, _ := proportions.NewComparison(0, 3, 1, 3, proportions.Labels{})
+	tiny := Prior{Name: "vague", EventShape: 1e-30, NonEventShape: 1e-30}
+	strong := Prior{Name: "strong", EventShape: 1e10, NonEventShape: 1e10}
+	for _, tc := range []struct {
+		name string
+		c    proportions.Comparison
+		opts []Option
+		want error
+	}{
+		{"10¹⁰ units per group", large, nil, proportions.ErrTooLarge},
+		{"prior of strength 2·10¹⁰", small, []Option{WithPrior(strong)}, proportions.ErrTooLarge},
+		{"prior shape 10⁻³⁰, no events", small, []Option{WithPrior(tiny)}, ErrPrior},
+		{"level 1 − 10⁻¹⁶", small, []Option{WithLevel(1 - 1e-16)}, proportions.ErrLevel},
+	} {
+		if _, err := Analyze(tc.c, tc.opts...); !errors.Is(err, tc.want) {
+			t.Errorf("%s: error %v, want one wrapping %v", tc.name, err, tc.want)
+		}
+	}
+	if _, err := NewEffect(proportions.Difference, NewPosterior(math.NaN(), 1), NewPosterior(1, 1)); !errors.Is(err, ErrPrior) {
+		t.Errorf("NewEffect with a NaN shape: error %v, want one wrapping ErrPrior", err)
+	}
+	e, err := NewEffect(proportions.Difference, NewPosterior(1, 3), NewPosterior(2, 2))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, _, _, err := e.EqualTailed(1 - 1e-16); !errors.Is(err, proportions.ErrLevel) {
+		t.Errorf("EqualTailed(1 − 10⁻¹⁶): error %v, want one wrapping ErrLevel", err)
+	}
+	edge, _ := proportions.NewComparison(0, 3, 1, 3, proportions.Labels{})
+	a, err := Analyze(edge, WithPrior(Prior{Name: "vague", EventShape: 0.05, NonEventShape: 0.05}), WithLevel(proportions.MaxLevel))
+	if err != nil {
+		t.Fatalf("shape 0.05 at the largest level: %v", err)
+	}
+	if _, err := json.Marshal(a); err != nil {
+		t.Errorf("shape 0.05 at the largest level: %v", err)
+	}
+}
+
+// TestPosteriorsAtTheLimitRun checks a posterior right at the largest
+// strength Analyze accepts (10⁸ units, Jeffreys' prior included): the
+// expected loss works on posteriors one shape larger, which the limit
+// alone would refuse, and a refused posterior there was a nil effect and
+// a crash. It must give a result that marshals.
+func TestPosteriorsAtTheLimitRun(t *testing.T) {
+	c, err := proportions.NewComparison(49_999_999, 99_999_999, 50_010_000, 99_999_999, proportions.Labels{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, err := Analyze(c, WithPrior(Jeffreys()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := json.Marshal(a); err != nil {
+		t.Error(err)
+	}
+	if !(a.ExpectedLoss.First > 0 && a.ExpectedLoss.Second >= 0) {
+		t.Errorf("expected loss %+v: the first group, lower by 10⁻⁴, must lose something", a.ExpectedLoss)
 	}
 }

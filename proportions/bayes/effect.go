@@ -35,20 +35,35 @@ type Effect struct {
 
 // NewEffect returns the posterior of the effect on the scale (Difference,
 // Ratio or OddsRatio; an error wrapping proportions.ErrUnsupported for
-// another scale).
+// another scale). Posteriors the integrals cannot handle are refused as by
+// Analyze (proportions.ErrTooLarge above 10⁸ units, ErrPrior for a shape
+// below 0.05 or one that is not a number).
 func NewEffect(scale proportions.Scale, first, second Posterior) (*Effect, error) {
 	switch scale {
 	case proportions.Difference, proportions.Ratio, proportions.OddsRatio:
 	default:
 		return nil, fmt.Errorf("posterior of the %v scale: %w; use the difference, the ratio or the odds ratio", scale, proportions.ErrUnsupported)
 	}
+	for i, p := range [2]Posterior{first, second} {
+		if err := checkPosterior([2]string{"first", "second"}[i], p); err != nil {
+			return nil, err
+		}
+	}
+	return newEffect(scale, first, second), nil
+}
+
+// newEffect is NewEffect for a scale it accepts and posteriors that Analyze
+// checked, or that differ from checked ones by a shape of 1 (the expected
+// loss, the sensitivity rows): those never fail, so their callers need no
+// error to ignore.
+func newEffect(scale proportions.Scale, first, second Posterior) *Effect {
 	e := &Effect{Scale: scale, First: first, Second: second, outerFirst: first.Variance() < second.Variance()}
 	out, in := e.outer()
 	e.lo, e.hi, e.tail = out.window()
 	e.innerMax = in.maxDensity()
 	e.rule = newFixedRule(out, e.lo, e.hi)
 	e.inner = newCDFTable(in)
-	return e, nil
+	return e
 }
 
 // onScale returns the posterior of another effect of the same two rates,
@@ -523,10 +538,11 @@ func resolvable(ge, f float64) float64 {
 
 // EqualTailed returns the interval holding the given posterior
 // probability with equal probability (1 − level)/2 beyond each end, and
-// the larger error estimate of its ends.
+// the larger error estimate of its ends. The level lies from
+// proportions.MinLevel to proportions.MaxLevel, as in Analyze.
 func (e *Effect) EqualTailed(level float64) (lower, upper, err float64, fail error) {
-	if !(level > 0 && level < 1) {
-		return 0, 0, 0, fmt.Errorf("interval probability %v: %w; use a probability strictly between 0 and 1, such as 0.95", level, proportions.ErrLevel)
+	if err := proportions.ValidateLevel(level); err != nil {
+		return 0, 0, 0, fmt.Errorf("interval probability: %w", err)
 	}
 	lower, e1, _ := e.Quantile((1 - level) / 2)
 	upper, e2, _ := e.Quantile((1 + level) / 2)

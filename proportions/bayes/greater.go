@@ -53,7 +53,7 @@ func probabilityFirstHigher(first, second Posterior, diff *Effect) (higher, lowe
 	// its relative precision, the larger its absolute precision
 	e := diff
 	if e == nil {
-		e, _ = NewEffect(proportions.Difference, first, second)
+		e = newEffect(proportions.Difference, first, second)
 	}
 	if first.Mean() >= second.Mean() {
 		below, er := e.tail1(0, false)

@@ -96,7 +96,8 @@ type Analysis struct {
 // proportions.Analyze) and Scope (for the unit-level analysis); the null
 // must be 0, the only null the clustered tests are defined for. Errors
 // wrap proportions.ErrTooFewClusters (fewer than two clusters in a group),
-// ErrUnsupported (another null) or the settings' sentinels.
+// ErrUnsupported (another null), the settings' sentinels, or those of New
+// for data filled in directly (a cluster of no units, negative counts).
 func Analyze(d Data, opts ...proportions.Option) (Analysis, error) {
 	st, err := proportions.NewSettings(opts...)
 	if err != nil {
@@ -104,6 +105,9 @@ func Analyze(d Data, opts ...proportions.Option) (Analysis, error) {
 	}
 	h, err := DonnerTest.Hypothesis(opts...)
 	if err != nil {
+		return Analysis{}, err
+	}
+	if err := d.validate(); err != nil {
 		return Analysis{}, err
 	}
 	s := Summarize(d)

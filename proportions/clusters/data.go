@@ -69,7 +69,7 @@ func New(by string, labels proportions.Labels, group1, group2 []Cluster) (Data, 
 				return Data{}, fmt.Errorf("%s %q found %s: %w; each %s belongs to one group and appears once", by, k.Value, where, proportions.ErrDuplicateValue, by)
 			}
 			seen[k.Value] = label
-			if err := (proportions.Counts{X1: k.Events, N1: k.Trials, X2: 0, N2: 1}).Validate(); err != nil {
+			if err := checkCluster(k); err != nil {
 				return Data{}, fmt.Errorf("group %q, %s %q: %w", label, by, k.Value, err)
 			}
 			total[gi] += k.Trials
@@ -85,6 +85,37 @@ func New(by string, labels proportions.Labels, group1, group2 []Cluster) (Data, 
 		}
 	}
 	return d, nil
+}
+
+// checkCluster checks one cluster's counts: 0 ≤ events ≤ trials, 1 ≤
+// trials ≤ MaxTrials. Its messages speak of the cluster, not of a group of
+// a comparison (the cluster may be in either group).
+func checkCluster(k Cluster) error {
+	switch {
+	case k.Events < 0 || k.Trials < 0:
+		return fmt.Errorf("%d events of %d units: %w; counts must be 0 or more", k.Events, k.Trials, proportions.ErrNegativeCount)
+	case k.Trials == 0:
+		return fmt.Errorf("%w; every cluster needs at least one unit", proportions.ErrNoTrials)
+	case k.Events > k.Trials:
+		return fmt.Errorf("%d events of %d units: %w; events must be between 0 and the number of units", k.Events, k.Trials, proportions.ErrEventsExceedTrials)
+	case k.Trials > proportions.MaxTrials:
+		return fmt.Errorf("%d units: %w; at most %d units per group are supported", k.Trials, proportions.ErrTooLarge, proportions.MaxTrials)
+	}
+	return nil
+}
+
+// validate checks data that may not have come from New (Data's fields are
+// exported, so a caller can fill them directly): a cluster of no units
+// gave NaN in every result, one of negative events wrong numbers. The
+// errors are New's.
+func (d Data) validate() error {
+	_, err := New(d.By, d.labels(), d.Group1, d.Group2)
+	return err
+}
+
+// labels returns the group and event labels of the data.
+func (d Data) labels() proportions.Labels {
+	return proportions.Labels{First: d.First, Second: d.Second, Event: d.Event}
 }
 
 // FromBreakdown reads clusters from a breakdown by the cluster column: each

@@ -47,3 +47,50 @@ func TestFromBreakdownNamesMixedCluster(t *testing.T) {
 		t.Errorf("FromBreakdown with a mixed tray: %v", err)
 	}
 }
+
+// TestDataFilledInDirectlyIsChecked checks that Analyze, Interval and Test
+// check data that did not come from New: a cluster of no units made every
+// result NaN (and the analysis unmarshallable), negative events gave wrong
+// numbers silently.
+func TestDataFilledInDirectlyIsChecked(t *testing.T) {
+	for _, tc := range []struct {
+		name string
+		bad  Cluster
+		want error
+	}{
+		{"no units", Cluster{Value: "a", Events: 1, Trials: 0}, proportions.ErrNoTrials},
+		{"negative events", Cluster{Value: "a", Events: -1, Trials: 2}, proportions.ErrNegativeCount},
+		{"events above units", Cluster{Value: "a", Events: 3, Trials: 2}, proportions.ErrEventsExceedTrials},
+	} {
+		d := Data{Group1: []Cluster{tc.bad, {Value: "b", Events: 3, Trials: 5}},
+			Group2: []Cluster{{Value: "c", Events: 1, Trials: 2}, {Value: "d", Events: 3, Trials: 5}}}
+		if _, err := Analyze(d); !errors.Is(err, tc.want) {
+			t.Errorf("%s: Analyze error %v, want one wrapping %v", tc.name, err, tc.want)
+		}
+		if _, err := ZouDonner.Interval(d, 0.95); !errors.Is(err, tc.want) {
+			t.Errorf("%s: Interval error %v, want one wrapping %v", tc.name, err, tc.want)
+		}
+		if _, err := DonnerTest.Test(d); !errors.Is(err, tc.want) {
+			t.Errorf("%s: Test error %v, want one wrapping %v", tc.name, err, tc.want)
+		}
+	}
+}
+
+// TestClusterErrorsNameTheCluster checks that a bad cluster of the second
+// group is not reported as the "first group" of a comparison, as it was
+// when New checked clusters as one-group comparisons.
+func TestClusterErrorsNameTheCluster(t *testing.T) {
+	_, err := New("tray", proportions.Labels{First: "coated", Second: "bare"},
+		[]Cluster{{Value: "t1", Events: 1, Trials: 2}}, []Cluster{{Value: "t2", Events: 5, Trials: 3}})
+	if !errors.Is(err, proportions.ErrEventsExceedTrials) {
+		t.Fatalf("error %v, want one wrapping ErrEventsExceedTrials", err)
+	}
+	msg := err.Error()
+	if strings.Contains(msg, "first group") || !strings.Contains(msg, `"bare"`) || !strings.Contains(msg, `"t2"`) {
+		t.Errorf("message %q should name group \"bare\" and tray \"t2\", not a first group", msg)
+	}
+	_, err = New("tray", proportions.Labels{}, []Cluster{{Value: "t1", Events: 0, Trials: 0}}, []Cluster{{Value: "t2", Events: 1, Trials: 3}})
+	if !errors.Is(err, proportions.ErrNoTrials) || strings.Contains(err.Error(), "first group") {
+		t.Errorf("a cluster of no units: %v", err)
+	}
+}

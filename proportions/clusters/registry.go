@@ -32,11 +32,14 @@ type IntervalMethod struct {
 	PointEstimate func(s Summary) float64 `json:"-"`
 }
 
-// Interval validates the level, summarises the data and computes the
-// interval; see IntervalAt.
+// Interval validates the level and the data (as New does), summarises the
+// data and computes the interval; see IntervalAt.
 func (m IntervalMethod) Interval(d Data, level float64) (proportions.Interval, error) {
 	conf, err := proportions.NewConfidence(level)
 	if err != nil {
+		return proportions.Interval{}, err
+	}
+	if err := d.validate(); err != nil {
 		return proportions.Interval{}, err
 	}
 	s := Summarize(d)
@@ -76,11 +79,14 @@ type TestMethod struct {
 }
 
 // Test validates the options (it reads Level and Alternative; the null
-// must be 0, the only one these tests are defined for), summarises the
-// data and runs the test.
+// must be 0, the only one these tests are defined for) and the data (as New
+// does), summarises the data and runs the test.
 func (m TestMethod) Test(d Data, opts ...proportions.Option) (proportions.TestResult, error) {
 	h, err := m.Hypothesis(opts...)
 	if err != nil {
+		return proportions.TestResult{}, err
+	}
+	if err := d.validate(); err != nil {
 		return proportions.TestResult{}, err
 	}
 	s := Summarize(d)

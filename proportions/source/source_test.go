@@ -283,3 +283,56 @@ func TestParquetCancel(t *testing.T) {
 		t.Errorf("got %v, want context.Canceled", err)
 	}
 }
+
+// TestSQLCountsMustBeWholeNumbers checks the cell rows of SQL tables whose
+// count columns hold what is not a count: fractions that add up to a whole
+// number per group (2.5 + 0.5 events were read as 3) and text that is not a
+// number (SQLite's SUM counts it as 0, so 'abc' of 'def' trials became an
+// empty group). Each is refused naming the row and the column; counts
+// written as text digits (a CSV imported with text columns) and whole
+// numbers stored as reals still read as their numbers, checked against a
+// count by hand. A negative count beside a NULL is reported as the NULL,
+// not as an unreadable column.
+func TestSQLCountsMustBeWholeNumbers(t *testing.T) {
+	db := openDB(t, t.TempDir())
+	names := []string{"stratum", "group", "events", "trials"}
+	cell := proportions.BreakdownSpec{Layout: proportions.CellRows}
+	for _, tc := range []struct {
+		name  string
+		types []string
+		rows  [][]any
+		want  error
+		words []string
+	}{
+		{"fractions adding up to whole", []string{"TEXT", "TEXT", "", ""},
+			[][]any{{"x", "a", 2.5, 10}, {"x", "a", 0.5, 10}, {"x", "b", 1, 10}}, proportions.ErrColumnType, []string{`"events"`, "2.5", "whole"}},
+		{"text that is no number", []string{"TEXT", "TEXT", "", ""},
+			[][]any{{"x", "a", "abc", "def"}, {"x", "b", 1, 10}}, proportions.ErrColumnType, []string{`"events"`, "abc"}},
+		{"empty text trials", []string{"TEXT", "TEXT", "TEXT", "TEXT"},
+			[][]any{{"x", "a", "0", ""}, {"x", "b", "1", "10"}}, proportions.ErrColumnType, []string{`"trials"`}},
+		{"negative beside a NULL", []string{"TEXT", "TEXT", "", ""},
+			[][]any{{"x", "a", -1, nil}, {"x", "b", 1, 10}}, proportions.ErrNullValue, []string{`"trials"`}},
+	} {
+		table := strings.ReplaceAll(tc.name, " ", "_")
+		createTable(t, db, table, names, tc.types, tc.rows)
+		_, err := QuerySQL(db, SQLSpec{Table: table, BreakdownSpec: cell})
+		if !errors.Is(err, tc.want) {
+			t.Errorf("%s: error %v, want one wrapping %v", tc.name, err, tc.want)
+			continue
+		}
+		for _, w := range tc.words {
+			if !strings.Contains(err.Error(), w) {
+				t.Errorf("%s: error %q does not say %q", tc.name, err, w)
+			}
+		}
+	}
+	createTable(t, db, "digits", names, []string{"TEXT", "TEXT", "TEXT", "REAL"},
+		[][]any{{"x", "a", "3", 10.0}, {"x", "a", " 4", 20.0}, {"x", "b", "1", 10.0}})
+	b, err := QuerySQL(db, SQLSpec{Table: "digits", BreakdownSpec: cell})
+	if err != nil {
+		t.Fatalf("text digits and whole reals: %v", err)
+	}
+	if want := (proportions.Counts{X1: 7, N1: 30, X2: 1, N2: 10}); len(b.Rows) != 1 || b.Rows[0].Counts != want {
+		t.Errorf("text digits and whole reals: %+v, want one row %+v", b.Rows, want)
+	}
+}

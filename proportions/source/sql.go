@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 	"unicode/utf8"
 
@@ -52,9 +53,12 @@ func QuerySQL(db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
 // non-event is an error naming the value; a NULL in a column
 // the layout reads is an error naming the column and the breakdown value
 // and group where it occurs, unless spec.SkipNulls is set (then the rows
-// are counted in Breakdown.SkippedRows); a cell row with negative counts or
-// more events than trials is an error showing that row, even when the sums
-// would look valid. Errors wrap proportions.ErrSource (the database's own
+// are counted in Breakdown.SkippedRows); a cell row with negative counts,
+// more events than trials or a count that is not a whole number (a
+// fraction, text that is not a number) is an error showing that row, even
+// when the sums would look valid. Counts are compared as numbers (count +
+// 0) and checked whole with FLOOR, which SQLite builds without its math
+// functions lack (the query then fails with ErrSource). Errors wrap proportions.ErrSource (the database's own
 // error: no such table, a failed query), ErrMissingColumn, ErrColumnType,
 // ErrNullValue, ErrOutcomeValue, ErrNegativeCount, ErrEventsExceedTrials,
 // the errors of proportions.Tally, or the context's error.
@@ -175,7 +179,8 @@ func (q *sqlQuery) units(ctx context.Context, t *proportions.Tally) error {
 // the rows with a NULL in events, with a NULL in trials, with either, the
 // rows whose counts are impossible, and the sums of events and trials over
 // the rows with both. Impossible rows are found row by row, since sums can
-// hide them (−1 events in one row, +1 in another).
+// hide them (−1 events in one row, +1 in another; 2.5 events in one row,
+// 0.5 in another).
 func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 	by, group, e, n := q.cols[0], q.cols[1], q.cols[2], q.cols[3]
 	either := e + " IS NULL OR " + n + " IS NULL"
@@ -184,7 +189,7 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 		"  SUM(CASE WHEN " + e + " IS NULL THEN 1 ELSE 0 END),\n" +
 		"  SUM(CASE WHEN " + n + " IS NULL THEN 1 ELSE 0 END),\n" +
 		"  SUM(CASE WHEN " + either + " THEN 1 ELSE 0 END),\n" +
-		"  SUM(CASE WHEN " + e + " < 0 OR " + n + " < 0 OR " + e + " > " + n + " THEN 1 ELSE 0 END),\n" +
+		"  SUM(" + q.impossible() + "),\n" +
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + e + " END),\n" +
 		"  SUM(CASE WHEN " + either + " THEN 0 ELSE " + n + " END)\n" +
 		"FROM " + q.table + "\nGROUP BY " + by + ", " + group + "\nORDER BY " + by + ", " + group
@@ -211,6 +216,20 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 		return q.badCell(ctx)
 	}
 	return err
+}
+
+// impossible is 1 for a cell row with both counts whose counts cannot be:
+// negative, more events than trials, or not whole numbers (a fraction, or
+// text that is not a number, which the database's SUM would count as 0);
+// 0 otherwise, and for a row with a NULL (the NULL checks report those).
+// Counts are compared as numbers (x + 0), so that a count column of text
+// holding digits (a CSV imported as text) reads as its numbers; FLOOR is
+// NULL for text that is not a number, which the ELSE branch catches.
+func (q *sqlQuery) impossible() string {
+	e, n := q.cols[2], q.cols[3]
+	return "CASE WHEN " + e + " IS NULL OR " + n + " IS NULL THEN 0" +
+		" WHEN " + e + " + 0 < 0 OR " + n + " + 0 < 0 OR " + e + " + 0 > " + n + " + 0 THEN 1" +
+		" WHEN " + e + " + 0 = FLOOR(" + e + ") AND " + n + " + 0 = FLOOR(" + n + ") THEN 0 ELSE 1 END"
 }
 
 // errImpossible stops the grouped query when a group holds a cell row with
@@ -288,32 +307,44 @@ func (q *sqlQuery) nullError(k int, rows int64) error {
 		q.names[k], rows, proportions.ErrNullValue)
 }
 
-// badCell shows the first cell row with negative counts or more events
-// than trials, with its breakdown value and group, checked by a Tally so
-// the error is the one every source gives.
+// badCell shows the first cell row with negative counts, more events
+// than trials or a count that is not a whole number, with its breakdown
+// value and group: a count that is not a whole number wraps ErrColumnType,
+// other counts are checked by a Tally so the error is the one every source
+// gives.
 func (q *sqlQuery) badCell(ctx context.Context) error {
 	by, group, e, n := q.cols[0], q.cols[1], q.cols[2], q.cols[3]
 	query := "SELECT " + by + ", " + group + ", " + e + ", " + n + " FROM " + q.table +
-		"\nWHERE " + e + " < 0 OR " + n + " < 0 OR " + e + " > " + n
+		"\nWHERE " + q.impossible() + " = 1"
 	rows, err := q.db.QueryContext(ctx, query)
 	if err != nil {
 		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrSource, err)
 	}
 	defer rows.Close()
-	var value, grp sql.NullString
-	var events, trials int64
-	if rows.Next() {
-		if err := rows.Scan(&value, &grp, &events, &trials); err != nil {
-			return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrColumnType, err)
-		}
+	var value, grp, events, trials sql.NullString
+	if !rows.Next() {
+		return fmt.Errorf("table %q: %w: the database reported impossible counts that it then did not return", q.spec.Table, proportions.ErrSource)
 	}
+	if err := rows.Scan(&value, &grp, &events, &trials); err != nil {
+		return fmt.Errorf("table %q: %w: %w", q.spec.Table, proportions.ErrColumnType, err)
+	}
+	where := fmt.Sprintf("table %q, %s %q, group %q: a row has %q %s and %q %s",
+		q.spec.Table, q.names[0], value.String, grp.String, q.names[2], events.String, q.names[3], trials.String)
+	var counts [2]int64
+	for i, v := range [2]string{events.String, trials.String} {
+		n, err := strconv.ParseInt(strings.TrimSpace(v), 10, 64)
+		if err != nil {
+			return fmt.Errorf("%s: %w; column %q must hold whole numbers, and %q is not one", where, proportions.ErrColumnType, q.names[2+i], v)
+		}
+		counts[i] = n
+	}
+	x, nt := counts[0], counts[1]
 	t, err := proportions.NewTally(q.spec.BreakdownSpec)
 	if err != nil {
 		return err
 	}
-	if err := t.AddCell("row", "group", events, trials); err != nil {
-		return fmt.Errorf("table %q, %s %q, group %q: a row has %q %d and %q %d: %w",
-			q.spec.Table, q.names[0], value.String, grp.String, q.names[2], events, q.names[3], trials, err)
+	if err := t.AddCell("row", "group", x, nt); err != nil {
+		return fmt.Errorf("%s: %w", where, err)
 	}
 	return fmt.Errorf("table %q: %w: the database reported impossible counts that it then did not return", q.spec.Table, proportions.ErrSource)
 }

@@ -142,7 +142,8 @@ func (a Analysis) Used() int {
 // analysis is proportions.Analyze of Breakdown.Crude with the same
 // options. Rows with a group without trials are kept, flagged and left
 // out of the stratified methods; a breakdown with no row that has both
-// groups is refused with an error wrapping ErrNoTrials. Analyze is
+// groups is refused with an error wrapping ErrNoTrials, and one filled in
+// by hand is checked as NewBreakdown checks it (its errors). Analyze is
 // AnalyzeContext with context.Background().
 func Analyze(b proportions.Breakdown, opts ...proportions.Option) (Analysis, error) {
 	return AnalyzeContext(context.Background(), b, opts...)
@@ -162,6 +163,11 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...propor
 	if len(b.Rows) == 0 {
 		return Analysis{}, fmt.Errorf("stratified analysis: %w; the breakdown has no rows (build it with proportions.NewBreakdown)", proportions.ErrEmptyInput)
 	}
+	// a breakdown filled in by hand skipped NewBreakdown's checks, and
+	// negative counts or more events than trials gave wrong answers silently
+	if _, err := proportions.NewBreakdown(b.By, b.Labels(), b.Rows); err != nil {
+		return Analysis{}, fmt.Errorf("stratified analysis: %w", err)
+	}
 	ts := usable(b)
 	if len(ts) == 0 {
 		return Analysis{}, fmt.Errorf("stratified analysis by %s: %w in both groups in any row; at least one %s needs units of both %s and %s",
@@ -175,13 +181,17 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...propor
 	if a.Crude, err = proportions.AnalyzeContext(ctx, crude, opts...); err != nil {
 		return Analysis{}, err
 	}
-	a.Strata = strataRows(b, ts, ivConf)
+	if a.Strata, err = strataRows(ctx, b, ts, ivConf); err != nil {
+		return Analysis{}, err
+	}
 	a.Test = cochranMantelHaenszel(ts, s.Alternative, false)
 	a.Test.decide(s.Level)
 	corrected := cochranMantelHaenszel(ts, s.Alternative, true)
 	corrected.decide(s.Level)
 	a.Tests = []Test{a.Test, corrected}
-	a.Interval = stratifiedScore(ts, ivConf)
+	if a.Interval, err = stratifiedScore(ctx, ts, ivConf); err != nil {
+		return Analysis{}, err
+	}
 	or := mhOddsRatio(ts, ivConf)
 	a.Estimates = []Estimate{a.Interval, satoDifference(ts, ivConf), greenlandRobinsDifference(ts, ivConf), mhRatio(ts, ivConf), or}
 	if err := a.addExact(ctx, ts, s, conf, ivConf, or.Estimate); err != nil {
@@ -215,11 +225,17 @@ func settings(opts []proportions.Option) (s proportions.Settings, conf, ivConf p
 	return s, conf, ivConf, nil
 }
 
-// strataRows returns one Stratum per row of b, used or not.
-func strataRows(b proportions.Breakdown, ts []table, conf proportions.Confidence) []Stratum {
+// strataRows returns one Stratum per row of b, used or not, or ctx's error
+// (it looks every strataPerCheck rows: a score interval per row).
+func strataRows(ctx context.Context, b proportions.Breakdown, ts []table, conf proportions.Confidence) ([]Stratum, error) {
 	total := sum(ts, table.weight)
 	out := make([]Stratum, len(b.Rows))
 	for i, r := range b.Rows {
+		if i%strataPerCheck == strataPerCheck-1 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		s := Stratum{Value: r.Value, Counts: r.Counts, Difference: math.NaN(), Lower: math.NaN(), Upper: math.NaN(), OddsRatio: math.NaN()}
 		if !r.Empty() {
 			t := newTable(r.Value, r.Counts)
@@ -230,7 +246,7 @@ func strataRows(b proportions.Breakdown, ts []table, conf proportions.Confidence
 		}
 		out[i] = s
 	}
-	return out
+	return out, nil
 }
 
 // addExact runs the exact conditional test and interval unless the scope

@@ -112,3 +112,27 @@ func BenchmarkAnalyze(b *testing.B) {
 		})
 	}
 }
+
+// A cancel stops the stratified score interval inside its search: with
+// 300,000 strata every bisection step fits each stratum, and the whole
+// analysis took about 3.6 s without looking at its context. Best of
+// three attempts, each cancelled 30 ms in, must return the context's error
+// within 200 ms (a loose bound for a shared machine).
+func TestManyStrataCancel(t *testing.T) {
+	b := breakdownOf(t, evenRows(300_000, 40))
+	best := time.Hour
+	for range 3 {
+		ctx, cancel := context.WithTimeout(context.Background(), 30*time.Millisecond)
+		start := time.Now()
+		_, err := AnalyzeContext(ctx, b, proportions.WithScope(proportions.ScopeLargeSample))
+		late := time.Since(start) - 30*time.Millisecond
+		cancel()
+		if !errors.Is(err, context.DeadlineExceeded) {
+			t.Fatalf("err %v, want the context's error", err)
+		}
+		best = min(best, late)
+	}
+	if best > 200*time.Millisecond {
+		t.Errorf("returned %v after the cancel, want within 200 ms", best)
+	}
+}

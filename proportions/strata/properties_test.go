@@ -466,3 +466,26 @@ func TestExtremeBreakdownsGiveNumbers(t *testing.T) {
 		}
 	}
 }
+
+// TestBreakdownFilledInByHandIsChecked checks that Analyze refuses the rows
+// NewBreakdown refuses when a Breakdown is filled in directly: negative
+// counts, more events than trials, and events without trials were analysed
+// as they stood and gave wrong answers silently.
+func TestBreakdownFilledInByHandIsChecked(t *testing.T) {
+	good := proportions.BreakdownRow{Value: "b", Counts: proportions.Counts{X1: 3, N1: 5, X2: 2, N2: 5}}
+	for _, tc := range []struct {
+		name string
+		bad  proportions.BreakdownRow
+		want error
+	}{
+		{"negative events", proportions.BreakdownRow{Value: "a", Counts: proportions.Counts{X1: -1, N1: 5, X2: 2, N2: 5}}, proportions.ErrNegativeCount},
+		{"events above trials", proportions.BreakdownRow{Value: "a", Counts: proportions.Counts{X1: 7, N1: 5, X2: 2, N2: 5}}, proportions.ErrEventsExceedTrials},
+		{"events without trials", proportions.BreakdownRow{Value: "a", Counts: proportions.Counts{X1: 2, N1: 0, X2: 1, N2: 5}}, proportions.ErrNoTrials},
+		{"a value twice", proportions.BreakdownRow{Value: "b", Counts: proportions.Counts{X1: 1, N1: 5, X2: 2, N2: 5}}, proportions.ErrDuplicateValue},
+	} {
+		b := proportions.Breakdown{By: "block", First: "x", Second: "y", Event: "e", Rows: []proportions.BreakdownRow{tc.bad, good}}
+		if _, err := Analyze(b); !errors.Is(err, tc.want) {
+			t.Errorf("%s: error %v, want one wrapping %v", tc.name, err, tc.want)
+		}
+	}
+}
