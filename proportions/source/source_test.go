@@ -335,4 +335,34 @@ func TestSQLCountsMustBeWholeNumbers(t *testing.T) {
 	if want := (proportions.Counts{X1: 7, N1: 30, X2: 1, N2: 10}); len(b.Rows) != 1 || b.Rows[0].Counts != want {
 		t.Errorf("text digits and whole reals: %+v, want one row %+v", b.Rows, want)
 	}
+	// Zero counts in every storage: text '0' and the numbers 0 and 0.0, in
+	// untyped and in TEXT columns (SQLite compares them differently with a
+	// number), are counts of zero, not text that is no number.
+	for _, types := range [][]string{{"TEXT", "TEXT", "", ""}, {"TEXT", "TEXT", "TEXT", "TEXT"}} {
+		table := "zeros_" + strings.ToLower(types[2]) + "x"
+		createTable(t, db, table, names, types,
+			[][]any{{"x", "a", "0", 10}, {"x", "a", 0, "5"}, {"x", "a", 0.0, 5.0}, {"x", "b", "2", "10"}})
+		b, err := QuerySQL(db, SQLSpec{Table: table, BreakdownSpec: cell})
+		if err != nil {
+			t.Errorf("zero counts in %v columns: %v", types[2:], err)
+			continue
+		}
+		if want := (proportions.Counts{X1: 0, N1: 20, X2: 2, N2: 10}); len(b.Rows) != 1 || b.Rows[0].Counts != want {
+			t.Errorf("zero counts in %v columns: %+v, want one row %+v", types[2:], b.Rows, want)
+		}
+	}
+}
+
+// TestSQLCountCheckUsesCoreFunctions: the row check must run on SQLite
+// builds without their math functions (the default of common drivers),
+// which lack FLOOR and CEIL; a query naming them fails there on every
+// table of cell rows.
+func TestSQLCountCheckUsesCoreFunctions(t *testing.T) {
+	q := sqlQuery{cols: []string{`"s"`, `"g"`, `"e"`, `"n"`}}
+	check := strings.ToUpper(q.impossible())
+	for _, f := range []string{"FLOOR", "CEIL", "TRUNC", "MOD("} {
+		if strings.Contains(check, f) {
+			t.Errorf("the count check uses %s, missing from SQLite builds without math functions: %s", f, check)
+		}
+	}
 }

@@ -57,8 +57,8 @@ func QuerySQL(db Queryer, spec SQLSpec) (proportions.Breakdown, error) {
 // more events than trials or a count that is not a whole number (a
 // fraction, text that is not a number) is an error showing that row, even
 // when the sums would look valid. Counts are compared as numbers (count +
-// 0) and checked whole with FLOOR, which SQLite builds without its math
-// functions lack (the query then fails with ErrSource). Errors wrap proportions.ErrSource (the database's own
+// 0) with core SQL only (CASE, ROUND), so that SQLite builds without their
+// math functions read them too. Errors wrap proportions.ErrSource (the database's own
 // error: no such table, a failed query), ErrMissingColumn, ErrColumnType,
 // ErrNullValue, ErrOutcomeValue, ErrNegativeCount, ErrEventsExceedTrials,
 // the errors of proportions.Tally, or the context's error.
@@ -223,13 +223,25 @@ func (q *sqlQuery) cells(ctx context.Context, t *proportions.Tally) error {
 // text that is not a number, which the database's SUM would count as 0);
 // 0 otherwise, and for a row with a NULL (the NULL checks report those).
 // Counts are compared as numbers (x + 0), so that a count column of text
-// holding digits (a CSV imported as text) reads as its numbers; FLOOR is
-// NULL for text that is not a number, which the ELSE branch catches.
+// holding digits (a CSV imported as text) reads as its numbers. It uses
+// core SQL only: FLOOR is missing from SQLite builds without their math
+// functions (the default of common drivers), ROUND is in every database.
 func (q *sqlQuery) impossible() string {
 	e, n := q.cols[2], q.cols[3]
 	return "CASE WHEN " + e + " IS NULL OR " + n + " IS NULL THEN 0" +
 		" WHEN " + e + " + 0 < 0 OR " + n + " + 0 < 0 OR " + e + " + 0 > " + n + " + 0 THEN 1" +
-		" WHEN " + e + " + 0 = FLOOR(" + e + ") AND " + n + " + 0 = FLOOR(" + n + ") THEN 0 ELSE 1 END"
+		" WHEN " + notCount(e) + " OR " + notCount(n) + " THEN 1 ELSE 0 END"
+}
+
+// notCount is an SQL condition, true when the non-NULL column c holds no
+// whole number: a fraction (ROUND changes it), or text that is not a
+// number, which reads as 0 in x + 0 yet differs from the number 0 and from
+// the texts '0' and '0.0' (SQLite compares a TEXT column with a number as
+// text, an untyped one by type; '0.0' is how data frames write a zero of a
+// column of reals). A zero written otherwise in a TEXT column ('00', ' 0')
+// is taken for text and reported with its row.
+func notCount(c string) string {
+	return "(ROUND(" + c + " + 0) <> " + c + " + 0 OR (" + c + " + 0 = 0 AND " + c + " <> 0 AND " + c + " NOT IN ('0', '0.0')))"
 }
 
 // errImpossible stops the grouped query when a group holds a cell row with
