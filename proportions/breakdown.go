@@ -106,8 +106,16 @@ func (b Breakdown) Labels() Labels {
 }
 
 // Comparison returns row i as a comparison with the breakdown's labels. It
-// fails with ErrNoTrials for an empty row.
+// fails with ErrNoTrials for an empty row, and with ErrEmptyInput when the
+// breakdown has no row i (rows count from 0).
 func (b Breakdown) Comparison(i int) (Comparison, error) {
+	if len(b.Rows) == 0 {
+		return Comparison{}, fmt.Errorf("row %d of a breakdown by %q: %w; the breakdown has no rows", i, b.By, ErrEmptyInput)
+	}
+	if i < 0 || i >= len(b.Rows) {
+		return Comparison{}, fmt.Errorf("row %d of a breakdown by %q: %w; its rows are numbered from 0 to %d",
+			i, b.By, ErrEmptyInput, len(b.Rows)-1)
+	}
 	r := b.Rows[i]
 	c, err := NewComparison(r.Counts.X1, r.Counts.N1, r.Counts.X2, r.Counts.N2, b.Labels())
 	if err != nil {

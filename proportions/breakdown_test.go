@@ -76,3 +76,32 @@ func TestHugeCountsAreTooLargeNotMalformed(t *testing.T) {
 		t.Errorf("2.5: error %v, want one wrapping ErrMalformedRow", err)
 	}
 }
+
+// TestComparisonOfAMissingRow: asking for a row the breakdown does not
+// have (negative, past the end, any row of an empty breakdown) is an error
+// wrapping ErrEmptyInput that gives the rows' numbers; it panicked
+// with an index out of range.
+func TestComparisonOfAMissingRow(t *testing.T) {
+	b, err := NewBreakdown("tray", Labels{First: "coated", Second: "bare", Event: "germinated"},
+		[]BreakdownRow{{Value: "t1", Counts: Counts{X1: 3, N1: 10, X2: 2, N2: 10}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := b.Comparison(0); err != nil {
+		t.Errorf("row 0: %v", err)
+	}
+	for _, c := range []struct {
+		b     Breakdown
+		i     int
+		words string
+	}{
+		{b, 1, "from 0 to 0"},
+		{b, -1, "from 0 to 0"},
+		{Breakdown{By: "tray"}, 0, "no rows"},
+	} {
+		_, err := c.b.Comparison(c.i)
+		if !errors.Is(err, ErrEmptyInput) || !strings.Contains(err.Error(), c.words) {
+			t.Errorf("row %d of %d: %v, want an error wrapping ErrEmptyInput that says %q", c.i, len(c.b.Rows), err, c.words)
+		}
+	}
+}
