@@ -69,7 +69,8 @@ func Analyze(b proportions.Breakdown, opts ...Option) (Result, error) {
 // when ctx ends (checked every few thousand segments). Options: see
 // WithAdjustment, WithMinTrials and WithAnalysis. Errors wrap a sentinel
 // of proportions (ErrLevel, ErrNull, ErrAlternative, ErrAdjustment,
-// ErrNegativeCount, or a row's own error for a breakdown built by hand).
+// ErrNegativeCount, or a row's own error for a breakdown built by hand,
+// ErrDuplicateValue for a value given twice).
 func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...Option) (Result, error) {
 	s, err := newSettings(opts)
 	if err != nil {
@@ -86,6 +87,9 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...Option
 		if err := checkRow(i+1, r); err != nil {
 			return Result{}, err
 		}
+	}
+	if err := checkUnique(b.By, b.Rows); err != nil {
+		return Result{}, err
 	}
 	res := Result{Summary: a.summary(b.By, b.Labels(), s), Segments: make([]Segment, len(b.Rows))}
 	err = parallelChunks(ctx, len(b.Rows), func(lo, hi int) {

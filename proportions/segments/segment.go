@@ -3,6 +3,7 @@ package segments
 import (
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/propscope/propscope/proportions"
@@ -117,6 +118,31 @@ func checkRow(number int, r proportions.BreakdownRow) error {
 		return fmt.Errorf("segment %d (%q): %w", number, r.Value, err)
 	}
 	return nil
+}
+
+// checkUnique returns an error wrapping ErrDuplicateValue naming the first
+// value (by position) that two rows share, as NewBreakdown does for the
+// breakdowns it builds: a segment counted twice would enter the
+// adjustment twice. It sorts row numbers (8 bytes a row) rather than
+// filling a map of the values.
+func checkUnique(by string, rows []proportions.BreakdownRow) error {
+	order := make([]int, len(rows))
+	for i := range order {
+		order[i] = i
+	}
+	value := func(i int) string { return strings.TrimSpace(rows[i].Value) }
+	slices.SortStableFunc(order, func(a, b int) int { return strings.Compare(value(a), value(b)) })
+	first, second := -1, -1
+	for k := 1; k < len(order); k++ {
+		if i, j := order[k-1], order[k]; value(i) == value(j) && (first < 0 || j < second) {
+			first, second = i, j
+		}
+	}
+	if first < 0 {
+		return nil
+	}
+	return fmt.Errorf("segments %d and %d: %q: %w; each value of %q may appear once",
+		first+1, second+1, value(first), proportions.ErrDuplicateValue, by)
 }
 
 // segment analyses one valid row.

@@ -230,6 +230,26 @@ func TestAnalyzeRejectsBadInput(t *testing.T) {
 	}
 }
 
+// TestAnalyzeRejectsRepeatedValues: a breakdown built by hand that gives
+// one value twice is refused as NewBreakdown refuses it, naming the first
+// repetition (rows 2 and 4, not 4 and 5 or 1 and 3), with surrounding
+// spaces ignored as NewBreakdown ignores them; it was analysed with the
+// segment counted twice in the adjustment.
+func TestAnalyzeRejectsRepeatedValues(t *testing.T) {
+	row := func(v string) proportions.BreakdownRow {
+		return proportions.BreakdownRow{Value: v, Counts: proportions.Counts{X1: 3, N1: 10, X2: 2, N2: 10}}
+	}
+	b := proportions.Breakdown{By: "plot", Rows: []proportions.BreakdownRow{row("p1"), row("p2"), row("p3"), row("p2 "), row("p2"), row("p1")}}
+	_, err := Analyze(b)
+	if !errors.Is(err, proportions.ErrDuplicateValue) || !strings.Contains(err.Error(), `segments 2 and 4: "p2"`) {
+		t.Errorf("a value given twice: %v, want ErrDuplicateValue naming segments 2 and 4", err)
+	}
+	b.Rows = []proportions.BreakdownRow{row("p1"), row("p2"), row("p3")}
+	if _, err := Analyze(b); err != nil {
+		t.Errorf("distinct values: %v", err)
+	}
+}
+
 // A breakdown with no tested segment says so and has no simultaneous
 // level (null in JSON).
 func TestAllSegmentsEmpty(t *testing.T) {
