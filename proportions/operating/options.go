@@ -17,12 +17,13 @@ type Progress func(done, total int)
 type RunOption func(*config)
 
 type config struct {
-	progress  Progress
-	pi1, pi2  []float64
-	steps     int
-	tolerance float64
-	workers   int
-	guard     *proportions.Cost // nil: EngineCost
+	progress     Progress
+	pi1, pi2     []float64
+	steps        int
+	tolerance    float64 // with toleranceSet; else DefaultTolerance capped by the level
+	toleranceSet bool
+	workers      int
+	guard        *proportions.Cost // nil: EngineCost
 }
 
 // WithProgress reports progress to f.
@@ -51,20 +52,33 @@ func WithSteps(k int) RunOption { return func(c *config) { c.steps = k } }
 
 // WithTolerance sets how far below the nominal level a method's minimum
 // coverage may fall and still count as holding its level in [Recommend]
-// (default 0.02, that is 2 percentage points; between 0 and the level).
-func WithTolerance(t float64) RunOption { return func(c *config) { c.tolerance = t } }
+// (default 0.02, that is 2 percentage points, or half the level when the
+// level is below 0.04; between 0 and the level).
+func WithTolerance(t float64) RunOption {
+	return func(c *config) { c.tolerance, c.toleranceSet = t, true }
+}
 
 // WithWorkers sets the number of goroutines (default GOMAXPROCS).
 func WithWorkers(n int) RunOption { return func(c *config) { c.workers = n } }
 
 func newConfig(opts []RunOption) config {
-	c := config{tolerance: DefaultTolerance}
+	var c config
 	for _, o := range opts {
 		if o != nil {
 			o(&c)
 		}
 	}
 	return c
+}
+
+// toleranceFor returns the configured tolerance, or for a level the
+// default cannot serve (below 0.04: a tolerance of 0.02 would leave little
+// or no coverage to hold) half the level.
+func (c config) toleranceFor(level float64) float64 {
+	if !c.toleranceSet {
+		return min(DefaultTolerance, level/2)
+	}
+	return c.tolerance
 }
 
 // stepsOr returns the configured number of steps or def, validated.

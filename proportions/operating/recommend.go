@@ -12,7 +12,7 @@ import (
 
 // DefaultTolerance is how far below the nominal level a method's minimum
 // coverage may fall and still count as holding its level in [Recommend]:
-// two percentage points.
+// two percentage points (half the level for levels below 0.04).
 const DefaultTolerance = 0.02
 
 // closenessStep is the resolution at which mean coverages are compared
@@ -95,8 +95,9 @@ func Recommend(ctx context.Context, f proportions.Scale, d Design, opts ...RunOp
 		return nil, err
 	}
 	cfg := newConfig(opts)
+	cfg.tolerance = cfg.toleranceFor(d.Level)
 	if !(cfg.tolerance >= 0 && cfg.tolerance < d.Level) {
-		return nil, fmt.Errorf("tolerance %v: %w; use a value from 0 up to the level, such as 0.02", cfg.tolerance, proportions.ErrPlan)
+		return nil, fmt.Errorf("tolerance %v: %w; use a value from 0 up to the level %v, such as %v", cfg.tolerance, proportions.ErrPlan, d.Level, min(DefaultTolerance, d.Level/2))
 	}
 	rec := &Recommendation{Design: d, Scale: f, Tolerance: cfg.tolerance, Criterion: Criterion}
 	var methods []proportions.IntervalMethod

@@ -3,6 +3,7 @@ package operating
 import (
 	"context"
 	"errors"
+	"math"
 	"testing"
 
 	"github.com/propscope/propscope/proportions"
@@ -49,5 +50,30 @@ func TestRecommend(t *testing.T) {
 	}
 	if _, err := Recommend(context.Background(), proportions.Difference, d, WithTolerance(-1)); !errors.Is(err, proportions.ErrPlan) {
 		t.Errorf("negative tolerance: %v", err)
+	}
+	if _, err := Recommend(context.Background(), proportions.Difference, d, WithTolerance(math.NaN())); !errors.Is(err, proportions.ErrPlan) {
+		t.Errorf("NaN tolerance: %v", err)
+	}
+}
+
+// TestRecommendAtALowLevel: at a level below 0.02 the default tolerance
+// of 2 points would leave no coverage to hold, and Recommend failed with
+// an error about a tolerance nobody set; the default is now half the level
+// there. A tolerance set by hand is still checked against the level.
+func TestRecommendAtALowLevel(t *testing.T) {
+	d, err := NewDesign(8, 8, 0.01)
+	if err != nil {
+		t.Fatal(err)
+	}
+	grid := []float64{0.2, 0.5, 0.8}
+	rec, err := Recommend(context.Background(), proportions.Difference, d, WithGrid(grid, grid))
+	if err != nil {
+		t.Fatalf("level 0.01 with the default tolerance: %v", err)
+	}
+	if rec.Tolerance != 0.005 {
+		t.Errorf("default tolerance at level 0.01: %v, want half the level, 0.005", rec.Tolerance)
+	}
+	if _, err := Recommend(context.Background(), proportions.Difference, d, WithGrid(grid, grid), WithTolerance(0.02)); !errors.Is(err, proportions.ErrPlan) {
+		t.Errorf("tolerance 0.02 set by hand at level 0.01: %v, want ErrPlan", err)
 	}
 }
