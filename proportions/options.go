@@ -2,7 +2,6 @@ package proportions
 
 import (
 	"fmt"
-	"math"
 )
 
 // DefaultLevel is the confidence level used when none is given.
@@ -94,9 +93,18 @@ func ValidateLevel(level float64) error {
 	return nil
 }
 
+// MaxNullRatio bounds a null value on the ratio and odds-ratio scales to
+// [1/MaxNullRatio, MaxNullRatio] = [10⁻¹², 10¹²]. Beyond, floating point
+// decides: at a null of 1.7·10³⁰⁸ (and of 5·10⁻³²⁴ for the odds ratio)
+// the restricted fit of the score tests overflowed and they rejected with
+// z = +∞ a null their own intervals contained; a ratio of rates beyond
+// 10¹² answers no question of the trade.
+const MaxNullRatio = 1e12
+
 // ValidateNull returns an error wrapping ErrNull unless the null value is
-// inside the parameter space of the scale: (−1, 1) for the difference and
-// (0, ∞) for the ratio and the odds ratio.
+// inside the parameter space of the scale: (−1, 1) for the difference, and
+// for the ratio and the odds ratio (0, ∞) as far as MaxNullRatio reaches:
+// [10⁻¹², 10¹²].
 func ValidateNull(f Scale, null float64) error {
 	switch f {
 	case Difference:
@@ -104,8 +112,8 @@ func ValidateNull(f Scale, null float64) error {
 			return fmt.Errorf("null difference %v: %w; a difference of proportions under the null must lie strictly between -1 and 1", null, ErrNull)
 		}
 	case Ratio, OddsRatio:
-		if !(null > 0) || math.IsInf(null, 1) {
-			return fmt.Errorf("null %s %v: %w; it must be a finite number greater than 0", f, null, ErrNull)
+		if !(null >= 1/MaxNullRatio && null <= MaxNullRatio) {
+			return fmt.Errorf("null %s %v: %w; it must be a number greater than 0, from %g to %g", f, null, ErrNull, 1/MaxNullRatio, float64(MaxNullRatio))
 		}
 	}
 	return nil
