@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"time"
 
 	"github.com/parquet-go/parquet-go"
 	"github.com/parquet-go/parquet-go/deprecated"
@@ -31,7 +32,8 @@ func ReadParquet(r io.ReaderAt, size int64, spec proportions.BreakdownSpec) (pro
 // are never decoded), so memory stays flat in the number of rows. The
 // columns are top-level columns found by name as in a CSV header
 // (proportions.FindColumns). The breakdown and group columns may hold text,
-// integers or booleans (written as decimal numbers and "true"/"false");
+// integers or booleans (written as decimal numbers and "true"/"false";
+// integers annotated as dates as 2006-01-02, as timestamps in RFC 3339);
 // an outcome column of text, integers (1, 0) or booleans is classified by
 // spec's outcome values; events and trials must be integer columns of
 // plain integers (signed or unsigned; a decimal, time or date annotation is
@@ -95,6 +97,11 @@ type parquetColumn struct {
 	kind     parquet.Kind
 	unsigned bool // an unsigned integer annotation
 	texts    texts
+	// calendar, set for an integer column annotated as dates or
+	// timestamps, writes a value as its date or moment; moments keeps the
+	// strings made (bounded by maxTexts, as texts).
+	calendar func(int64) string
+	moments  map[int64]string
 }
 
 // parquetColumns finds the layout's columns among the file's top-level
@@ -126,6 +133,10 @@ func parquetColumns(f *parquet.File, spec proportions.BreakdownSpec) ([]*parquet
 			return nil, err
 		}
 		cols[k] = &parquetColumn{name: c.Name(), leaf: c.Index(), kind: kind, unsigned: unsigned, texts: texts{}}
+		if !counts {
+			cols[k].calendar = calendar(c.Type())
+			cols[k].moments = map[int64]string{}
+		}
 	}
 	return cols, nil
 }
@@ -176,6 +187,82 @@ func integerAnnotation(name string, t parquet.Type, counts bool) (unsigned bool,
 		return false, fmt.Errorf("column %q holds %s values: %w; a count column must hold plain integers, not decimals, times or dates", name, annotation, proportions.ErrColumnType)
 	}
 	return false, nil
+}
+
+// calendar returns how to write the integers of a breakdown, group or
+// outcome column whose annotation makes them dates or timestamps, or nil
+// for plain integers: a date as 2006-01-02, a timestamp in RFC 3339 (with
+// Z when the file says it is adjusted to UTC, without a zone when it is
+// local time), as the people who wrote the file read them, rather than as
+// days or milliseconds since 1970 (a segment named "19000").
+func calendar(t parquet.Type) func(int64) string {
+	lt := t.LogicalType()
+	if lt == nil || lt.Value == nil {
+		return legacyCalendar(t.ConvertedType())
+	}
+	switch v := lt.Value.(type) {
+	case *format.DateType:
+		return formatDate
+	case *format.TimestampType:
+		if v.Unit.Value == nil {
+			return nil
+		}
+		return formatMoment(v.Unit.Value.Duration(), v.IsAdjustedToUTC)
+	}
+	return nil
+}
+
+// legacyCalendar is calendar for files that annotate with the older
+// converted types only (dates and UTC timestamps in milli- or
+// microseconds).
+func legacyCalendar(ct *deprecated.ConvertedType) func(int64) string {
+	if ct == nil {
+		return nil
+	}
+	switch *ct {
+	case deprecated.Date:
+		return formatDate
+	case deprecated.TimestampMillis:
+		return formatMoment(time.Millisecond, true)
+	case deprecated.TimestampMicros:
+		return formatMoment(time.Microsecond, true)
+	}
+	return nil
+}
+
+// formatDate writes a count of days since 1970-01-01 as a date.
+func formatDate(days int64) string {
+	return time.Unix(0, 0).UTC().AddDate(0, 0, int(days)).Format(time.DateOnly)
+}
+
+// formatMoment writes counts of unit since 1970-01-01T00:00:00 as moments
+// in RFC 3339 with the fraction the value has, in UTC or without a zone.
+func formatMoment(unit time.Duration, utc bool) func(int64) string {
+	layout := "2006-01-02T15:04:05.999999999"
+	if utc {
+		layout = time.RFC3339Nano
+	}
+	perSecond := int64(time.Second / unit)
+	return func(n int64) string {
+		sec, frac := n/perSecond, n%perSecond
+		if frac < 0 {
+			sec, frac = sec-1, frac+perSecond
+		}
+		return time.Unix(sec, frac*int64(unit)).UTC().Format(layout)
+	}
+}
+
+// moment returns the date or moment of an integer value of a calendar
+// column, reusing the strings already made.
+func (c *parquetColumn) moment(n int64) string {
+	if s, ok := c.moments[n]; ok {
+		return s
+	}
+	s := c.calendar(n)
+	if len(c.moments) < maxTexts {
+		c.moments[n] = s
+	}
+	return s
 }
 
 // parquetRows counts the rows of a file, row group after row group.
@@ -249,13 +336,17 @@ const maxTexts = 1 << 12
 type texts map[string]string
 
 // text returns a value as text: the bytes of a text column, the decimal
-// form of an integer, "true" or "false".
+// form of an integer (a date or moment for a calendar column), "true" or
+// "false".
 func (c *parquetColumn) text(v parquet.Value) string {
 	switch c.kind {
 	case parquet.Boolean:
 		return strconv.FormatBool(v.Boolean())
 	case parquet.Int32, parquet.Int64:
 		n := c.integer(v)
+		if c.calendar != nil {
+			return c.moment(n)
+		}
 		if n >= 0 && n < int64(len(smallInts)) {
 			return smallInts[n]
 		}

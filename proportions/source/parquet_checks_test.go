@@ -106,3 +106,44 @@ func isDataError(err error) bool {
 	}
 	return false
 }
+
+// TestParquetCalendarColumns: a breakdown column of dates or timestamps is
+// read as dates and moments, not as the days or milliseconds since 1970
+// the file stores (a DATE column gave segments named "19000"). Expected
+// values by hand: day 19000 after 1970-01-01 is 2022-01-08, day −1 is
+// 1969-12-31; 1.6·10¹² ms is 2020-09-13T12:26:40Z. Count columns with such
+// annotations stay refused (TestParquetCountAnnotations).
+func TestParquetCalendarColumns(t *testing.T) {
+	cell := proportions.BreakdownSpec{Layout: proportions.CellRows}
+	counts := func(by column) []column {
+		return []column{by,
+			{"group", parquet.String(), []any{"a", "b", "a", "b"}},
+			{"events", parquet.Int(32), []any{int32(1), int32(2), int32(3), int32(4)}},
+			{"trials", parquet.Int(32), []any{int32(10), int32(10), int32(10), int32(10)}},
+		}
+	}
+	for _, tc := range []struct {
+		name string
+		by   column
+		want []string
+	}{
+		{"date", column{"stratum", parquet.Date(), []any{int32(19000), int32(19000), int32(-1), int32(-1)}}, []string{"2022-01-08", "1969-12-31"}},
+		{"UTC timestamp in ms", column{"stratum", parquet.Timestamp(parquet.Millisecond), []any{int64(1_600_000_000_000), int64(1_600_000_000_000), int64(1_600_000_000_250), int64(1_600_000_000_250)}},
+			[]string{"2020-09-13T12:26:40Z", "2020-09-13T12:26:40.25Z"}},
+		{"local timestamp in µs", column{"stratum", parquet.TimestampAdjusted(parquet.Microsecond, false), []any{int64(-1), int64(-1), int64(0), int64(0)}},
+			[]string{"1969-12-31T23:59:59.999999", "1970-01-01T00:00:00"}},
+	} {
+		b, err := readParquetFile(t, writeParquet(t, t.TempDir(), 100, counts(tc.by)), cell)
+		if err != nil {
+			t.Errorf("%s: %v", tc.name, err)
+			continue
+		}
+		var got []string
+		for _, r := range b.Rows {
+			got = append(got, r.Value)
+		}
+		if strings.Join(got, " | ") != strings.Join(tc.want, " | ") {
+			t.Errorf("%s: values %q, want %q", tc.name, got, tc.want)
+		}
+	}
+}
