@@ -192,12 +192,23 @@ func AnalyzeContext(ctx context.Context, b proportions.Breakdown, opts ...propor
 	if a.Interval, err = stratifiedScore(ctx, ts, ivConf); err != nil {
 		return Analysis{}, err
 	}
+	if err := ctx.Err(); err != nil {
+		return Analysis{}, err
+	}
 	or := mhOddsRatio(ts, ivConf)
 	a.Estimates = []Estimate{a.Interval, satoDifference(ts, ivConf), greenlandRobinsDifference(ts, ivConf), mhRatio(ts, ivConf), or}
 	if err := a.addExact(ctx, ts, s, conf, ivConf, or.Estimate); err != nil {
 		return Analysis{}, err
 	}
+	// each step below passes over every stratum once (tens of
+	// milliseconds at 10⁵ strata): a cancel is seen between them
+	if err := ctx.Err(); err != nil {
+		return Analysis{}, err
+	}
 	a.addHomogeneity(ts, or.Estimate)
+	if err := ctx.Err(); err != nil {
+		return Analysis{}, err
+	}
 	a.addWarnings(ts)
 	a.Conclusion = conclusion(a)
 	return a, nil
